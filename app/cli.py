@@ -1,0 +1,81 @@
+"""The ``batten`` command line: one entry point, one module per sub-command.
+
+Every sub-command lives in ``app/commands/<name>.py`` and provides
+``add_arguments(parser)`` and ``run(args) -> int``. Errors Batten raises on
+purpose (:class:`geometry.BattenError`) print one clear line and exit with
+status 2; nothing the user did wrong ends in a traceback.
+"""
+
+from __future__ import annotations
+
+import argparse
+import importlib
+import os
+import sys
+
+from geometry import BattenError, __version__
+
+# name -> (module, one-line help). Modules load only when their command runs.
+COMMANDS: dict[str, tuple[str, str]] = {
+    "open": ("app.commands.open", "open a model in the inspection window (the default)"),
+    "summary": ("app.commands.summary", "print the curvature summary of each face"),
+    "probe": ("app.commands.probe", "curvature and normal at a point of a model, as JSON"),
+    "section": ("app.commands.section", "plane sections with curvature combs and inflections, as JSON"),
+    "check": ("app.commands.check", "run every fairness check; exit 1 when any finding is over tolerance"),
+}
+DEFAULT_COMMAND = "open"
+
+EXIT_OK, EXIT_FINDINGS, EXIT_BAD_INPUT, EXIT_INTERNAL = 0, 1, 2, 3
+
+
+def _parser() -> argparse.ArgumentParser:
+    parser = argparse.ArgumentParser(
+        prog="batten",
+        description="Inspect the fairness of NURBS surfaces: curvature, reflections, seams, reports. "
+        "'batten FILE' opens FILE in the window.",
+    )
+    parser.add_argument("--version", action="version", version=f"batten {__version__}")
+    subs = parser.add_subparsers(dest="command", metavar="COMMAND")
+    for name, (module_name, help_text) in COMMANDS.items():
+        sub = subs.add_parser(name, help=help_text, description=help_text)
+        try:
+            module = importlib.import_module(module_name)
+        except ModuleNotFoundError as exc:
+            if exc.name != module_name:
+                raise
+            sub.set_defaults(_missing=name)
+            continue
+        module.add_arguments(sub)
+        sub.set_defaults(_run=module.run)
+    return parser
+
+
+def main(argv: list[str] | None = None) -> int:
+    """Run the command line; returns the process exit status."""
+    argv = list(sys.argv[1:] if argv is None else argv)
+    if argv and not argv[0].startswith("-") and argv[0] not in COMMANDS:
+        argv.insert(0, DEFAULT_COMMAND)
+    parser = _parser()
+    args = parser.parse_args(argv)
+    if args.command is None:
+        parser.print_help()
+        return EXIT_OK
+    if getattr(args, "_missing", None):
+        print(f"batten: the '{args._missing}' command is not available in this build", file=sys.stderr)
+        return EXIT_INTERNAL
+    try:
+        return int(args._run(args) or 0)
+    except BattenError as exc:
+        print(f"batten: {exc}", file=sys.stderr)
+        return EXIT_BAD_INPUT
+    except KeyboardInterrupt:
+        return 130
+    except Exception as exc:  # a bug of ours: say so in one line, trace only on request
+        if os.environ.get("BATTEN_DEBUG"):
+            raise
+        print(f"batten: internal error ({type(exc).__name__}: {exc}); set BATTEN_DEBUG=1 for details", file=sys.stderr)
+        return EXIT_INTERNAL
+
+
+if __name__ == "__main__":
+    sys.exit(main())

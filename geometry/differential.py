@@ -1,0 +1,380 @@
+"""Differential geometry of a surface from its exact partial derivatives.
+
+Sign conventions (written once in DEVELOPERS.md, used everywhere):
+
+- unit normal ``n = (Su x Sv) / |Su x Sv|``, negated on a reversed face;
+- second fundamental form ``L = Suu . n``, ``M = Suv . n``, ``N = Svv . n``, so a
+  surface that bends towards its normal has positive normal curvature;
+- principal curvatures ``k1 >= k2``; ``K = k1 k2``; ``H = (k1 + k2) / 2``;
+- ``dir1`` is the unit direction of k1, ``dir2 = n x dir1`` that of k2, so
+  (dir1, dir2, n) is a right-handed frame.
+
+The formulas are those of do Carmo, *Differential Geometry of Curves and
+Surfaces* (1976), sec. 3-3: K = (LN - M^2) / (EG - F^2) and
+H = (EN - 2FM + GL) / (2 (EG - F^2)), k = H +- sqrt(H^2 - K).
+"""
+
+from __future__ import annotations
+
+import os
+from concurrent.futures import ThreadPoolExecutor
+from dataclasses import dataclass, fields
+
+import numpy as np
+
+from .basis import basis_matrices
+from .nurbs import NurbsSurface
+
+# A sample is degenerate when |Su x Sv| is this small against |Su| |Sv|: the
+# tangent plane is undefined there (a pole, a collapsed edge, a cusp).
+DEGENERATE_SINE = 1e-9
+# Principal curvatures closer than this (relative to their size) make an umbilic.
+UMBILIC_RELATIVE = 1e-7
+# Nudge, as a fraction of the domain, towards the interior when re-evaluating a
+# degenerate sample to report the limit values there.
+LIMIT_NUDGE = 1e-4
+
+_CHUNK_POINTS = 1 << 14
+
+
+@dataclass(frozen=True, eq=False)
+class CurvatureField:
+    """Curvature quantities on a set of samples (grid or scattered).
+
+    Attributes
+    ----------
+    points, normals, dir1, dir2 : ndarray of shape (..., 3)
+    gaussian, mean, k1, k2 : ndarray of shape (...)
+        In 1/mm^2 (gaussian) and 1/mm (the others).
+    valid : ndarray of bool, shape (...)
+        False where the tangent plane is degenerate. Values there are the
+        limits from a nearby interior parameter where that is regular, else NaN.
+    umbilic : ndarray of bool, shape (...)
+        True where k1 == k2: the principal directions are arbitrary there
+        (dir1 follows Su).
+    """
+
+    points: np.ndarray
+    normals: np.ndarray
+    gaussian: np.ndarray
+    mean: np.ndarray
+    k1: np.ndarray
+    k2: np.ndarray
+    dir1: np.ndarray
+    dir2: np.ndarray
+    valid: np.ndarray
+    umbilic: np.ndarray
+
+    def __post_init__(self):
+        for f in fields(self):
+            getattr(self, f.name).setflags(write=False)
+
+    @property
+    def max_abs(self) -> np.ndarray:
+        """max(|k1|, |k2|), shape (...)."""
+        return np.maximum(np.abs(self.k1), np.abs(self.k2))
+
+
+def _dot(a: np.ndarray, b: np.ndarray) -> np.ndarray:
+    out = a[0] * b[0]
+    out += a[1] * b[1]
+    out += a[2] * b[2]
+    return out
+
+
+def _cross(a: np.ndarray, b: np.ndarray) -> np.ndarray:
+    out = np.empty(np.broadcast_shapes(a.shape, b.shape))
+    np.multiply(a[1], b[2], out=out[0])
+    out[0] -= a[2] * b[1]
+    np.multiply(a[2], b[0], out=out[1])
+    out[1] -= a[0] * b[2]
+    np.multiply(a[0], b[1], out=out[2])
+    out[2] -= a[1] * b[0]
+    return out
+
+
+def shape_quantities(su, sv, suu, suv, svv, sign: float = 1.0, floor: float = 0.0) -> dict[str, np.ndarray]:
+    """Normal, curvatures and principal directions from first and second derivatives.
+
+    Parameters
+    ----------
+    su, sv, suu, suv, svv : ndarray of shape (3, k)
+        Component-first partial derivatives at k samples.
+    sign : float
+        +1 for a face used as parametrised, -1 for a reversed face.
+    floor : float
+        |Su x Sv| below which a sample is degenerate (see :func:`area_floor`).
+
+    Returns
+    -------
+    dict
+        ``normals, dir1, dir2`` of shape (3, k); ``gaussian, mean, k1, k2`` of
+        shape (k,); ``valid, umbilic`` bool of shape (k,).
+
+    Notes
+    -----
+    do Carmo (1976) sec. 3-3: ``K = (LN - M^2) / (EG - F^2)``,
+    ``H = (EN - 2FM + GL) / (2 (EG - F^2))``, ``k1,2 = H +- sqrt(H^2 - K)``.
+    ``EG - F^2 = |Su x Sv|^2`` (Lagrange's identity) is used for the
+    denominator. The k1 direction (du, dv) solves ``(L - k E) du + (M - k F) dv = 0``
+    or ``(M - k F) du + (N - k G) dv = 0``, whichever row is better conditioned;
+    ``dir2 = n x dir1``.
+    """
+    normal, det, valid = _unit_normal(su, sv, sign, floor)
+    return _from_forms(su, sv, normal, det, valid, _dot(suu, normal), _dot(suv, normal), _dot(svv, normal), sign)
+
+
+def _unit_normal(su, sv, sign, area_floor=0.0):
+    """n = sign (Su x Sv)/|Su x Sv|, |Su x Sv|^2 (1 where degenerate), validity.
+
+    A sample is degenerate when Su and Sv are (nearly) parallel, or when
+    |Su x Sv| is below ``area_floor`` (a collapsed edge, where Su or Sv is
+    rounding noise and its direction means nothing).
+    """
+    normal = _cross(su, sv)
+    det = _dot(normal, normal)  # = EG - F^2 (Lagrange's identity)
+    valid = det > (DEGENERATE_SINE * DEGENERATE_SINE) * (_dot(su, su) * _dot(sv, sv))
+    valid &= det > area_floor * area_floor
+    det[~valid] = 1.0
+    inv_area = 1.0 / np.sqrt(det)
+    inv_area *= sign
+    normal *= inv_area
+    return normal, det, valid
+
+
+def _from_forms(su, sv, normal, det, valid, l_, m_, n_, sign):
+    """Curvatures and directions from Su, Sv, the unit normal and L, M, N.
+
+    Notes
+    -----
+    The second form is written in the orthonormal tangent frame
+    ``t1 = Su/|Su|``, ``t2 = n x t1`` as the symmetric matrix [[a, b], [b, c]]
+    with ``a = L/E``, ``b = s (M E - L F) / (E sqrt(EG - F^2))``,
+    ``c = (L F^2 - 2 M E F + N E^2) / (E (EG - F^2))`` (s the orientation sign).
+    Its eigenvalues are ``H +- hypot((a - c)/2, b)``: a sum of squares, so k1 - k2
+    keeps full precision near umbilics (``H^2 - K`` would lose half the digits).
+    The k1 direction is ``cos(t) t1 + sin(t) t2`` with ``tan(2t) = 2b / (a - c)``.
+    """
+    e, f = _dot(su, su), _dot(su, sv)
+    e[~valid] = 1.0  # degenerate samples are replaced later; keep them finite
+    inv_e = 1.0 / e
+    root_det = np.sqrt(det)
+    a = l_ * inv_e
+    b = m_ * e
+    b -= l_ * f
+    b *= inv_e / root_det
+    if sign < 0:
+        b = -b
+    c = l_ * f * f
+    c -= 2.0 * m_ * e * f
+    c += n_ * e * e
+    c *= inv_e / det
+    mean = a + c
+    mean *= 0.5
+    half_diff = a - c
+    half_diff *= 0.5
+    disc = np.hypot(half_diff, b)
+    k1 = mean + disc
+    k2 = mean - disc
+    gaussian = k1 * k2
+    umbilic = disc <= UMBILIC_RELATIVE * (np.abs(k1) + np.abs(k2)) + 1e-300
+    # Half-angle formulas for t, with t in (-pi/2, pi/2] so dir1 . Su >= 0.
+    safe = np.where(umbilic, 1.0, disc)
+    cos2 = np.where(umbilic, 1.0, half_diff / safe)
+    cos_t = np.sqrt(np.maximum(0.5 * (1.0 + cos2), 0.0))
+    sin_t = np.sqrt(np.maximum(0.5 * (1.0 - cos2), 0.0))
+    sin_t = np.copysign(sin_t, np.where(umbilic, 0.0, b))
+    t1 = su * np.sqrt(inv_e)
+    t2 = _cross(normal, t1)
+    d1 = t1 * cos_t
+    d1 += t2 * sin_t
+    d2 = t2 * cos_t
+    d2 -= t1 * sin_t
+    return {
+        "normals": normal,
+        "gaussian": gaussian,
+        "mean": mean,
+        "k1": k1,
+        "k2": k2,
+        "dir1": d1,
+        "dir2": d2,
+        "valid": valid,
+        "umbilic": umbilic,
+    }
+
+
+def area_floor(surface: NurbsSurface) -> float:
+    """|Su x Sv| below which a sample counts as degenerate, from the net's size.
+
+    ``1e-9 * (extent / u-length) * (extent / v-length)``: rounding noise in a
+    vanishing derivative is about 1e-14 of the extent, far below it.
+    """
+    poles = surface.poles.reshape(-1, 3)
+    extent = float(np.linalg.norm(poles.max(axis=0) - poles.min(axis=0))) or 1.0
+    (u0, u1), (v0, v1) = surface.domain
+    return 1e-9 * extent * extent / ((u1 - u0) * (v1 - v0))
+
+
+_VECTOR_KEYS = ("normals", "dir1", "dir2")
+_SCALAR_KEYS = ("gaussian", "mean", "k1", "k2", "valid", "umbilic")
+
+
+def _from_derivatives(ders: np.ndarray, sign: float, floor: float) -> dict[str, np.ndarray]:
+    """Quantities from component-first derivatives of shape (3, 3, 3, k)."""
+    out = shape_quantities(ders[1, 0], ders[0, 1], ders[2, 0], ders[1, 1], ders[0, 2], sign, floor)
+    out["points"] = ders[0, 0]
+    return out
+
+
+def _from_homogeneous(hom: np.ndarray, sign: float, floor: float) -> dict[str, np.ndarray]:
+    """Quantities straight from homogeneous derivatives A_kl of shape (3, 3, 4, k).
+
+    Notes
+    -----
+    With S = A / w (The NURBS Book eq. 4.20), S_u = (A_u - w_u S) / w and the
+    second derivatives differ from (A_ij - w_ij S) / w by tangent terms only,
+    which vanish against the normal: L = (A_uu . n - w_uu S . n) / w, and
+    likewise M, N. This skips forming S_uu, S_uv, S_vv.
+    """
+    w = hom[0, 0, 3]
+    inv_w = 1.0 / w
+    points = hom[0, 0, :3] * inv_w
+    su = hom[1, 0, :3] - hom[1, 0, 3] * points
+    su *= inv_w
+    sv = hom[0, 1, :3] - hom[0, 1, 3] * points
+    sv *= inv_w
+    normal, det, valid = _unit_normal(su, sv, sign, floor)
+    pn = _dot(points, normal)
+
+    def second(k, l):
+        val = _dot(hom[k, l, :3], normal)
+        val -= hom[k, l, 3] * pn
+        val *= inv_w
+        return val
+
+    out = _from_forms(su, sv, normal, det, valid, second(2, 0), second(1, 1), second(0, 2), sign)
+    out["points"] = points
+    return out
+
+
+def _scattered(surface: NurbsSurface, u: np.ndarray, v: np.ndarray) -> np.ndarray:
+    return np.ascontiguousarray(np.moveaxis(surface.derivatives_at(u, v, 2), -1, 2))
+
+
+def _fix_degenerate(surface: NurbsSurface, u: np.ndarray, v: np.ndarray, q: dict, sign: float) -> None:
+    """Replace values at degenerate samples by limits from a nudged parameter."""
+    bad = np.flatnonzero(~q["valid"])
+    if bad.size == 0:
+        return
+    (u0, u1), (v0, v1) = surface.domain
+    ub, vb = u[bad], v[bad]
+    un = ub + np.where(ub < 0.5 * (u0 + u1), 1.0, -1.0) * LIMIT_NUDGE * (u1 - u0)
+    vn = vb + np.where(vb < 0.5 * (v0 + v1), 1.0, -1.0) * LIMIT_NUDGE * (v1 - v0)
+    near = _from_derivatives(_scattered(surface, un, vn), sign, area_floor(surface))
+    still_bad = ~near["valid"]
+    for key in _VECTOR_KEYS:
+        vals = near[key]
+        vals[:, still_bad] = np.nan
+        q[key][:, bad] = vals
+    for key in ("gaussian", "mean", "k1", "k2"):
+        vals = near[key]
+        vals[still_bad] = np.nan
+        q[key][bad] = vals
+    q["umbilic"][bad] = near["umbilic"] & ~still_bad
+
+
+def _pack(parts: dict[str, np.ndarray], shape: tuple[int, ...]) -> CurvatureField:
+    values = {}
+    for key, arr in parts.items():
+        if key in _VECTOR_KEYS or key == "points":
+            values[key] = np.moveaxis(arr, 0, -1).reshape(*shape, 3)
+        else:
+            values[key] = arr.reshape(shape)
+    return CurvatureField(**values)
+
+
+def curvature_at(surface: NurbsSurface, u: np.ndarray, v: np.ndarray, reversed: bool = False) -> CurvatureField:
+    """Curvature field at scattered parameter pairs.
+
+    Parameters
+    ----------
+    surface : NurbsSurface
+    u, v : ndarray of shape (k,)
+    reversed : bool
+        The face uses the surface with its normal flipped.
+
+    Returns
+    -------
+    CurvatureField
+        Arrays of shape (k,) or (k, 3).
+    """
+    u, v = surface.clip_to_domain(np.ravel(u), np.ravel(v))
+    sign = -1.0 if reversed else 1.0
+    q = _from_derivatives(_scattered(surface, u, v), sign, area_floor(surface))
+    q = {k: np.array(a) for k, a in q.items()}
+    _fix_degenerate(surface, u, v, q, sign)
+    return _pack(q, u.shape)
+
+
+def curvature_on_grid(
+    surface: NurbsSurface, u: np.ndarray, v: np.ndarray, reversed: bool = False, workers: int | None = None
+) -> CurvatureField:
+    """Curvature field on the tensor grid u x v.
+
+    Parameters
+    ----------
+    surface : NurbsSurface
+    u : ndarray of shape (a,)
+    v : ndarray of shape (b,)
+    reversed : bool
+        The face uses the surface with its normal flipped.
+    workers : int, optional
+        Threads over row blocks (numpy releases the GIL in its kernels);
+        default: the number of cores.
+
+    Returns
+    -------
+    CurvatureField
+        Arrays of shape (a, b) or (a, b, 3).
+
+    Notes
+    -----
+    Derivatives come from basis matrices contracted with the homogeneous net
+    (two matrix products each), the rational quotient rule (The NURBS Book,
+    eq. 4.20), then :func:`shape_quantities`. Rows are processed in blocks of
+    about 32 k samples so that temporaries stay in cache and memory stays
+    near the size of the outputs.
+    """
+    u, v = surface.clip_to_domain(np.ravel(u), np.ravel(v))
+    a, b = u.size, v.size
+    sign = -1.0 if reversed else 1.0
+    nu, nv = surface.shape
+    bu = basis_matrices(surface.knots_u, surface.degree_u, nu, u, 2)
+    bv = basis_matrices(surface.knots_v, surface.degree_v, nv, v, 2)
+    out = {k: np.empty((3, a, b)) for k in (*_VECTOR_KEYS, "points")}
+    out.update({k: np.empty((a, b)) for k in ("gaussian", "mean", "k1", "k2")})
+    out.update({k: np.empty((a, b), dtype=bool) for k in ("valid", "umbilic")})
+    floor = area_floor(surface)
+    rows = max(1, _CHUNK_POINTS // max(b, 1))
+    blocks = [(i, min(i + rows, a)) for i in range(0, a, rows)]
+
+    def work(block):
+        i0, i1 = block
+        hom = surface.homogeneous_from_basis(bu[:, i0:i1], bv, 2)  # (3, 3, 4, r, b)
+        q = _from_homogeneous(hom.reshape(3, 3, 4, (i1 - i0) * b), sign, floor)
+        if not q["valid"].all():
+            _fix_degenerate(surface, np.repeat(u[i0:i1], b), np.tile(v, i1 - i0), q, sign)
+        for key, arr in q.items():
+            if arr.ndim == 2:
+                out[key][:, i0:i1] = arr.reshape(3, i1 - i0, b)
+            else:
+                out[key][i0:i1] = arr.reshape(i1 - i0, b)
+
+    workers = workers or os.cpu_count() or 1
+    if workers > 1 and len(blocks) > 1:
+        with ThreadPoolExecutor(workers) as pool:
+            list(pool.map(work, blocks))
+    else:
+        for block in blocks:
+            work(block)
+    return _pack({k: arr.reshape(arr.shape[0], -1) if arr.ndim == 3 else arr.ravel() for k, arr in out.items()}, (a, b))
