@@ -21,6 +21,7 @@ from concurrent.futures import ThreadPoolExecutor
 from dataclasses import dataclass, fields
 
 import numpy as np
+from threadpoolctl import threadpool_limits
 
 from .basis import basis_matrices
 from .nurbs import NurbsSurface
@@ -371,10 +372,12 @@ def curvature_on_grid(
                 out[key][i0:i1] = arr.reshape(i1 - i0, b)
 
     workers = workers or os.cpu_count() or 1
-    if workers > 1 and len(blocks) > 1:
-        with ThreadPoolExecutor(workers) as pool:
-            list(pool.map(work, blocks))
-    else:
-        for block in blocks:
-            work(block)
+    # The matrix products are small; BLAS threads on top of ours only contend.
+    with threadpool_limits(limits=1, user_api="blas"):
+        if workers > 1 and len(blocks) > 1:
+            with ThreadPoolExecutor(workers) as pool:
+                list(pool.map(work, blocks))
+        else:
+            for block in blocks:
+                work(block)
     return _pack({k: arr.reshape(arr.shape[0], -1) if arr.ndim == 3 else arr.ravel() for k, arr in out.items()}, (a, b))
