@@ -9,9 +9,10 @@ Sign conventions (written once in DEVELOPERS.md, used everywhere):
 - ``dir1`` is the unit direction of k1, ``dir2 = n x dir1`` that of k2, so
   (dir1, dir2, n) is a right-handed frame.
 
-The formulas are those of do Carmo, *Differential Geometry of Curves and
-Surfaces* (1976), sec. 3-3: K = (LN - M^2) / (EG - F^2) and
-H = (EN - 2FM + GL) / (2 (EG - F^2)), k = H +- sqrt(H^2 - K).
+The principal curvatures are the eigenvalues of the shape operator, II
+relative to I (do Carmo, *Differential Geometry of Curves and Surfaces*, 1976,
+sec. 3-2 and 3-3); here they come from II written in an orthonormal tangent
+frame, which is exact and keeps k1 - k2 accurate near umbilics.
 """
 
 from __future__ import annotations
@@ -21,7 +22,7 @@ from concurrent.futures import ThreadPoolExecutor
 from dataclasses import dataclass, fields
 
 import numpy as np
-from threadpoolctl import threadpool_limits
+from threadpoolctl import ThreadpoolController
 
 from .basis import basis_matrices
 from .nurbs import NurbsSurface
@@ -36,6 +37,7 @@ UMBILIC_RELATIVE = 1e-7
 LIMIT_NUDGE = 1e-4
 
 _CHUNK_POINTS = 1 << 14
+_BLAS = ThreadpoolController()
 
 
 @dataclass(frozen=True, eq=False)
@@ -76,15 +78,16 @@ class CurvatureField:
         return np.maximum(np.abs(self.k1), np.abs(self.k2))
 
 
-def _dot(a: np.ndarray, b: np.ndarray) -> np.ndarray:
-    out = a[0] * b[0]
+def _dot(a: np.ndarray, b: np.ndarray, out: np.ndarray | None = None) -> np.ndarray:
+    out = np.multiply(a[0], b[0], out=out)
     out += a[1] * b[1]
     out += a[2] * b[2]
     return out
 
 
-def _cross(a: np.ndarray, b: np.ndarray) -> np.ndarray:
-    out = np.empty(np.broadcast_shapes(a.shape, b.shape))
+def _cross(a: np.ndarray, b: np.ndarray, out: np.ndarray | None = None) -> np.ndarray:
+    if out is None:
+        out = np.empty(np.broadcast_shapes(a.shape, b.shape))
     np.multiply(a[1], b[2], out=out[0])
     out[0] -= a[2] * b[1]
     np.multiply(a[2], b[0], out=out[1])
@@ -94,7 +97,14 @@ def _cross(a: np.ndarray, b: np.ndarray) -> np.ndarray:
     return out
 
 
-def shape_quantities(su, sv, suu, suv, svv, sign: float = 1.0, floor: float = 0.0) -> dict[str, np.ndarray]:
+def _slot(dest: dict | None, key: str) -> np.ndarray | None:
+    """Where a result goes: a caller's output block, or None for a new array."""
+    return None if dest is None else dest[key]
+
+
+def shape_quantities(
+    su, sv, suu, suv, svv, sign: float = 1.0, floor: float = 0.0, dest: dict | None = None
+) -> dict[str, np.ndarray]:
     """Normal, curvatures and principal directions from first and second derivatives.
 
     Parameters
@@ -105,6 +115,8 @@ def shape_quantities(su, sv, suu, suv, svv, sign: float = 1.0, floor: float = 0.
         +1 for a face used as parametrised, -1 for a reversed face.
     floor : float
         |Su x Sv| below which a sample is degenerate (see :func:`area_floor`).
+    dest : dict of ndarray, optional
+        Output arrays to fill (keys as returned), to save a copy.
 
     Returns
     -------
@@ -114,82 +126,92 @@ def shape_quantities(su, sv, suu, suv, svv, sign: float = 1.0, floor: float = 0.
 
     Notes
     -----
-    do Carmo (1976) sec. 3-3: ``K = (LN - M^2) / (EG - F^2)``,
-    ``H = (EN - 2FM + GL) / (2 (EG - F^2))``, ``k1,2 = H +- sqrt(H^2 - K)``.
-    ``EG - F^2 = |Su x Sv|^2`` (Lagrange's identity) is used for the
-    denominator. The k1 direction (du, dv) solves ``(L - k E) du + (M - k F) dv = 0``
-    or ``(M - k F) du + (N - k G) dv = 0``, whichever row is better conditioned;
-    ``dir2 = n x dir1``.
+    ``L = Suu . n``, ``M = Suv . n``, ``N = Svv . n`` (do Carmo 1976, sec. 3-3),
+    then :func:`_from_forms`.
     """
-    normal, det, valid = _unit_normal(su, sv, sign, floor)
-    return _from_forms(su, sv, normal, det, valid, _dot(suu, normal), _dot(suv, normal), _dot(svv, normal), sign)
+    normal, det, valid, e = _unit_normal(su, sv, sign, floor, dest)
+    return _from_forms(
+        su, sv, normal, det, valid, e, _dot(suu, normal), _dot(suv, normal), _dot(svv, normal), sign, dest
+    )
 
 
-def _unit_normal(su, sv, sign, area_floor=0.0):
-    """n = sign (Su x Sv)/|Su x Sv|, |Su x Sv|^2 (1 where degenerate), validity.
+def _unit_normal(su, sv, sign, area_floor=0.0, dest=None):
+    """Unit normal, |Su x Sv|^2 (1 where degenerate), validity and E = Su . Su.
 
     A sample is degenerate when Su and Sv are (nearly) parallel, or when
     |Su x Sv| is below ``area_floor`` (a collapsed edge, where Su or Sv is
     rounding noise and its direction means nothing).
     """
-    normal = _cross(su, sv)
+    normal = _cross(su, sv, _slot(dest, "normals"))
     det = _dot(normal, normal)  # = EG - F^2 (Lagrange's identity)
-    valid = det > (DEGENERATE_SINE * DEGENERATE_SINE) * (_dot(su, su) * _dot(sv, sv))
+    e = _dot(su, su)
+    valid = np.greater(det, (DEGENERATE_SINE * DEGENERATE_SINE) * (e * _dot(sv, sv)), out=_slot(dest, "valid"))
     valid &= det > area_floor * area_floor
-    det[~valid] = 1.0
+    invalid = ~valid
+    det[invalid] = 1.0
+    e[invalid] = 1.0  # degenerate samples are replaced later; keep them finite
     inv_area = 1.0 / np.sqrt(det)
     inv_area *= sign
     normal *= inv_area
-    return normal, det, valid
+    return normal, det, valid, e
 
 
-def _from_forms(su, sv, normal, det, valid, l_, m_, n_, sign):
-    """Curvatures and directions from Su, Sv, the unit normal and L, M, N.
+def _from_forms(su, sv, normal, det, valid, e, l_, m_, n_, sign, dest=None):
+    """Curvatures and directions from Su, Sv, the unit normal, E and L, M, N.
+
+    Parameters
+    ----------
+    su, sv, normal : ndarray of shape (3, k)
+    det, e, l_, m_, n_ : ndarray of shape (k,)
+        EG - F^2, E, and the second fundamental form.
+    valid : ndarray of bool, shape (k,)
+    sign : float
+    dest : dict of ndarray, optional
 
     Notes
     -----
-    The second form is written in the orthonormal tangent frame
-    ``t1 = Su/|Su|``, ``t2 = n x t1`` as the symmetric matrix [[a, b], [b, c]]
-    with ``a = L/E``, ``b = s (M E - L F) / (E sqrt(EG - F^2))``,
-    ``c = (L F^2 - 2 M E F + N E^2) / (E (EG - F^2))`` (s the orientation sign).
-    Its eigenvalues are ``H +- hypot((a - c)/2, b)``: a sum of squares, so k1 - k2
-    keeps full precision near umbilics (``H^2 - K`` would lose half the digits).
-    The k1 direction is ``cos(t) t1 + sin(t) t2`` with ``tan(2t) = 2b / (a - c)``.
+    II is written in the orthonormal tangent frame ``t1 = Su/|Su|``,
+    ``t2 = n x t1`` as the symmetric matrix [[a, b], [b, c]] with ``a = L/E``,
+    ``b = s (M E - L F) / (E sqrt(EG - F^2))`` and
+    ``c = (L F^2 - 2 M E F + N E^2) / (E (EG - F^2))`` (s the orientation sign:
+    t2 = s (E Sv - F Su) / sqrt(E (EG - F^2))). Its eigenvalues are
+    ``H +- hypot((a - c)/2, b)``, a sum of squares, so k1 - k2 keeps full
+    precision near umbilics (``sqrt(H^2 - K)`` would lose half the digits). The
+    k1 direction is ``cos(t) t1 + sin(t) t2`` with ``tan(2t) = 2b / (a - c)``,
+    from the half-angle formulas with t in (-pi/2, pi/2], so dir1 . Su >= 0.
     """
-    e, f = _dot(su, su), _dot(su, sv)
-    e[~valid] = 1.0  # degenerate samples are replaced later; keep them finite
+    f = _dot(su, sv)
     inv_e = 1.0 / e
-    root_det = np.sqrt(det)
     a = l_ * inv_e
     b = m_ * e
     b -= l_ * f
-    b *= inv_e / root_det
+    b *= inv_e / np.sqrt(det)
     if sign < 0:
-        b = -b
+        np.negative(b, out=b)
     c = l_ * f * f
     c -= 2.0 * m_ * e * f
     c += n_ * e * e
     c *= inv_e / det
-    mean = a + c
+    mean = np.add(a, c, out=_slot(dest, "mean"))
     mean *= 0.5
     half_diff = a - c
     half_diff *= 0.5
     disc = np.hypot(half_diff, b)
-    k1 = mean + disc
-    k2 = mean - disc
-    gaussian = k1 * k2
-    umbilic = disc <= UMBILIC_RELATIVE * (np.abs(k1) + np.abs(k2)) + 1e-300
-    # Half-angle formulas for t, with t in (-pi/2, pi/2] so dir1 . Su >= 0.
-    safe = np.where(umbilic, 1.0, disc)
-    cos2 = np.where(umbilic, 1.0, half_diff / safe)
+    k1 = np.add(mean, disc, out=_slot(dest, "k1"))
+    k2 = np.subtract(mean, disc, out=_slot(dest, "k2"))
+    gaussian = np.multiply(k1, k2, out=_slot(dest, "gaussian"))
+    umbilic = np.less_equal(disc, UMBILIC_RELATIVE * (np.abs(k1) + np.abs(k2)) + 1e-300, out=_slot(dest, "umbilic"))
+    disc[umbilic] = 1.0
+    half_diff[umbilic] = 1.0
+    b[umbilic] = 0.0
+    cos2 = half_diff / disc
     cos_t = np.sqrt(np.maximum(0.5 * (1.0 + cos2), 0.0))
-    sin_t = np.sqrt(np.maximum(0.5 * (1.0 - cos2), 0.0))
-    sin_t = np.copysign(sin_t, np.where(umbilic, 0.0, b))
+    sin_t = np.copysign(np.sqrt(np.maximum(0.5 * (1.0 - cos2), 0.0)), b)
     t1 = su * np.sqrt(inv_e)
     t2 = _cross(normal, t1)
-    d1 = t1 * cos_t
+    d1 = np.multiply(t1, cos_t, out=_slot(dest, "dir1"))
     d1 += t2 * sin_t
-    d2 = t2 * cos_t
+    d2 = np.multiply(t2, cos_t, out=_slot(dest, "dir2"))
     d2 -= t1 * sin_t
     return {
         "normals": normal,
@@ -202,6 +224,9 @@ def _from_forms(su, sv, normal, det, valid, l_, m_, n_, sign):
         "valid": valid,
         "umbilic": umbilic,
     }
+
+
+_VECTOR_KEYS = ("normals", "dir1", "dir2")
 
 
 def area_floor(surface: NurbsSurface) -> float:
@@ -227,7 +252,7 @@ def _from_derivatives(ders: np.ndarray, sign: float, floor: float) -> dict[str, 
     return out
 
 
-def _from_homogeneous(hom: np.ndarray, sign: float, floor: float) -> dict[str, np.ndarray]:
+def _from_homogeneous(hom: np.ndarray, sign: float, floor: float, dest: dict | None = None) -> dict[str, np.ndarray]:
     """Quantities straight from homogeneous derivatives A_kl of shape (3, 3, 4, k).
 
     Notes
@@ -239,12 +264,12 @@ def _from_homogeneous(hom: np.ndarray, sign: float, floor: float) -> dict[str, n
     """
     w = hom[0, 0, 3]
     inv_w = 1.0 / w
-    points = hom[0, 0, :3] * inv_w
+    points = np.multiply(hom[0, 0, :3], inv_w, out=_slot(dest, "points"))
     su = hom[1, 0, :3] - hom[1, 0, 3] * points
     su *= inv_w
     sv = hom[0, 1, :3] - hom[0, 1, 3] * points
     sv *= inv_w
-    normal, det, valid = _unit_normal(su, sv, sign, floor)
+    normal, det, valid, e = _unit_normal(su, sv, sign, floor, dest)
     pn = _dot(points, normal)
 
     def second(k, l):
@@ -253,7 +278,7 @@ def _from_homogeneous(hom: np.ndarray, sign: float, floor: float) -> dict[str, n
         val *= inv_w
         return val
 
-    out = _from_forms(su, sv, normal, det, valid, second(2, 0), second(1, 1), second(0, 2), sign)
+    out = _from_forms(su, sv, normal, det, valid, e, second(2, 0), second(1, 1), second(0, 2), sign, dest)
     out["points"] = points
     return out
 
@@ -342,9 +367,10 @@ def curvature_on_grid(
     -----
     Derivatives come from basis matrices contracted with the homogeneous net
     (two matrix products each), the rational quotient rule (The NURBS Book,
-    eq. 4.20), then :func:`shape_quantities`. Rows are processed in blocks of
-    about 32 k samples so that temporaries stay in cache and memory stays
-    near the size of the outputs.
+    eq. 4.20, folded into the second form by :func:`_from_homogeneous`), then
+    :func:`_from_forms`. Rows are processed in blocks of about 16 k samples so
+    that temporaries stay in cache, and results are written straight into the
+    outputs, so memory stays near the size of the outputs.
     """
     u, v = surface.clip_to_domain(np.ravel(u), np.ravel(v))
     a, b = u.size, v.size
@@ -352,32 +378,29 @@ def curvature_on_grid(
     nu, nv = surface.shape
     bu = basis_matrices(surface.knots_u, surface.degree_u, nu, u, 2)
     bv = basis_matrices(surface.knots_v, surface.degree_v, nv, v, 2)
-    out = {k: np.empty((3, a, b)) for k in (*_VECTOR_KEYS, "points")}
-    out.update({k: np.empty((a, b)) for k in ("gaussian", "mean", "k1", "k2")})
-    out.update({k: np.empty((a, b), dtype=bool) for k in ("valid", "umbilic")})
+    out = {k: np.empty((3, a * b)) for k in (*_VECTOR_KEYS, "points")}
+    out.update({k: np.empty(a * b) for k in ("gaussian", "mean", "k1", "k2")})
+    out.update({k: np.empty(a * b, dtype=bool) for k in ("valid", "umbilic")})
     floor = area_floor(surface)
     rows = max(1, _CHUNK_POINTS // max(b, 1))
     blocks = [(i, min(i + rows, a)) for i in range(0, a, rows)]
 
     def work(block):
         i0, i1 = block
+        n = (i1 - i0) * b
+        dest = {key: arr[i0 * b : i1 * b] if arr.ndim == 1 else arr[:, i0 * b : i1 * b] for key, arr in out.items()}
         hom = surface.homogeneous_from_basis(bu[:, i0:i1], bv, 2)  # (3, 3, 4, r, b)
-        q = _from_homogeneous(hom.reshape(3, 3, 4, (i1 - i0) * b), sign, floor)
+        q = _from_homogeneous(hom.reshape(3, 3, 4, n), sign, floor, dest)
         if not q["valid"].all():
             _fix_degenerate(surface, np.repeat(u[i0:i1], b), np.tile(v, i1 - i0), q, sign)
-        for key, arr in q.items():
-            if arr.ndim == 2:
-                out[key][:, i0:i1] = arr.reshape(3, i1 - i0, b)
-            else:
-                out[key][i0:i1] = arr.reshape(i1 - i0, b)
 
     workers = workers or os.cpu_count() or 1
     # The matrix products are small; BLAS threads on top of ours only contend.
-    with threadpool_limits(limits=1, user_api="blas"):
+    with _BLAS.limit(limits=1, user_api="blas"):
         if workers > 1 and len(blocks) > 1:
             with ThreadPoolExecutor(workers) as pool:
                 list(pool.map(work, blocks))
         else:
             for block in blocks:
                 work(block)
-    return _pack({k: arr.reshape(arr.shape[0], -1) if arr.ndim == 3 else arr.ravel() for k, arr in out.items()}, (a, b))
+    return _pack(out, (a, b))
