@@ -81,3 +81,22 @@ def test_arrays_are_read_only():
     s = NurbsSurface(3, 3, KNOTS, KNOTS, _net())
     with pytest.raises(ValueError):
         s.poles[0, 0, 0] = 1.0
+
+
+def test_unclamped_periodic_surface_closes_smoothly():
+    # A closed tube: uniform unclamped cubic in u with the first three poles wrapped
+    # round (the standard periodic construction, e.g. The NURBS Book sec. 12.2 from
+    # memory). Both ends of the u domain meet with equal first and second derivatives.
+    n_ring, p = 8, 3
+    angles = 2 * np.pi * np.arange(n_ring) / n_ring
+    ring = np.column_stack([20 * np.cos(angles), 12 * np.sin(angles)])
+    ring = np.vstack([ring, ring[:p]])  # wrap
+    poles = np.zeros((ring.shape[0], 2, 3))
+    poles[:, :, :2] = ring[:, None, :]
+    poles[:, 1, 2] = 30.0
+    knots_u = np.arange(ring.shape[0] + p + 1, dtype=float)
+    s = NurbsSurface(p, 1, knots_u, [0, 0, 1, 1.0], poles)
+    (u0, u1), _ = s.domain
+    d = s.derivatives_at(np.array([u0, u1]), np.array([0.4, 0.4]), 2)
+    for k in range(3):
+        assert_allclose(d[k, 0, 0], d[k, 0, 1], atol=1e-12)
