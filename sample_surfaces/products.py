@@ -1,0 +1,451 @@
+"""The sample products of Batten's demo scenario, built as exact NURBS faces.
+
+Tarnwick Appliances is an invented brand; every product, name and dimension
+here is made up for the demo. Each builder returns a :class:`Sample`: named
+faces plus the facts the construction guarantees (the manifest's ``expect``),
+so the seam, section and check features can be tested against them.
+
+Construction rules (cited from memory):
+
+- G1 across a seam: the last two pole rows of one face and the first two of the
+  next are collinear, row by row (The NURBS Book, 2nd ed., sec. 5.3 on
+  continuity at a knot; Farin, *Curves and Surfaces for CAGD*, 5th ed., ch. 5).
+- G2 across a seam: additionally the curvature of the cross-seam curves agrees,
+  here either by splitting one C2 spline at a simple knot (The NURBS Book P2.5:
+  C^(p-m) at a knot of multiplicity m) or by the three-row condition on a Bezier
+  end, whose curvature is ``(n-1)/n * h / a^2`` for a last leg of length ``a``
+  and a third-last pole at height ``h`` above the end tangent (Farin, ch. 5).
+- Circular arcs are rational quadratics (The NURBS Book eq. 7.8).
+"""
+
+from __future__ import annotations
+
+import functools
+import tomllib
+from dataclasses import dataclass, field
+from pathlib import Path
+
+import numpy as np
+
+from geometry.nurbs import NurbsSurface
+
+from .construct import arc_profile, clamped_knots, extrude_profile, greville, split_surface
+from .export import SampleFace
+
+CATALOGUE = tomllib.loads(Path(__file__).with_name("catalogue.toml").read_text(encoding="utf-8"))
+# Polyline points for a seam's length: chord error below 1e-6 relative on these seams.
+SEAM_LENGTH_SAMPLES = 4001
+
+
+@dataclass
+class Sample:
+    """A product: file stem, faces in order, whether to sew, and what to expect."""
+
+    stem: str
+    product: str
+    description: str
+    faces: list[SampleFace]
+    expect: dict = field(default_factory=dict)
+    sew: bool = True
+
+
+def _mid_point(surface: NurbsSurface) -> list[float]:
+    (u0, u1), (v0, v1) = surface.domain
+    return _xyz(surface.points_at(np.array([0.5 * (u0 + u1)]), np.array([0.5 * (v0 + v1)]))[0])
+
+
+def _xyz(p) -> list[float]:
+    return [round(float(c), 9) for c in p]
+
+
+def _boundary(surface: NurbsSurface, side: str, n: int = 3) -> np.ndarray:
+    """Points along one side of the domain ('u0', 'u1', 'v0', 'v1'), shape (n, 3)."""
+    (u0, u1), (v0, v1) = surface.domain
+    t = np.linspace(0.0, 1.0, n)
+    if side[0] == "u":
+        u = np.full(n, u0 if side == "u0" else u1)
+        v = v0 + t * (v1 - v0)
+    else:
+        v = np.full(n, v0 if side == "v0" else v1)
+        u = u0 + t * (u1 - u0)
+    return surface.points_at(u, v)
+
+
+def seam(a: SampleFace, side_a: str, b: SampleFace, continuity: str, **values) -> dict:
+    """Manifest entry of a designed seam along ``side_a`` of face ``a``.
+
+    Face ``b`` meets it with the opposite side (``u1`` against ``u0``), and both
+    run along the seam with the same parameter (they come from one surface or
+    share the along-seam knot vector).
+    """
+    pts = _boundary(a.surface, side_a, 3)
+    dense = _boundary(a.surface, side_a, SEAM_LENGTH_SAMPLES)
+    entry = {
+        "faces": [a.name, b.name],
+        "sides": [side_a, side_a[0] + "0"],
+        "continuity": continuity,
+        "start": _xyz(pts[0]),
+        "point": _xyz(pts[1]),
+        "end": _xyz(pts[2]),
+        "length_mm": round(float(np.linalg.norm(np.diff(dense, axis=0), axis=1).sum()), 6),
+        "gap_mm": 0.0,
+        "angle_deg": 0.0,
+        "curvature_jump": 0.0,
+    }
+    entry.update(values)
+    return entry
+
+
+def _face_list(faces: list[SampleFace]) -> list[dict]:
+    return [
+        {"name": f.name, "index": i, "point": _mid_point(f.surface), "trimmed": bool(f.holes or f.outer)}
+        for i, f in enumerate(faces)
+    ]
+
+
+def _product(build):
+    """Turn a builder returning (faces, expect) into one returning its :class:`Sample`.
+
+    The file stem is the builder's name; product name, description and free-edge
+    count come from its table in ``catalogue.toml``; ``expect`` gains the face list
+    and empty lists for what the product does not have.
+    """
+    about = CATALOGUE[build.__name__]
+
+    @functools.wraps(build)
+    def make() -> Sample:
+        faces, expect = build()
+        for key in ("seams", "inflections", "clean_sections"):
+            expect.setdefault(key, [])
+        expect["faces"] = _face_list(faces)
+        expect["free_edges"] = {"count": about["free_edges"], "note": about["free_note"]}
+        return Sample(build.__name__, about["product"], about["description"], faces, expect, about.get("sew", True))
+
+    return make
+
+
+# -- 1. hand-held garment steamer: a tube of eight faces, all G2 -------------------
+
+
+@_product
+def steamer_body() -> tuple[list[SampleFace], dict]:
+    """Tarnwick Plume S3 hand steamer body: grip and head, four faces around each.
+
+    One bicubic surface, periodic around the body (uniform cubic, wrapped poles)
+    and clamped along it, split at simple knots: every seam is C2, so G2 with a
+    curvature jump at rounding level.
+    """
+    x_breaks = np.linspace(0.0, 180.0, 7)
+    ku = clamped_knots(x_breaks, 3)
+    xs = greville(ku, 3)  # x(u) = u exactly
+    half_width = np.array([20.0, 20.0, 18.0, 16.0, 17.0, 21.0, 24.0, 26.0, 26.0])
+    half_height = np.array([22.0, 22.0, 20.0, 18.0, 19.0, 24.0, 28.0, 30.0, 30.0])
+    # Cross-section poles clockwise seen from +x (so Su x Sv points outwards),
+    # starting at 180 degrees; the piece [3, 5] is centred on pole 2 (the top).
+    angles = np.radians(180.0 - 45.0 * np.arange(8))
+    squircle = np.where(np.arange(8) % 2 == 1, 0.92 * np.sqrt(2.0), 1.0)
+    cy, cz = squircle * np.cos(angles), squircle * np.sin(angles)
+    cy, cz = np.concatenate([cy, cy[:3]]), np.concatenate([cz, cz[:3]])  # wrapped poles
+    poles = np.stack(
+        [
+            np.broadcast_to(xs[:, None], (xs.size, cy.size)),
+            half_width[:, None] * cy[None, :],
+            half_height[:, None] * cz[None, :],
+        ],
+        axis=-1,
+    )
+    kv = np.arange(15.0)  # uniform, unclamped: domain [3, 11] is the closed loop
+    body = NurbsSurface(3, 3, ku, kv, poles)
+    pieces = split_surface(body, [0.0, 90.0, 180.0], [3.0, 5.0, 7.0, 9.0, 11.0])
+    sides = ("upper", "side_r", "lower", "side_l")
+    faces = [
+        SampleFace(f"{part}_{side}", pieces[i][j])
+        for i, part in enumerate(("grip", "head"))
+        for j, side in enumerate(sides)
+    ]
+    grip, head = faces[:4], faces[4:]
+    soleplate = SampleFace("head_soleplate", _front_plane(), outer=tuple(_end_curve(f.surface) for f in head))
+    seams = []
+    for ring in (grip, head):
+        for j in range(4):
+            seams.append(seam(ring[j], "v1", ring[(j + 1) % 4], "G2", curvature_jump_exact=True))
+    for j in range(4):
+        seams.append(seam(grip[j], "u1", head[j], "G2", curvature_jump_exact=True))
+    for face in head:
+        seams.append(
+            seam(
+                face, "u1", soleplate, "G0", sides=["u1", "trim"], angle_deg=90.0, angle_exact=True, curvature_jump=None
+            )
+        )
+    return [*faces, soleplate], {"seams": seams}
+
+
+def _end_curve(surface: NurbsSurface) -> tuple:
+    """The boundary u = u1 of a clamped face as a 3-D B-spline curve (its last pole row)."""
+    return surface.degree_v, np.array(surface.knots_v), np.array(surface.poles[-1])
+
+
+def _front_plane() -> NurbsSurface:
+    """The plane x = 180 as a bilinear patch, u along +y and v along +z (normal +x)."""
+    y, z = np.meshgrid([-32.0, 32.0], [-34.0, 34.0], indexing="ij")
+    poles = np.stack([np.full_like(y, 180.0), y, z], axis=-1)
+    return NurbsSurface(1, 1, clamped_knots([-32.0, 32.0], 1), clamped_knots([-34.0, 34.0], 1), poles)
+
+
+# -- 2. cooker hood visor: plane tangent to a cylinder, G1 only ----------------------
+
+VISOR_RADIUS = 25.0
+
+
+@_product
+def hood_visor() -> tuple[list[SampleFace], dict]:
+    """Tarnwick Aero 60 cooker hood visor: a flat panel rolling over a 25 mm bend.
+
+    The flat face ends in two collinear pole rows on z = 0 and the bend (an exact
+    quarter cylinder, rational quadratic) starts with two: the normals agree along
+    the seam (G1), the cross-seam curvature jumps from 0 to -1/R (bending away
+    from the +z normal).
+    """
+    width = 120.0
+    r = VISOR_RADIUS
+    kv = clamped_knots([0.0, width], 1)
+    flat_profile = np.array([[-80.0, 0.0, 0.0], [-40.0, 0.0, 0.0], [0.0, 0.0, 0.0]])
+    poles, _ = extrude_profile(flat_profile, None, [0.0, width, 0.0])
+    flat = NurbsSurface(2, 1, clamped_knots([0.0, 80.0], 2), kv, poles)
+    arc, w = arc_profile([0.0, 0.0, 0.0], [1.0, 0.0, 0.0], [0.0, 0.0, -r], np.pi / 2)
+    poles, weights = extrude_profile(arc, w, [0.0, width, 0.0])
+    bend = NurbsSurface(2, 1, clamped_knots([0.0, 1.0], 2), kv, poles, weights)
+    faces = [SampleFace("visor_flat", flat), SampleFace("visor_bend", bend)]
+    seams = [
+        seam(
+            faces[0],
+            "u1",
+            faces[1],
+            "G1",
+            curvature_jump=1.0 / r,
+            curvature_jump_exact=True,
+            curvature_jump_rel=1.0,
+            cross_curvature=[0.0, -1.0 / r],
+        )
+    ]
+    return faces, {"seams": seams}
+
+
+# -- 3. toaster side panel: a pressed bump whose sections inflect --------------------
+
+
+@_product
+def toaster_panel() -> tuple[list[SampleFace], dict]:
+    """Tarnwick Crisp 2 toaster side panel: a gently crowned panel with a pressed bump.
+
+    x(u) = u and y(v) = v exactly (poles at Greville abscissae), so the section by
+    a plane y = c is the graph z = f(x, c) and its curvature has the sign of
+    f_xx: the crown alone keeps f_xx < 0; the bump's foot makes it positive, so
+    each section through the bump inflects four times.
+    """
+    ku = clamped_knots(np.linspace(0.0, 160.0, 9), 3)
+    kv = clamped_knots(np.linspace(0.0, 110.0, 7), 3)
+    gx, gy = greville(ku, 3), greville(kv, 3)
+    x, y = np.meshgrid(gx, gy, indexing="ij")
+    z = 6.0 - (x - 80.0) ** 2 / 800.0 - (y - 55.0) ** 2 / 1200.0
+    bump = np.zeros_like(z)
+    bump[6, 5] = 4.0
+    bump[[5, 7], 5] = 1.5
+    bump[6, [4, 6]] = 1.5
+    surface = NurbsSurface(3, 3, ku, kv, np.stack([x, y, z + bump], axis=-1))
+    face = SampleFace("side_panel", surface)
+    sections = [
+        _inflection_section(surface, "side_panel", "y", 70.0),
+        _inflection_section(surface, "side_panel", "x", 100.0),
+    ]
+    clean = [{"plane": _section_plane("y", 10.0), "count": 0}, {"plane": _section_plane("x", 20.0), "count": 0}]
+    return [face], {"inflections": sections, "clean_sections": clean}
+
+
+def _section_plane(axis: str, value: float) -> dict:
+    """The plane ``axis = value`` (axis "x" or "y") as point and normal."""
+    normal = [1.0 if axis == "x" else 0.0, 1.0 if axis == "y" else 0.0, 0.0]
+    return {"point": [value * normal[0], value * normal[1], 0.0], "normal": normal}
+
+
+def _inflection_section(surface: NurbsSurface, face: str, axis: str, value: float) -> dict:
+    """Where the section ``axis = value`` of a bicubic graph face inflects.
+
+    With x = u and y = v the section y = c is z = f(x, c), whose curvature has the
+    sign of f_xx. The second derivative of a cubic spline is a continuous
+    piecewise linear spline (degree p - 2), so its sign changes, and their exact
+    places, follow from its values at the knots (The NURBS Book sec. 3.3 on
+    derivatives, from memory). None of the samples has f_xx = 0 at a knot.
+    """
+    along_u = axis == "y"
+    knots = np.unique(surface.knots_u if along_u else surface.knots_v)
+    fixed = np.full(knots.size, value)
+    ders = surface.derivatives_at(*((knots, fixed) if along_u else (fixed, knots)), 2)
+    d2 = ders[2, 0, :, 2] if along_u else ders[0, 2, :, 2]
+    lo, hi = d2[:-1], d2[1:]
+    span = np.flatnonzero(lo * hi < 0.0)
+    roots = knots[span] + (knots[span + 1] - knots[span]) * lo[span] / (lo[span] - hi[span])
+    fixed = np.full(roots.size, value)
+    ru, rv = (roots, fixed) if along_u else (fixed, roots)
+    return {
+        "face": face,
+        "plane": _section_plane(axis, value),
+        "count": int(roots.size),
+        "points": [_xyz(p) for p in surface.points_at(ru, rv)],
+        "uv": [[round(float(a), 9), round(float(b), 9)] for a, b in zip(ru, rv, strict=True)],
+        "how": "exact roots of the piecewise-linear second derivative of the section graph",
+    }
+
+
+# -- 4. heat gun side covers: 0.02 mm gap -----------------------------------------------
+
+GAP_MM = 0.02
+
+
+@_product
+def heatgun_covers() -> tuple[list[SampleFace], dict]:
+    """Tarnwick Blaze 2000 heat gun side covers: two panels 0.02 mm apart.
+
+    One extruded cubic profile split at a simple knot (C2), then the front half
+    moved by 0.02 mm along the cross-seam unit tangent at the seam. The seam line
+    is straight (along y) and the move is perpendicular to it, so the gap is
+    0.02 mm along the whole seam; normals and curvatures are unchanged by a
+    translation, so angle and curvature jump stay at zero.
+    """
+    ku = clamped_knots([0.0, 30.0, 60.0, 90.0, 120.0], 3)
+    gx = greville(ku, 3)
+    # Crown off the seam, so the move across it is not along an axis.
+    profile = np.stack([gx, np.zeros_like(gx), 30.0 - (gx - 45.0) ** 2 / 150.0], axis=1)
+    poles, _ = extrude_profile(profile, None, [0.0, 140.0, 0.0])
+    cover = NurbsSurface(3, 1, ku, clamped_knots([0.0, 140.0], 1), poles)
+    rear, front = (row[0] for row in split_surface(cover, [0.0, 60.0, 120.0], [0.0, 140.0]))
+    tangent = rear.derivatives_at(np.array([60.0]), np.array([0.0]), 1)[1, 0, 0]
+    shift = np.eye(4)
+    shift[:3, 3] = GAP_MM * tangent / np.linalg.norm(tangent)
+    faces = [SampleFace("cover_rear", rear), SampleFace("cover_front", front.transformed(shift))]
+    seams = [
+        seam(
+            faces[0],
+            "u1",
+            faces[1],
+            "broken",
+            gap_mm=GAP_MM,
+            gap_exact=True,
+            curvature_jump_exact=True,
+            note="fails position at the common-practice 0.01 mm tolerance; normals and curvature match exactly",
+        )
+    ]
+    return faces, {"seams": seams}
+
+
+# -- 5. bread bin roll top: a clean G2 blend ----------------------------------------------
+
+BLEND_RADIUS = 30.0
+
+
+@_product
+def breadbin_roll_top() -> tuple[list[SampleFace], dict]:
+    """Tarnwick Keep bread bin roll top: flat top, quintic G2 blend, cylindrical front.
+
+    The blend is a degree-5 Bezier profile: its first three poles are collinear on
+    the flat (end curvature 0 = the flat's), its last three satisfy the three-row
+    condition for curvature 1/R at the end, where the R = 30 mm front cylinder
+    starts with the same tangent. Its control polygon is convex, so the blend has
+    no inflection (variation diminishing, Farin ch. 5).
+    """
+    length = 200.0
+    r = BLEND_RADIUS
+    kv = clamped_knots([0.0, length], 1)
+    along = [0.0, length, 0.0]
+    theta = np.radians(45.0)
+    tangent = np.array([np.cos(theta), 0.0, -np.sin(theta)])
+    to_centre = np.array([-np.sin(theta), 0.0, -np.cos(theta)])  # right of travel: the curve turns clockwise
+    end = np.array([40.0, 0.0, -12.0])
+    leg = 8.0
+    height = 5.0 * leg**2 / (4.0 * r)  # (n-1)/n * h / a^2 = 1/R with n = 5
+    blend_profile = np.array(
+        [
+            [0.0, 0.0, 0.0],
+            [leg, 0.0, 0.0],
+            [2 * leg, 0.0, 0.0],
+            end - 2 * leg * tangent + height * to_centre,
+            end - leg * tangent,
+            end,
+        ]
+    )
+    poles, _ = extrude_profile(blend_profile, None, along)
+    blend = NurbsSurface(5, 1, clamped_knots([0.0, 1.0], 5), kv, poles)
+    flat_poles, _ = extrude_profile(np.array([[-60.0, 0.0, 0.0], [0.0, 0.0, 0.0]]), None, along)
+    flat = NurbsSurface(1, 1, clamped_knots([0.0, 60.0], 1), kv, flat_poles)
+    arc, w = arc_profile(end, tangent, end + r * to_centre, np.pi / 4)
+    poles, weights = extrude_profile(arc, w, along)
+    front = NurbsSurface(2, 1, clamped_knots([0.0, 1.0], 2), kv, poles, weights)
+    faces = [SampleFace("top_flat", flat), SampleFace("top_blend", blend), SampleFace("front_roll", front)]
+    seams = [
+        seam(faces[0], "u1", faces[1], "G2", curvature_jump_exact=True, cross_curvature=[0.0, 0.0]),
+        seam(faces[1], "u1", faces[2], "G2", curvature_jump_exact=True, cross_curvature=[-1.0 / r, -1.0 / r]),
+    ]
+    return faces, {
+        "seams": seams,
+        "clean_sections": [{"plane": _section_plane("y", 100.0), "count": 0}],
+    }
+
+
+# -- 6. console lid: a 5 x 6 patch grid for benchmarks --------------------------------------
+
+
+@_product
+def console_lid() -> tuple[list[SampleFace], dict]:
+    """Tarnwick Hearth induction hob console lid: 30 bicubic patches, all G2.
+
+    One bicubic B-spline (5 x 6 spans, simple knots) cut at every interior knot:
+    49 seams, all C2.
+    """
+    ku = clamped_knots(np.linspace(0.0, 240.0, 6), 3)
+    kv = clamped_knots(np.linspace(0.0, 180.0, 7), 3)
+    x, y = np.meshgrid(greville(ku, 3), greville(kv, 3), indexing="ij")
+    z = 18.0 - (x - 120.0) ** 2 / 1600.0 - (y - 90.0) ** 2 / 1100.0 + 1.2 * np.sin(x / 40.0) * np.cos(y / 50.0)
+    lid = NurbsSurface(3, 3, ku, kv, np.stack([x, y, z], axis=-1))
+    pieces = split_surface(lid, np.unique(ku), np.unique(kv))
+    grid = [[SampleFace(f"lid_r{i}c{j}", s) for j, s in enumerate(row)] for i, row in enumerate(pieces)]
+    seams = []
+    for i, row in enumerate(grid):
+        for j, face in enumerate(row):
+            if i + 1 < len(grid):
+                seams.append(seam(face, "u1", grid[i + 1][j], "G2", curvature_jump_exact=True))
+            if j + 1 < len(row):
+                seams.append(seam(face, "v1", row[j + 1], "G2", curvature_jump_exact=True))
+    faces = [f for row in grid for f in row]
+    return faces, {"seams": seams}
+
+
+# -- 7. fan heater dial plate: a trimmed face with a hole -----------------------------------
+
+DIAL_HOLE_RADIUS = 12.0
+
+
+@_product
+def dial_plate() -> tuple[list[SampleFace], dict]:
+    """Tarnwick Ember fan heater dial plate: one crowned face with a round dial hole.
+
+    x(u) = u and y(v) = v, so the hole, a circle of radius 12 in (u, v), is the
+    curve on the face above the circle of radius 12 mm in the xy plane.
+    """
+    ku = clamped_knots([0.0, 50.0, 100.0], 3)
+    kv = clamped_knots([0.0, 70.0], 3)
+    x, y = np.meshgrid(greville(ku, 3), greville(kv, 3), indexing="ij")
+    z = 4.0 - (x - 50.0) ** 2 / 900.0 - (y - 35.0) ** 2 / 700.0
+    plate = NurbsSurface(3, 3, ku, kv, np.stack([x, y, z], axis=-1))
+    centre = (62.0, 35.0)
+    face = SampleFace("dial_plate", plate, holes=((centre, DIAL_HOLE_RADIUS),))
+    return [face], {
+        "trim": {
+            "face": "dial_plate",
+            "loops": 2,
+            "hole_centre_uv": list(centre),
+            "hole_radius_uv": DIAL_HOLE_RADIUS,
+        }
+    }
+
+
+ALL = (steamer_body, hood_visor, toaster_panel, heatgun_covers, breadbin_roll_top, console_lid, dial_plate)
