@@ -1,0 +1,201 @@
+"""Seam tolerance profiles: named TOML files, shipped ones and the user's own.
+
+A profile file holds ``name``, ``title``, ``required`` (G0, G1 or G2), an
+optional ``base`` (the name of a shipped profile to start from), a
+``[tolerance]`` table and a ``[basis]`` table saying where each value comes
+from. The shipped profiles live in ``app/profiles/``; every value in them is
+common practice, not a published standard. The geometry layer never sees the
+file: :attr:`Profile.tolerance` is the plain :class:`SeamTolerance` it takes.
+"""
+
+from __future__ import annotations
+
+import tomllib
+from dataclasses import dataclass, field, fields
+from importlib import resources
+from pathlib import Path
+from types import MappingProxyType
+
+from geometry.errors import ReadError
+from geometry.seam_tolerance import CLASSES, SeamTolerance
+
+DEFAULT_PROFILE = "class-a"
+_SHIPPED = {"class-a": "class_a.toml", "technical": "technical.toml"}
+_TOP_KEYS = {"name", "title", "required", "base", "tolerance", "basis"}
+_NUMBERS = ("position_mm", "tangent_deg", "curvature_relative", "flat_curvature_per_mm", "crease_deg")
+
+
+class ProfileError(ReadError):
+    """A profile file is missing, not TOML, or holds a value Batten cannot use.
+
+    Same parameters as :class:`ReadError`: the file as the user named it, and the cause.
+    """
+
+
+@dataclass(frozen=True)
+class Profile:
+    """A named set of seam tolerances.
+
+    Attributes
+    ----------
+    name, title : str
+    path : str
+        The file it was read from.
+    tolerance : SeamTolerance
+        What the seam analysis takes.
+    basis : mapping of str to str
+        Where each value comes from (e.g. "common practice, no published source").
+    """
+
+    name: str
+    title: str
+    path: str
+    tolerance: SeamTolerance
+    basis: MappingProxyType = field(default_factory=lambda: MappingProxyType({}))
+
+    def as_dict(self) -> dict:
+        """Plain data, echoed in every report and ``batten check`` result."""
+        return {
+            "name": self.name,
+            "title": self.title,
+            "path": self.path,
+            **self.tolerance.as_dict(),
+            "basis": dict(self.basis),
+        }
+
+
+def shipped_names() -> tuple[str, ...]:
+    """Names of the profiles that ship with Batten."""
+    return tuple(_SHIPPED)
+
+
+def shipped_path(name: str) -> Path:
+    """Path of a shipped profile file."""
+    return Path(str(resources.files("app").joinpath("profiles", _SHIPPED[name])))
+
+
+def _read_toml(path: Path) -> dict:
+    try:
+        with open(path, "rb") as fh:
+            return tomllib.load(fh)
+    except FileNotFoundError:
+        raise ProfileError(str(path), "no such profile file") from None
+    except OSError as exc:
+        raise ProfileError(str(path), f"cannot be read ({exc.strerror or exc})") from None
+    except (tomllib.TOMLDecodeError, UnicodeDecodeError) as exc:
+        raise ProfileError(str(path), f"is not valid TOML ({exc})") from None
+
+
+def _number(path: Path, key: str, value, allow_none: bool = False):
+    if allow_none and value is None:
+        return None
+    if isinstance(value, bool) or not isinstance(value, int | float):
+        raise ProfileError(str(path), f"[tolerance] {key} must be a number, got {value!r}")
+    if not value > 0:
+        raise ProfileError(str(path), f"[tolerance] {key} must be positive, got {value!r}")
+    return float(value)
+
+
+def load_profile(path: str | Path, _depth: int = 0) -> Profile:
+    """Read and check one profile file.
+
+    Parameters
+    ----------
+    path : str or Path
+
+    Returns
+    -------
+    Profile
+
+    Raises
+    ------
+    ProfileError
+        Naming the file and what is wrong: unreadable, not TOML, an unknown
+        key, a missing value, a value of the wrong type or range.
+    """
+    path = Path(path)
+    data = _read_toml(path)
+    unknown = sorted(set(data) - _TOP_KEYS)
+    if unknown:
+        raise ProfileError(str(path), f"unknown key(s) {', '.join(unknown)}; expected {', '.join(sorted(_TOP_KEYS))}")
+    tol_table = data.get("tolerance", {})
+    basis_table = data.get("basis", {})
+    for table_name, table in (("tolerance", tol_table), ("basis", basis_table)):
+        if not isinstance(table, dict):
+            raise ProfileError(str(path), f"[{table_name}] must be a table")
+    unknown = sorted(set(tol_table) - set(_NUMBERS))
+    if unknown:
+        raise ProfileError(
+            str(path), f"unknown [tolerance] key(s) {', '.join(unknown)}; expected {', '.join(_NUMBERS)}"
+        )
+    values: dict = {}
+    basis: dict = {}
+    base_name = data.get("base")
+    if base_name is not None:
+        if base_name not in _SHIPPED or _depth > 0:
+            raise ProfileError(
+                str(path), f"base must name a shipped profile ({', '.join(_SHIPPED)}), got {base_name!r}"
+            )
+        base = load_profile(shipped_path(base_name), _depth + 1)
+        values = {f.name: getattr(base.tolerance, f.name) for f in fields(SeamTolerance)}
+        basis = dict(base.basis)
+    for key in _NUMBERS:
+        if key in tol_table:
+            values[key] = _number(path, key, tol_table[key], allow_none=key == "crease_deg")
+            basis[key] = str(basis_table.get(key, f"set in {path.name}"))
+    missing = [k for k in _NUMBERS if k not in values and k != "crease_deg"]
+    if missing:
+        raise ProfileError(str(path), f'[tolerance] is missing {", ".join(missing)} (or give base = "class-a")')
+    name = data.get("name", path.stem)
+    title = data.get("title", name)
+    required = data.get("required", values.get("required"))
+    if required not in CLASSES[1:]:
+        raise ProfileError(str(path), f"required must be one of G0, G1, G2, got {required!r}")
+    for key, value in (("name", name), ("title", title)):
+        if not isinstance(value, str) or not value:
+            raise ProfileError(str(path), f"{key} must be a non-empty string, got {value!r}")
+    if "required" in data:
+        basis["required"] = str(basis_table.get("required", f"set in {path.name}"))
+    for key, text in basis_table.items():
+        basis.setdefault(key, str(text))
+    crease = values.get("crease_deg")
+    if crease is not None and crease > 180:
+        raise ProfileError(str(path), f"[tolerance] crease_deg must be at most 180, got {crease!r}")
+    tolerance = SeamTolerance(
+        name=name,
+        position_mm=values["position_mm"],
+        tangent_deg=values["tangent_deg"],
+        curvature_relative=values["curvature_relative"],
+        flat_curvature_per_mm=values["flat_curvature_per_mm"],
+        required=required,
+        crease_deg=crease,
+        source=str(path),
+    )
+    return Profile(name, title, str(path), tolerance, MappingProxyType(basis))
+
+
+def get_profile(name_or_path: str | Path | None = None) -> Profile:
+    """A shipped profile by name, or a user's profile file by path.
+
+    Parameters
+    ----------
+    name_or_path : str or Path, optional
+        ``"class-a"``, ``"technical"``, or a path to a ``.toml`` file;
+        default :data:`DEFAULT_PROFILE`.
+
+    Returns
+    -------
+    Profile
+
+    Raises
+    ------
+    ProfileError
+        For an unknown name or a bad file.
+    """
+    key = DEFAULT_PROFILE if name_or_path is None else str(name_or_path)
+    if key.lower() in _SHIPPED:  # names are case-blind: "class-A" is "class-a"
+        return load_profile(shipped_path(key.lower()))
+    path = Path(key)
+    if path.suffix.lower() != ".toml" and not path.exists():
+        raise ProfileError(key, f"not a profile name ({', '.join(_SHIPPED)}) nor a .toml file")
+    return load_profile(path)
