@@ -1,0 +1,105 @@
+"""``batten section FILE --plane PX PY PZ NX NY NZ``: plane sections as JSON.
+
+Cuts the model by the plane through (PX, PY, PZ) with normal (NX, NY, NZ), or
+by ``--count`` parallel planes ``--spacing`` mm apart (the first through the
+point, the others stepping along the normal), and prints, or writes to
+``--json OUT``, ``{"curves": [...]}``: per curve its points, the arc length and
+the signed curvature at each point, its inflections and curvature extrema
+(each with ``point`` and ``s``; extrema also ``curvature``) and its fairness
+figures. Lengths in mm, curvature in 1/mm; the sign convention is in
+:mod:`geometry.section_geometry`.
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import math
+import os
+import sys
+import tempfile
+
+
+def add_arguments(parser: argparse.ArgumentParser) -> None:
+    parser.add_argument("file", help="STEP, IGES or geomdl JSON model")
+    parser.add_argument(
+        "--plane",
+        nargs=6,
+        type=float,
+        required=True,
+        metavar=("PX", "PY", "PZ", "NX", "NY", "NZ"),
+        help="a point on the plane and its normal (mm)",
+    )
+    parser.add_argument("--count", type=int, default=1, metavar="N", help="number of parallel planes (default 1)")
+    parser.add_argument(
+        "--spacing", type=float, metavar="D", help="mm between parallel planes (needed with --count > 1)"
+    )
+    parser.add_argument(
+        "--point-spacing", type=float, metavar="MM", help="mm between curve points (default: model size / 400)"
+    )
+    parser.add_argument("--json", metavar="OUT", help="write the JSON to OUT instead of printing it")
+
+
+def _check(args: argparse.Namespace) -> None:
+    from geometry.errors import BattenError
+
+    if not all(math.isfinite(x) for x in args.plane):
+        raise BattenError("--plane needs six finite numbers")
+    if not any(args.plane[3:]):
+        raise BattenError("--plane: the normal (NX NY NZ) must not be zero")
+    if args.count < 1:
+        raise BattenError(f"--count must be at least 1, got {args.count}")
+    if args.count > 1 and (args.spacing is None or not math.isfinite(args.spacing) or args.spacing == 0):
+        raise BattenError("--count above 1 needs a non-zero --spacing D (mm between the planes)")
+    if args.point_spacing is not None and not (math.isfinite(args.point_spacing) and args.point_spacing > 0):
+        raise BattenError("--point-spacing must be a positive number of mm")
+
+
+def write_atomically(path: str, text: str) -> None:
+    """Write ``text`` to ``path`` through a temporary file in the same folder and os.replace."""
+    from geometry.errors import BattenError
+
+    folder = os.path.dirname(os.path.abspath(path))
+    if not os.path.isdir(folder):
+        raise BattenError(f"{path}: the folder {folder} does not exist")
+    fd, tmp = tempfile.mkstemp(prefix=".batten-", suffix=".json.tmp", dir=folder)
+    try:
+        with os.fdopen(fd, "w", encoding="utf-8") as out:
+            out.write(text)
+        os.replace(tmp, path)
+    except OSError as exc:
+        if os.path.exists(tmp):
+            os.unlink(tmp)
+        raise BattenError(f"{path}: cannot write ({exc.strerror or exc})") from exc
+
+
+def run(args: argparse.Namespace) -> int:
+    from geometry.io import read_model
+    from geometry.sections import SectionEngine
+
+    _check(args)
+    model = read_model(args.file)
+    engine = SectionEngine(model, point_spacing=args.point_spacing)
+    point, normal = args.plane[:3], args.plane[3:]
+    family = engine.family(point, normal, args.count, args.spacing or 0.0)
+    curves = []
+    for index, section in enumerate(family):
+        for curve in section.curves:
+            curves.append({"section": index, **curve.to_json()})
+    out = {
+        "file": model.source or args.file,
+        "units": {"length": "mm", "curvature": "1/mm"},
+        "sign_convention": "curvature > 0 where the curve turns anticlockwise seen from the side the plane "
+        "normal points to; closed curves run anticlockwise",
+        "planes": [{"point": s.origin.tolist(), "normal": s.normal.tolist()} for s in family],
+        "curves": curves,
+    }
+    if model.warnings:
+        out["warnings"] = list(model.warnings)
+    text = json.dumps(out, indent=1) + "\n"
+    if args.json:
+        write_atomically(args.json, text)
+        print(f"{len(curves)} curves on {len(family)} planes written to {args.json}", file=sys.stderr)
+    else:
+        sys.stdout.write(text)
+    return 0
