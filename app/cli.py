@@ -70,6 +70,9 @@ def main(argv: list[str] | None = None) -> int:
         return EXIT_BAD_INPUT
     except KeyboardInterrupt:
         return 130
+    except BrokenPipeError:  # output piped into head or similar: stop quietly
+        sys.stdout = None
+        return EXIT_OK
     except Exception as exc:  # a bug of ours: say so in one line, trace only on request
         if os.environ.get("BATTEN_DEBUG"):
             raise

@@ -1,0 +1,140 @@
+"""Model readers: STEP, IGES and geomdl JSON behind one :func:`read_model`.
+
+Every reader returns faces in mm; :func:`read_model` checks the file, picks the
+reader from the content (extension only as a tie-breaker), hashes the bytes and
+turns every failure into :class:`geometry.errors.ReadError` naming the file and
+the cause. Faces that cannot be read are skipped and listed in
+:attr:`geometry.model.Model.warnings`; a file with no usable face is an error.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import os
+
+from ..errors import BattenError, ReadError
+from ..model import Model
+from .occt_model import ShapeContents
+
+# Larger files are refused before the kernel is asked (a design model is tens of MB).
+MAX_FILE_BYTES = 2_000_000_000
+
+_EXTENSIONS = {
+    ".step": "step",
+    ".stp": "step",
+    ".p21": "step",
+    ".iges": "iges",
+    ".igs": "iges",
+    ".json": "geomdl-json",
+}
+
+
+def detect_format(path: str, head: bytes) -> str | None:
+    """The format of a file from its first bytes, else from its extension.
+
+    Parameters
+    ----------
+    path : str
+    head : bytes
+        The first few kilobytes of the file.
+
+    Returns
+    -------
+    str or None
+        ``"step"``, ``"iges"``, ``"geomdl-json"``, or ``None`` when unknown.
+
+    Notes
+    -----
+    STEP files open with ``ISO-10303-21;`` (ISO 10303-21, sec. 5). IGES files are
+    80-column records whose column 73 holds the section letter, the first
+    record being ``S`` (start) or ``G`` (global) (IGES 5.3, sec. 2.1).
+    """
+    text = head.lstrip(b"\xef\xbb\xbf").lstrip()
+    if text[:12].upper() == b"ISO-10303-21":
+        return "step"
+    first = head.split(b"\n", 1)[0].rstrip(b"\r")
+    if len(first) >= 73 and first[72:73] in (b"S", b"G"):
+        return "iges"
+    if text[:1] == b"{":
+        return "geomdl-json"
+    if b"\x00" in head[:1024] or head[:8] == b"\x89PNG\r\n\x1a\n":
+        return None  # binary content: no extension makes it a model
+    return _EXTENSIONS.get(os.path.splitext(path)[1].lower())
+
+
+def _read_bytes(path: str) -> bytes:
+    if not os.path.exists(path):
+        raise ReadError(path, "no such file")
+    if os.path.isdir(path):
+        raise ReadError(path, "is a folder, not a model file")
+    try:
+        size = os.path.getsize(path)
+        if size > MAX_FILE_BYTES:
+            raise ReadError(path, f"file is {size / 1e9:.1f} GB, larger than any model Batten reads")
+        with open(path, "rb") as handle:
+            data = handle.read()
+    except OSError as exc:
+        raise ReadError(path, f"cannot be read ({exc.strerror or exc})") from exc
+    if not data.strip():
+        raise ReadError(path, "file is empty")
+    return data
+
+
+def _contents(path: str, fmt: str, data: bytes) -> tuple[ShapeContents, str]:
+    if fmt == "geomdl-json":
+        from .geomdl_json import read_geomdl_json
+
+        return read_geomdl_json(path, data), "mm"
+    from .isolation import read_isolated
+
+    return read_isolated(fmt, path)
+
+
+def read_model(path) -> Model:
+    """Read a STEP, IGES or geomdl JSON file as a :class:`Model` in mm.
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+
+    Returns
+    -------
+    Model
+        With ``source``, ``sha256`` of the file's bytes, ``units="mm"``,
+        ``source_units`` as declared, and one warning per skipped face.
+
+    Raises
+    ------
+    ReadError
+        Missing, empty, unreadable, unknown or malformed file, or a file
+        without one usable face; the message names the file and the cause.
+    """
+    path = os.fspath(path)
+    data = _read_bytes(path)
+    fmt = detect_format(path, data[:4096])
+    if fmt is None:
+        raise ReadError(path, "not a STEP, IGES or geomdl JSON file (content not recognised)")
+    try:
+        contents, units = _contents(path, fmt, data)
+    except ReadError:
+        raise
+    except BattenError as exc:
+        raise ReadError(path, str(exc)) from exc
+    except Exception as exc:  # the kernel's own exceptions: report, never a traceback
+        raise ReadError(path, f"the {fmt.upper()} reader failed ({type(exc).__name__}: {exc})") from exc
+    if not contents.faces:
+        why = "; ".join(contents.warnings[:5])
+        found = f"{contents.n_input_faces} face(s), none usable" if contents.n_input_faces else "no surfaces"
+        raise ReadError(path, f"{found}{': ' + why if why else ''}")
+    return Model(
+        faces=tuple(contents.faces),
+        edges=tuple(contents.edges),
+        source=os.path.abspath(path),
+        sha256=hashlib.sha256(data).hexdigest(),
+        units="mm",
+        source_units=units,
+        warnings=tuple(contents.warnings),
+    )
+
+
+__all__ = ["ReadError", "detect_format", "read_model"]

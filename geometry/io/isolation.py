@@ -1,0 +1,143 @@
+"""Run the CAD kernel's readers in a helper process, so a crash cannot take Batten down.
+
+The kernel is robust on well-formed files but can crash (segmentation fault)
+or hang on some damaged ones, which no exception handler in Python can catch.
+Readers therefore run in one long-lived helper process
+(:mod:`geometry.io.kernel_worker`, started on first use, reused for later files,
+restarted after a crash); a crash or a time-out becomes a
+:class:`geometry.errors.ReadError` and nothing already loaded is lost. The
+helper is a plain ``python -m`` process, not a multiprocessing child, so scripts
+that call :func:`geometry.io.read_model` need no ``if __name__ == "__main__"``
+guard.
+
+Set ``BATTEN_READ_IN_PROCESS=1`` to read in the calling process instead (for
+debugging the readers).
+"""
+
+from __future__ import annotations
+
+import atexit
+import os
+import pickle
+import select
+import subprocess
+import sys
+import threading
+
+from ..errors import BattenError, ReadError
+from ..model import Edge, EdgeUse, Face
+from ..nurbs import NurbsSurface
+from .kernel_worker import HEADER_BYTES
+from .occt_model import ShapeContents
+
+# Seconds a single file may take in the kernel before it is given up on.
+READ_TIMEOUT_S = 900.0
+
+_LOCK = threading.Lock()
+_WORKER: subprocess.Popen | None = None
+
+
+def _read(fmt: str, path: str) -> tuple[ShapeContents, str]:
+    if fmt == "step":
+        from .step import read_step
+
+        return read_step(path)
+    from .iges import read_iges
+
+    return read_iges(path)
+
+
+def read_in_worker(fmt: str, path: str):
+    """The reader's result, or ``("error", reason)``: exceptions do not all survive pickling."""
+    try:
+        return _read(fmt, path)
+    except ReadError as exc:
+        return ("error", exc.reason)
+    except BattenError as exc:
+        return ("error", str(exc))
+    except Exception as exc:  # the kernel's own exceptions
+        return ("error", f"the {fmt.upper()} reader failed ({type(exc).__name__}: {exc})")
+
+
+def _worker() -> subprocess.Popen:
+    global _WORKER
+    if _WORKER is None or _WORKER.poll() is not None:
+        root = os.path.dirname(os.path.dirname(os.path.dirname(os.path.abspath(__file__))))
+        env = dict(os.environ, PYTHONPATH=os.pathsep.join(filter(None, [root, os.environ.get("PYTHONPATH")])))
+        _WORKER = subprocess.Popen(
+            [sys.executable, "-m", "geometry.io.kernel_worker"],
+            stdin=subprocess.PIPE,
+            stdout=subprocess.PIPE,
+            stderr=subprocess.DEVNULL,  # the kernel's own chatter
+            env=env,
+        )
+    return _WORKER
+
+
+def _stop_worker() -> None:
+    global _WORKER
+    worker, _WORKER = _WORKER, None
+    if worker is not None and worker.poll() is None:
+        worker.kill()
+        worker.wait()
+
+
+atexit.register(_stop_worker)
+
+
+def _receive(worker: subprocess.Popen, timeout: float) -> bytes | str:
+    """The next answer, or ``"crashed"`` / ``"timeout"``."""
+    ready, _, _ = select.select([worker.stdout], [], [], timeout)
+    if not ready:
+        return "timeout"
+    header = worker.stdout.read(HEADER_BYTES)
+    size = int.from_bytes(header, "little") if len(header) == HEADER_BYTES else -1
+    body = worker.stdout.read(size) if size >= 0 else b""
+    return body if size >= 0 and len(body) == size else "crashed"
+
+
+def _refrozen(contents: ShapeContents) -> ShapeContents:
+    """Rebuild faces and edges after unpickling (arrays come back writeable)."""
+
+    def surface(s: NurbsSurface) -> NurbsSurface:
+        return NurbsSurface(s.degree_u, s.degree_v, s.knots_u, s.knots_v, s.poles, s.weights)
+
+    faces = [Face(surface(f.surface), f.reversed, f.loops, f.name, f.body) for f in contents.faces]
+    edges = [Edge(e.points, tuple(EdgeUse(u.face, u.uv) for u in e.uses)) for e in contents.edges]
+    return ShapeContents(faces, edges, list(contents.warnings), contents.n_input_faces)
+
+
+def read_isolated(fmt: str, path: str) -> tuple[ShapeContents, str]:
+    """Run the ``fmt`` reader ("step" or "iges") on ``path`` in the helper process.
+
+    Returns
+    -------
+    contents : ShapeContents
+    source_units : str
+
+    Raises
+    ------
+    ReadError
+        The reader's own errors, and a crash or time-out of the kernel.
+    """
+    if os.environ.get("BATTEN_READ_IN_PROCESS"):
+        return _read(fmt, path)
+    request = pickle.dumps((fmt, os.path.abspath(path)))
+    with _LOCK:
+        worker = _worker()
+        try:
+            worker.stdin.write(len(request).to_bytes(HEADER_BYTES, "little") + request)
+            worker.stdin.flush()
+            answer = _receive(worker, READ_TIMEOUT_S)
+        except OSError:  # the pipe broke: the worker is gone
+            answer = "crashed"
+        if isinstance(answer, str):
+            _stop_worker()
+            if answer == "crashed":
+                raise ReadError(path, f"the CAD kernel crashed reading the {fmt.upper()} file (damaged content)")
+            raise ReadError(path, f"the CAD kernel took longer than {READ_TIMEOUT_S:.0f} s on this file")
+    result = pickle.loads(answer)
+    if result[0] == "error":
+        raise ReadError(path, result[1])
+    contents, units = result
+    return _refrozen(contents), units

@@ -1,0 +1,85 @@
+"""The shared-edge topology of an OCP shape as Batten edges.
+
+Edges and the faces using them come from ``TopExp::MapShapesAndUniqueAncestors``
+(edge -> faces). Every use is sampled at the same edge parameters as the 3-D
+polyline and carried onto its face's NURBS, so ``use.uv[i]`` on the face is
+``edge.points[i]`` (within the file's edge tolerance).
+
+Seam edges of periodic faces (one face on both sides, ``BRep_Tool::IsClosed``)
+are listed with two uses of the same face index: the p-curves at both ends of
+the periodic direction. Seam analyses between faces skip edges whose uses name
+one face only. Degenerate edges (the collapsed pole of a sphere) have no 3-D
+curve and are not listed.
+"""
+
+from __future__ import annotations
+
+from ..model import Edge, EdgeUse
+from .occt_curves import FaceMap, edge_params, edge_points, pcurve_points
+
+# Loose faces whose edges lie this close are taken to share them (IGES without
+# topology); well below the 0.01 mm a G0 check commonly asks (common practice),
+# so a real gap stays a gap.
+SEW_TOLERANCE_MM = 1e-3
+
+
+def indexed_map(shape, kind):
+    """Sub-shapes of one kind, each once, in exploration order (``TopExp::MapShapes``)."""
+    from OCP.collections import IndexedMap_TopoDS_Shape_TopTools_ShapeMapHasher
+    from OCP.TopExp import TopExp
+
+    found = IndexedMap_TopoDS_Shape_TopTools_ShapeMapHasher()
+    TopExp.MapShapes_s(shape, kind, found)
+    return found
+
+
+def shared_edges(shape, faces_map, kept: dict[int, tuple[int, FaceMap]]) -> list[Edge]:
+    """Every non-degenerate edge with one use per (kept) face side, matched point for point."""
+    from OCP.BRep import BRep_Tool
+    from OCP.collections import IndexedDataMap_TopoDS_Shape_List_TopoDS_Shape_TopTools_ShapeMapHasher as EdgeFaces
+    from OCP.TopAbs import TopAbs_EDGE, TopAbs_FACE, TopAbs_FORWARD, TopAbs_REVERSED
+    from OCP.TopExp import TopExp
+    from OCP.TopoDS import TopoDS
+
+    edge_faces = EdgeFaces()
+    TopExp.MapShapesAndUniqueAncestors_s(shape, TopAbs_EDGE, TopAbs_FACE, edge_faces)
+    edges = []
+    for k in range(1, edge_faces.Extent() + 1):
+        edge = TopoDS.Edge(edge_faces.FindKey(k))
+        if BRep_Tool.Degenerated_s(edge):
+            continue
+        sides = [a for a in edge_faces.FindFromIndex(k) if faces_map.FindIndex(a) - 1 in kept]
+        if not sides:
+            continue
+        ts = edge_params(edge)
+        points = edge_points(edge, ts)
+        uses = []
+        for ancestor in sides:
+            index, to_nurbs = kept[faces_map.FindIndex(ancestor) - 1]
+            face = TopoDS.Face(ancestor)
+            sides = (TopAbs_FORWARD, TopAbs_REVERSED) if BRep_Tool.IsClosed_s(edge, face) else (edge.Orientation(),)
+            for side in sides:
+                uv = pcurve_points(TopoDS.Edge(edge.Oriented(side)), face, ts)
+                uses.append(EdgeUse(index, to_nurbs(uv)))
+        edges.append(Edge(points, tuple(uses)))
+    return edges
+
+
+def sewn_edges(faces_map, kept: dict[int, tuple[int, FaceMap]]) -> list[Edge]:
+    """Shared edges of loose faces, from a sewn copy (``BRepBuilderAPI_Sewing``)."""
+    from OCP.BRepBuilderAPI import BRepBuilderAPI_Sewing
+    from OCP.TopAbs import TopAbs_FACE
+
+    sewing = BRepBuilderAPI_Sewing(SEW_TOLERANCE_MM)
+    for i in kept:
+        sewing.Add(faces_map.FindKey(i + 1))
+    sewing.Perform()
+    sewn = sewing.SewedShape()
+    sewn_faces = indexed_map(sewn, TopAbs_FACE)
+    sewn_kept = {}
+    for i, entry in kept.items():
+        face = faces_map.FindKey(i + 1)
+        j = sewn_faces.FindIndex(sewing.Modified(face) if sewing.IsModified(face) else face) - 1
+        if j >= 0:
+            sewn_kept[j] = entry
+    return shared_edges(sewn, sewn_faces, sewn_kept)

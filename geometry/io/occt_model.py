@@ -1,0 +1,155 @@
+"""An OCP shape (from the STEP or IGES reader) as Batten faces and edges.
+
+Each face is converted to NURBS on its own (``BRepBuilderAPI_NurbsConvert``),
+so one face the kernel cannot convert is skipped with a warning and the others
+kept. Trims are carried onto the NURBS by :mod:`.occt_curves`; the shared-edge
+topology is :mod:`.occt_edges`'. Lengths are already mm (the kernel's readers
+convert) and placements come with each face's location.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from ..errors import BattenError
+from ..model import Edge, Face
+from ..nurbs import NurbsSurface
+from .occt_curves import FaceMap, face_loops
+from .occt_edges import indexed_map, sewn_edges, shared_edges
+from .occt_surface import bspline_to_nurbs, face_bspline
+
+# A face whose control net spans more than this is rejected as absurd (100 km).
+MAX_EXTENT_MM = 1e8
+# A trim point further than this from its surface earns the face a warning (mm).
+TRIM_WARN_MM = 1e-3
+
+Namer = Callable[[object], str]
+
+
+@dataclass
+class ShapeContents:
+    """What a reader got out of one shape."""
+
+    faces: list[Face] = field(default_factory=list)
+    edges: list[Edge] = field(default_factory=list)
+    warnings: list[str] = field(default_factory=list)
+    n_input_faces: int = 0
+
+    def compare_with_file(self, listed: int) -> None:
+        """Warn when the file lists more faces than the kernel built (the rest were unreadable)."""
+        if listed > self.n_input_faces:
+            lost = listed - self.n_input_faces
+            self.warnings.insert(
+                0, f"{lost} of the {listed} faces the file lists could not be built by the kernel and are left out"
+            )
+            self.n_input_faces = listed
+
+
+def _body_labels(shape, faces_map, namer: Namer | None) -> list[str]:
+    """Label of the solid or shell (or free face set) each face belongs to."""
+    from OCP.TopAbs import TopAbs_FACE, TopAbs_SHELL, TopAbs_SOLID
+
+    labels = [""] * faces_map.Extent()
+    for kind, word in ((TopAbs_SOLID, "solid"), (TopAbs_SHELL, "shell")):
+        bodies = indexed_map(shape, kind)
+        for b in range(1, bodies.Extent() + 1):
+            body = bodies.FindKey(b)
+            label = (namer(body) if namer else "") or f"{word} {b}"
+            inner = indexed_map(body, TopAbs_FACE)
+            for k in range(1, inner.Extent() + 1):
+                i = faces_map.FindIndex(inner.FindKey(k)) - 1
+                if i >= 0 and not labels[i]:
+                    labels[i] = label
+    return [lab or "free faces" for lab in labels]
+
+
+def _check_extent(surface: NurbsSurface) -> None:
+    extent = np.ptp(surface.poles.reshape(-1, 3), axis=0).max()
+    if extent > MAX_EXTENT_MM:
+        raise BattenError(f"control net spans {extent:.3g} mm, beyond any design model ({MAX_EXTENT_MM:.0e} mm)")
+
+
+def _face_surface(face) -> NurbsSurface:
+    """The exact NURBS of one input face, placed (``BRepBuilderAPI_NurbsConvert``)."""
+    from OCP.BRepBuilderAPI import BRepBuilderAPI_NurbsConvert
+    from OCP.TopoDS import TopoDS
+
+    converter = BRepBuilderAPI_NurbsConvert(face, True)
+    if not converter.IsDone():
+        raise BattenError("NURBS conversion failed")
+    bspline, placement = face_bspline(TopoDS.Face(converter.Shape()))
+    surface = bspline_to_nurbs(bspline)
+    if not np.array_equal(placement, np.eye(4)):
+        surface = surface.transformed(placement)
+    _check_extent(surface)
+    return surface
+
+
+def _kernel_reason(exc: BaseException) -> str:
+    text = str(exc).strip() or type(exc).__name__
+    return text.splitlines()[0][:200]
+
+
+def read_shape(shape, namer: Namer | None = None, sew: bool = False) -> ShapeContents:
+    """Faces and shared edges of an OCP shape.
+
+    Parameters
+    ----------
+    shape : OCP.TopoDS.TopoDS_Shape
+        Placed and in mm (the kernel's readers convert units).
+    namer : callable, optional
+        ``namer(shape) -> str``: the name the file gives a face or body, or ``""``.
+    sew : bool
+        When no edge of the shape joins two faces (IGES files of loose trimmed
+        surfaces), find the shared edges by sewing a copy at
+        :data:`geometry.io.occt_edges.SEW_TOLERANCE_MM`; the faces themselves
+        are read as the file has them.
+
+    Returns
+    -------
+    ShapeContents
+        Faces in the order the shape lists them; a face whose surface fails is
+        left out, one whose trim fails is kept untrimmed, and either is named in
+        ``warnings`` (by its 1-based place in the file and its name) with the cause.
+    """
+    from OCP.TopAbs import TopAbs_FACE, TopAbs_REVERSED
+    from OCP.TopoDS import TopoDS
+
+    out = ShapeContents()
+    faces_map = indexed_map(shape, TopAbs_FACE)
+    out.n_input_faces = faces_map.Extent()
+    bodies = _body_labels(shape, faces_map, namer)
+    kept: dict[int, tuple[int, FaceMap]] = {}  # input face index -> (model index, its (u, v) map)
+    total = faces_map.Extent()
+    for i in range(total):
+        face = TopoDS.Face(faces_map.FindKey(i + 1))
+        name = namer(face) if namer else ""
+        label = f"face {i + 1} of {total} in the file" + (f" ('{name}')" if name else "")
+        try:
+            to_nurbs = FaceMap(face, _face_surface(face))
+        except BattenError as exc:
+            out.warnings.append(f"{label} skipped: {exc}")
+            continue
+        except Exception as exc:  # the kernel's own failures (Standard_Failure and kin)
+            out.warnings.append(f"{label} skipped: kernel error ({_kernel_reason(exc)})")
+            continue
+        try:
+            loops = face_loops(face, to_nurbs)
+        except Exception as exc:  # a surface without a readable trim is still worth showing
+            loops = ()
+            out.warnings.append(f"{label}: trim not read ({_kernel_reason(exc)}); shown untrimmed")
+        if to_nurbs.worst > TRIM_WARN_MM:
+            out.warnings.append(f"{label}: its trim lies up to {to_nurbs.worst:.3g} mm off its surface")
+        kept[i] = (len(out.faces), to_nurbs)
+        reversed_ = face.Orientation() == TopAbs_REVERSED
+        out.faces.append(Face(to_nurbs.surface, reversed=reversed_, loops=loops, name=name, body=bodies[i]))
+    try:
+        out.edges = shared_edges(shape, faces_map, kept)
+        if sew and kept and not any(len(e.uses) > 1 for e in out.edges):
+            out.edges = sewn_edges(faces_map, kept)
+    except Exception as exc:  # topology is a bonus: keep the faces
+        out.warnings.append(f"shared-edge topology not read: {_kernel_reason(exc)}")
+    return out
