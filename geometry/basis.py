@@ -52,6 +52,13 @@ def _safe_ratio(num: np.ndarray, den: np.ndarray) -> np.ndarray:
     return out
 
 
+def _padded(a: np.ndarray) -> np.ndarray:
+    """``a`` with a zero column on each side (np.pad costs more than the work here)."""
+    out = np.zeros((a.shape[0], a.shape[1] + 2))
+    out[:, 1:-1] = a
+    return out
+
+
 def nonzero_basis_derivatives(
     knots: np.ndarray, degree: int, n_poles: int, u: np.ndarray, order: int
 ) -> tuple[np.ndarray, np.ndarray]:
@@ -90,7 +97,7 @@ def nonzero_basis_derivatives(
     triangle = [np.ones((u.size, 1))]
     for j in range(1, p + 1):
         first = spans[:, None] - j + np.arange(j + 1)  # index i of N_{i,j}
-        prev = np.pad(triangle[-1], ((0, 0), (1, 1)))  # N_{i,j-1}, N_{i+1,j-1} with zeros
+        prev = _padded(triangle[-1])  # N_{i,j-1}, N_{i+1,j-1} with zeros
         left = _safe_ratio(u[:, None] - knots[first], knots[first + j] - knots[first])
         right = _safe_ratio(knots[first + j + 1] - u[:, None], knots[first + j + 1] - knots[first + 1])
         triangle.append(left * prev[:, :-1] + right * prev[:, 1:])
@@ -103,7 +110,7 @@ def nonzero_basis_derivatives(
         current = triangle[p - d]
         for j in range(p - d + 1, p + 1):
             first = spans[:, None] - j + np.arange(j + 1)
-            prev = np.pad(current, ((0, 0), (1, 1)))
+            prev = _padded(current)
             a = _safe_ratio(np.float64(j), knots[first + j] - knots[first])
             b = _safe_ratio(np.float64(j), knots[first + j + 1] - knots[first + 1])
             current = a * prev[:, :-1] - b * prev[:, 1:]
