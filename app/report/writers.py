@@ -1,0 +1,114 @@
+"""Write the review document as PDF (Qt's rich-text engine) or as one self-contained HTML file."""
+
+from __future__ import annotations
+
+import base64
+import os
+from collections.abc import Sequence
+from datetime import UTC, datetime
+from pathlib import Path
+
+from app.review.result import FileReview
+from geometry import __version__
+from geometry.errors import BattenError
+
+from .atomic import write_atomically
+from .document import document, image_key
+from .figures import Figure
+
+FORMATS = {".pdf": "pdf", ".html": "html", ".htm": "html"}
+RESOURCE_SCHEME = "batten-image"
+PAGE_MARGIN_MM = 15.0
+
+_app = None  # the QGuiApplication this module made, kept alive for later reports
+
+
+def _gui_application():
+    """The running QGuiApplication, or one made off-screen (text layout needs one; no display is used)."""
+    global _app
+    from PySide6.QtGui import QGuiApplication
+
+    app = QGuiApplication.instance()
+    if app is None:
+        os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
+        _app = app = QGuiApplication(["batten-report"])
+    return app
+
+
+def _images(figures: Sequence[Sequence[Figure]]) -> dict[str, bytes]:
+    return {image_key(i, f.name): f.png for i, figs in enumerate(figures) for f in figs}
+
+
+def html_bytes(reviews: Sequence[FileReview], figures: Sequence[Sequence[Figure]], created: str) -> bytes:
+    """The report as a self-contained HTML file (pictures as data URIs)."""
+    images = _images(figures)
+
+    def src(name: str) -> str:
+        return "data:image/png;base64," + base64.b64encode(images[name]).decode("ascii")
+
+    return document(reviews, figures, src, created, __version__).encode("utf-8")
+
+
+def write_pdf_file(target: str, reviews, figures, created: str) -> None:
+    """Lay the document out with QTextDocument and print it to ``target`` with QPdfWriter (A4)."""
+    _gui_application()
+    from PySide6.QtCore import QMarginsF, QUrl
+    from PySide6.QtGui import QImage, QPageLayout, QPageSize, QPdfWriter, QTextDocument
+
+    writer = QPdfWriter(target)
+    writer.setPageSize(QPageSize(QPageSize.PageSizeId.A4))
+    writer.setPageMargins(QMarginsF(*(PAGE_MARGIN_MM,) * 4), QPageLayout.Unit.Millimeter)
+    writer.setTitle("Surface fairness review")
+    writer.setCreator(f"Batten {__version__}")
+    doc = QTextDocument()
+    for name, png in _images(figures).items():
+        doc.addResource(
+            QTextDocument.ResourceType.ImageResource, QUrl(f"{RESOURCE_SCHEME}:{name}"), QImage.fromData(png, "PNG")
+        )
+    doc.setHtml(document(reviews, figures, lambda name: f"{RESOURCE_SCHEME}:{name}", created, __version__))
+    doc.print_(writer)
+    del doc, writer  # the PDF is finished when the writer goes
+    if not Path(target).stat().st_size:
+        raise BattenError(f"{target}: Qt wrote an empty PDF")
+
+
+def write_report(
+    path: str | os.PathLike,
+    reviews: Sequence[FileReview],
+    figures: Sequence[Sequence[Figure]] | None = None,
+    created: str | None = None,
+) -> Path:
+    """Write one review document covering ``reviews`` (in order), atomically.
+
+    Parameters
+    ----------
+    path : path-like
+        ``.pdf`` for PDF, ``.html``/``.htm`` for a self-contained HTML file.
+    reviews : sequence of FileReview
+    figures : sequence of sequence of Figure, optional
+        The pictures of each review (:func:`app.report.figures.render_figures`);
+        none when omitted.
+    created : str, optional
+        Time stamp printed on the cover; default now (UTC).
+
+    Returns
+    -------
+    Path
+
+    Raises
+    ------
+    BattenError
+        Unknown extension, or the file cannot be written (nothing partial is left).
+    """
+    fmt = FORMATS.get(Path(path).suffix.lower())
+    if fmt is None:
+        raise BattenError(f"{path}: report must end in .pdf or .html")
+    figures = list(figures) if figures is not None else [() for _ in reviews]
+    created = created or now_stamp()
+    if fmt == "html":
+        return write_atomically(path, html_bytes(reviews, figures, created))
+    return write_atomically(path, lambda tmp: write_pdf_file(tmp, reviews, figures, created))
+
+
+def now_stamp() -> str:
+    return datetime.now(UTC).strftime("%Y-%m-%d %H:%M UTC")

@@ -1,0 +1,25 @@
+"""Run every analysis of a fairness check on a model, without Qt.
+
+Used by ``batten check`` and by the window's "Export report" alike.
+"""
+
+from .result import FAIL, PASS, SCHEMA_VERSION, UNREADABLE, FileReview, Finding, check_document
+from .runner import ReviewSettings, review_file, review_model
+from .spec import DEFAULT_SPEC, SpecError, parse_spec, plane_spec
+
+__all__ = [
+    "DEFAULT_SPEC",
+    "FAIL",
+    "PASS",
+    "SCHEMA_VERSION",
+    "UNREADABLE",
+    "FileReview",
+    "Finding",
+    "ReviewSettings",
+    "SpecError",
+    "check_document",
+    "parse_spec",
+    "plane_spec",
+    "review_file",
+    "review_model",
+]

@@ -1,0 +1,97 @@
+"""Turn the analyses' results into findings set against the profile's tolerances.
+
+A seam gives one finding: the measure that comes closest to (or furthest over)
+its tolerance, among those the required continuity class involves; the
+verdict is the seam analysis's own. A section curve gives one finding only
+when the profile limits inflections per section (``section_inflections_max``):
+whether an inflection is a defect or the design's intent (a waist, a
+transition) is the reviewer's call, so without a limit they are listed and
+marked, not judged.
+"""
+
+from __future__ import annotations
+
+from .adapters import ProfileInForce
+from .result import FAIL, PASS, Finding
+
+# seam measure -> (key of the worst value, unit, profile key of the limit, class it decides)
+SEAM_MEASURES = (
+    ("gap", "gap_max", "mm", "position_mm", "G0"),
+    ("angle", "angle_max_deg", "deg", "tangent_deg", "G1"),
+    ("curvature jump", "curvature_jump_rel_max", "fraction", "curvature_relative", "G2"),
+)
+_WORST_KEYS = {"gap_max": "gap", "angle_max_deg": "angle", "curvature_jump_rel_max": "curvature_jump_rel"}
+_CLASS_RANK = {"G0": 0, "G1": 1, "G2": 2, "G3": 3}
+INFLECTION_LIMIT_KEY = "section_inflections_max"
+
+
+def _ratio(f: Finding) -> float:
+    if f.limit:
+        return f.value / f.limit
+    return float("inf") if f.value > 0 else 0.0
+
+
+def worst_first(found: list[Finding]) -> tuple[Finding, ...]:
+    """Findings over tolerance first, then by value / limit, largest first."""
+    return tuple(sorted(found, key=lambda f: (f.verdict != FAIL, -_ratio(f))))
+
+
+def seam_finding(seam: dict, profile: ProfileInForce) -> Finding:
+    """The deciding measure of one seam (its ``as_dict`` form)."""
+    required = "G0" if seam.get("crease") else str(profile.values.get("required", "G2"))
+    candidates = []
+    for measure, key, unit, limit_key, decides in SEAM_MEASURES:
+        value, limit = seam.get(key), profile.limit(limit_key)
+        if value is None or limit is None or _CLASS_RANK[decides] > _CLASS_RANK.get(required, 2):
+            continue
+        where = (seam.get("worst") or {}).get(_WORST_KEYS[key], {}).get("xyz")
+        candidates.append(
+            Finding("seam", "", measure, float(value), limit, unit, PASS, None if where is None else tuple(where))
+        )
+    best = max(candidates, key=_ratio) if candidates else Finding("seam", "", "continuity", 0.0, None, "", PASS)
+    names = seam.get("face_names") or [str(f) for f in seam.get("faces", ())]
+    subject = f"seam {seam.get('id', '?')}: {' / '.join(names)} ({seam.get('continuity', '?')}, needs {required})"
+    return Finding(
+        "seam",
+        subject,
+        best.measure,
+        best.value,
+        best.limit,
+        best.unit,
+        FAIL if seam.get("verdict") == FAIL else PASS,
+        best.where,
+        {"seam": seam.get("id")},
+    )
+
+
+def inflection_findings(sections, profile: ProfileInForce) -> list[Finding]:
+    limit = profile.limit(INFLECTION_LIMIT_KEY)
+    if limit is None:
+        return []
+    found = []
+    for si, section in enumerate(sections):
+        for ci, curve in enumerate(section.get("curves", ())):
+            points = curve.get("inflections", ())
+            where = tuple(points[0]["point"]) if points else None
+            verdict = FAIL if len(points) > limit else PASS
+            found.append(
+                Finding(
+                    "inflection",
+                    f"section {section.get('label', si)}, curve {ci + 1}",
+                    "inflections",
+                    float(len(points)),
+                    limit,
+                    "count",
+                    verdict,
+                    where,
+                    {"section": si, "curve": ci},
+                )
+            )
+    return found
+
+
+def collect(seams, free_edges, sections, profile: ProfileInForce) -> tuple[Finding, ...]:
+    """All findings of a review, those over tolerance first, worst (value / limit) first."""
+    found = [seam_finding(s, profile) for s in seams]
+    found += inflection_findings(sections, profile)
+    return worst_first(found)

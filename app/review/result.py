@@ -1,0 +1,162 @@
+"""What a check found in one file: a plain record, and its JSON form.
+
+The JSON layout is documented by ``app/report/check_schema.json``; bump
+:data:`SCHEMA_VERSION` whenever a field changes meaning or disappears
+(adding optional fields is a minor bump).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+from .adapters import Unavailable
+from .faces import FaceSummary
+
+SCHEMA_ID = "batten-check"
+SCHEMA_VERSION = "1.0"
+
+PASS, FAIL, UNREADABLE, ERROR = "pass", "fail", "unreadable", "error"
+
+
+@dataclass(frozen=True)
+class Finding:
+    """One measured quantity set against its tolerance.
+
+    Attributes
+    ----------
+    kind : str
+        ``"seam"``, ``"free_edge"``, ``"inflection"`` or ``"curvature"``.
+    subject : str
+        What it is about, for people (``"faces 2-3"``, ``"x = 40, curve 1"``).
+    measure : str
+        The quantity (``"gap"``, ``"angle"``, ``"curvature jump"``, ``"inflections"``).
+    value, limit : float
+        Measured value and the profile's tolerance, in ``unit``.
+    unit : str
+    verdict : str
+        :data:`PASS` or :data:`FAIL`.
+    where : tuple of float or None
+        xyz (mm) of the worst place, when there is one.
+    ref : dict
+        Keys that locate the finding in the JSON (``{"seam": 3}``,
+        ``{"section": 0, "curve": 1}``).
+    """
+
+    kind: str
+    subject: str
+    measure: str
+    value: float
+    limit: float | None
+    unit: str
+    verdict: str
+    where: tuple[float, float, float] | None = None
+    ref: dict = field(default_factory=dict)
+
+    def to_dict(self) -> dict:
+        return {
+            "kind": self.kind,
+            "subject": self.subject,
+            "measure": self.measure,
+            "value": self.value,
+            "limit": self.limit,
+            "unit": self.unit,
+            "verdict": self.verdict,
+            "where": None if self.where is None else list(self.where),
+            "ref": dict(self.ref),
+        }
+
+
+@dataclass(frozen=True)
+class FileReview:
+    """Everything a check measured in one file.
+
+    ``seams``, ``free_edges`` and ``sections`` hold the plain-dict forms that
+    the seam and section analyses give; ``section_curves`` keeps the sampled
+    section curves (points, signed curvature) for the figures and is left out
+    of the JSON.
+    """
+
+    source: str
+    status: str
+    error: str | None = None
+    sha256: str | None = None
+    units: str = "mm"
+    source_units: str | None = None
+    profile: dict = field(default_factory=dict)
+    sections_spec: str = ""
+    faces: tuple[FaceSummary, ...] = ()
+    seams: tuple[dict, ...] = ()
+    free_edges: tuple[dict, ...] = ()
+    sections: tuple[dict, ...] = ()
+    findings: tuple[Finding, ...] = ()
+    unavailable: tuple[Unavailable, ...] = ()
+    warnings: tuple[str, ...] = ()
+    model_size: float = 0.0
+    section_curves: tuple = ()
+    lines: tuple = ()
+
+    @property
+    def verdict(self) -> str:
+        if self.status == UNREADABLE:
+            return UNREADABLE
+        if self.status != "checked":
+            return ERROR
+        return FAIL if any(f.verdict == FAIL for f in self.findings) else PASS
+
+    @property
+    def failures(self) -> tuple[Finding, ...]:
+        return tuple(f for f in self.findings if f.verdict == FAIL)
+
+    def summary(self) -> dict:
+        counts: dict[str, dict[str, int]] = {}
+        for f in self.findings:
+            per_kind = counts.setdefault(f.kind, {PASS: 0, FAIL: 0})
+            per_kind[f.verdict] = per_kind.get(f.verdict, 0) + 1
+        return {
+            "verdict": self.verdict,
+            "over_tolerance": len(self.failures),
+            "counts": counts,
+            "findings": [f.to_dict() for f in self.findings],
+        }
+
+    def to_dict(self) -> dict:
+        """The file's entry in the check JSON (see ``app/report/check_schema.json``)."""
+        return {
+            "source": self.source,
+            "status": self.status,
+            "error": self.error,
+            "sha256": self.sha256,
+            "units": self.units,
+            "source_units": self.source_units,
+            "profile": self.profile,
+            "sections_spec": self.sections_spec,
+            "model_size": self.model_size,
+            "faces": [f.to_dict() for f in self.faces],
+            "seams": list(self.seams),
+            "free_edges": list(self.free_edges),
+            "sections": list(self.sections),
+            "not_run": [{"analysis": u.analysis, "reason": u.reason} for u in self.unavailable],
+            "warnings": list(self.warnings),
+            "summary": self.summary(),
+        }
+
+
+def check_document(reviews: list[FileReview], created: str, batten_version: str) -> dict:
+    """The whole JSON document of one check run: every file, in the order given."""
+    verdicts = [r.verdict for r in reviews]
+    return {
+        "schema": SCHEMA_ID,
+        "schema_version": SCHEMA_VERSION,
+        "batten_version": batten_version,
+        "created": created,
+        "verdict": overall_verdict(verdicts),
+        "files": [r.to_dict() for r in reviews],
+    }
+
+
+def overall_verdict(verdicts) -> str:
+    """One verdict for several files: the worst of unreadable, error, fail, pass (in that order)."""
+    for worst in (UNREADABLE, ERROR, FAIL):
+        if worst in verdicts:
+            return worst
+    return PASS

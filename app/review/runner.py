@@ -1,0 +1,144 @@
+"""Run every analysis of a check on one model: no Qt, no window.
+
+The command line (``batten check``) and the window's "Export report" both
+come here, so a report written from the window and one written by a release
+pipeline say the same about the same model and settings.
+"""
+
+from __future__ import annotations
+
+import hashlib
+from collections.abc import Callable
+from dataclasses import dataclass, replace
+from pathlib import Path
+
+from geometry.errors import BattenError, ReadError
+from geometry.model import Model
+
+from . import adapters, findings
+from .faces import summarise_faces
+from .result import UNREADABLE, FileReview
+from .spec import DEFAULT_SPEC, parse_spec, planes_for
+
+Progress = Callable[[str], None]
+
+
+@dataclass(frozen=True)
+class ReviewSettings:
+    """What a check is run with.
+
+    Attributes
+    ----------
+    profile : str or None
+        Name of a shipped tolerance profile or path of a TOML file; None for
+        the default profile.
+    sections : str
+        A SPEC (see :mod:`app.review.spec`).
+    """
+
+    profile: str | None = None
+    sections: str = DEFAULT_SPEC
+
+
+def _quiet(_: str) -> None:
+    pass
+
+
+def review_model(model: Model, settings: ReviewSettings = ReviewSettings(), progress: Progress = _quiet) -> FileReview:
+    """Every analysis of a check on a loaded model.
+
+    Parameters
+    ----------
+    model : Model
+    settings : ReviewSettings
+    progress : callable, optional
+        Called with a short line before each stage.
+
+    Returns
+    -------
+    FileReview
+
+    Raises
+    ------
+    BattenError
+        When the settings are wrong (unknown profile, bad SPEC).
+    """
+    name = Path(model.source).name or "model"
+    profile = adapters.load_profile(settings.profile)
+    items = parse_spec(settings.sections)
+    progress(f"{name}: curvature of {len(model.faces)} faces")
+    faces = summarise_faces(model)
+    progress(f"{name}: seams and free edges")
+    seams, free_edges, lines, not_run = adapters.seams_and_free_edges(model, profile)
+    planes = planes_for(items, model.bounds)
+    sections, curves = (), ()
+    if planes:
+        progress(f"{name}: cutting {len(planes)} section plane(s)")
+        sections, curves, more = adapters.sections(model, planes, profile)
+        not_run = not_run + more
+    found = findings.collect(seams, free_edges, sections, profile)
+    return FileReview(
+        source=model.source,
+        status="checked",
+        sha256=model.sha256 or None,
+        units=model.units,
+        source_units=model.source_units,
+        profile=profile.values,
+        sections_spec=settings.sections,
+        faces=faces,
+        seams=seams,
+        free_edges=free_edges,
+        sections=sections,
+        findings=found,
+        unavailable=not_run,
+        warnings=model.warnings,
+        model_size=model.size,
+        section_curves=curves,
+        lines=lines,
+    )
+
+
+def file_sha256(path: str) -> str | None:
+    """Hex sha256 of a file's bytes, or None when it cannot be opened."""
+    digest = hashlib.sha256()
+    try:
+        with open(path, "rb") as fh:
+            for block in iter(lambda: fh.read(1 << 20), b""):
+                digest.update(block)
+    except OSError:
+        return None
+    return digest.hexdigest()
+
+
+def review_file(
+    path: str, settings: ReviewSettings = ReviewSettings(), progress: Progress = _quiet
+) -> tuple[FileReview, Model | None]:
+    """Read ``path`` and review it; a file that cannot be read gives an ``unreadable`` review.
+
+    Returns
+    -------
+    review : FileReview
+    model : Model or None
+        None when the file could not be read.
+
+    Raises
+    ------
+    BattenError
+        Only for wrong settings (they concern every file alike).
+    """
+    progress(f"{Path(path).name}: reading")
+    try:
+        model = adapters.read_model(path)
+    except ReadError as exc:
+        return _unreadable(path, exc.reason), None
+    except BattenError as exc:
+        return _unreadable(path, str(exc)), None
+    if not model.faces:
+        return _unreadable(path, "the file holds no surfaces"), None
+    if not model.source or not model.sha256:
+        model = replace(model, source=model.source or str(path), sha256=model.sha256 or file_sha256(path) or "")
+    return review_model(model, settings, progress), model
+
+
+def _unreadable(path: str, reason: str) -> FileReview:
+    return FileReview(source=str(path), status=UNREADABLE, error=reason, sha256=file_sha256(path))
