@@ -27,5 +27,5 @@ def test_every_geometry_module_imports_headless():
 
 
 def test_session_state_pulls_in_no_qt():
-    loaded = _modules_after_import("import app.state")
-    assert "PySide6" not in loaded and "pyvistaqt" not in loaded
+    loaded = _modules_after_import("import app.state, app.state.session")
+    assert not loaded & {"PySide6", "pyvistaqt", "pyvista", "vtk", "vtkmodules"}

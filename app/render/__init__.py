@@ -1,0 +1,1 @@
+"""Results to pyvista objects: face meshes with colours or stripes, combs, markers, seam lines (no Qt)."""

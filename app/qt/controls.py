@@ -1,0 +1,200 @@
+"""Side panels: what the faces show, and the section tool.
+
+Each panel listens to the session and updates itself with its signals
+blocked; a user change goes to the session, never straight to the view.
+"""
+
+from __future__ import annotations
+
+from PySide6.QtCore import QSignalBlocker
+from PySide6.QtWidgets import (
+    QCheckBox,
+    QComboBox,
+    QDoubleSpinBox,
+    QFormLayout,
+    QGroupBox,
+    QPushButton,
+    QSpinBox,
+    QVBoxLayout,
+    QWidget,
+)
+
+from app.state import Measure, Mode, Session
+from app.state.settings import AXES, STRIPE_MODES
+
+
+def _blocked(*widgets):
+    return [QSignalBlocker(w) for w in widgets]
+
+
+def _spin(low, high, step, decimals=None) -> QDoubleSpinBox | QSpinBox:
+    box = QSpinBox() if decimals is None else QDoubleSpinBox()
+    box.setRange(low, high)
+    box.setSingleStep(step)
+    if decimals is not None:
+        box.setDecimals(decimals)
+    box.setKeyboardTracking(False)  # act on Enter or arrows, not on every typed digit
+    return box
+
+
+class DisplayPanel(QWidget):
+    """Mode, curvature measure and colour range, stripe settings, seam lines."""
+
+    def __init__(self, session: Session, parent=None):
+        super().__init__(parent)
+        self.session = session
+        self.mode = QComboBox()
+        for mode in Mode:
+            self.mode.addItem(mode.value.capitalize(), mode)
+        self.measure = QComboBox()
+        for measure in Measure:
+            self.measure.addItem(measure.value, measure)
+        self.auto_range = QCheckBox("automatic range")
+        # Gaussian curvature of a 100 mm radius is 1e-4 1/mm^2: keep eight decimals
+        self.low = _spin(-1e6, 1e6, 1e-4, 8)
+        self.high = _spin(-1e6, 1e6, 1e-4, 8)
+        self.stripe_count = _spin(1, 200, 1)
+        self.stripe_width = _spin(0.05, 0.95, 0.05, 2)
+        self.stripe_direction = QComboBox()
+        for axis in AXES:
+            self.stripe_direction.addItem(f"along {axis}", axis)
+        self.seams = QCheckBox("seam lines")
+
+        surface = QGroupBox("Surface")
+        form = QFormLayout(surface)
+        form.addRow("Show", self.mode)
+        form.addRow("Measure", self.measure)
+        form.addRow(self.auto_range)
+        form.addRow("From", self.low)
+        form.addRow("To", self.high)
+        form.addRow(self.seams)
+        stripes = QGroupBox("Light stripes")
+        sform = QFormLayout(stripes)
+        sform.addRow("Count", self.stripe_count)
+        sform.addRow("Light share", self.stripe_width)
+        sform.addRow("Lines", self.stripe_direction)
+        layout = QVBoxLayout(self)
+        layout.addWidget(surface)
+        layout.addWidget(stripes)
+        layout.addStretch(1)
+
+        self.mode.currentIndexChanged.connect(lambda: session.set_display(mode=self.mode.currentData()))
+        self.measure.currentIndexChanged.connect(lambda: session.set_display(measure=self.measure.currentData()))
+        self.auto_range.toggled.connect(self._range_changed)
+        self.low.valueChanged.connect(self._range_changed)
+        self.high.valueChanged.connect(self._range_changed)
+        self.stripe_count.valueChanged.connect(lambda n: session.set_stripes(count=int(n)))
+        self.stripe_width.valueChanged.connect(lambda w: session.set_stripes(width=float(w)))
+        self.stripe_direction.currentIndexChanged.connect(
+            lambda: session.set_stripes(direction=self.stripe_direction.currentData())
+        )
+        self.seams.toggled.connect(lambda on: session.set_display(show_seams=bool(on)))
+        session.subscribe("display", self.refresh)
+        session.subscribe("model", self.refresh)
+        self.refresh()
+
+    def _range_changed(self, *_):
+        if self.auto_range.isChecked():
+            self.session.set_colour_range(True)
+        elif self.low.value() < self.high.value():
+            self.session.set_colour_range(False, self.low.value(), self.high.value())
+
+    def refresh(self, *_):
+        d = self.session.display
+        widgets = (
+            self.mode,
+            self.measure,
+            self.auto_range,
+            self.low,
+            self.high,
+            self.stripe_count,
+            self.stripe_width,
+            self.stripe_direction,
+            self.seams,
+        )
+        blockers = _blocked(*widgets)
+        self.mode.setCurrentIndex(self.mode.findData(d.mode))
+        self.measure.setCurrentIndex(self.measure.findData(d.measure))
+        self.auto_range.setChecked(d.colour_range.auto)
+        if self.session.model is not None and d.mode == Mode.CURVATURE:
+            low, high = self.session.colour_limits()
+            self.low.setValue(low)
+            self.high.setValue(high)
+        self.stripe_count.setValue(d.stripes.count)
+        self.stripe_width.setValue(d.stripes.width)
+        self.stripe_direction.setCurrentIndex(self.stripe_direction.findData(d.stripes.direction))
+        self.seams.setChecked(d.show_seams)
+        del blockers
+        curvature = d.mode == Mode.CURVATURE
+        self.measure.setEnabled(curvature)
+        self.auto_range.setEnabled(curvature)
+        self.low.setEnabled(curvature and not d.colour_range.auto)
+        self.high.setEnabled(curvature and not d.colour_range.auto)
+        for w in (self.stripe_count, self.stripe_width, self.stripe_direction):
+            w.setEnabled(d.mode in STRIPE_MODES)
+
+
+class SectionPanel(QWidget):
+    """Section tool: on/off, plane orientation, family, comb scale and density, graph curve."""
+
+    def __init__(self, session: Session, parent=None):
+        super().__init__(parent)
+        self.session = session
+        self.enabled = QCheckBox("section plane (drag it in the view)")
+        self.axis = QComboBox()
+        for axis in AXES:
+            self.axis.addItem(f"normal along {axis}", axis)
+        self.count = _spin(1, 50, 1)
+        self.spacing = _spin(0.01, 1e5, 1.0, 2)
+        self.spacing.setSuffix(" mm")
+        self.gain = _spin(0.05, 50.0, 0.25, 2)
+        self.density = _spin(2, 2000, 10)
+        self.curve = _spin(1, 1, 1)
+        self.centre = QPushButton("Back to the middle")
+        box = QGroupBox("Sections")
+        form = QFormLayout(box)
+        form.addRow(self.enabled)
+        form.addRow("Plane", self.axis)
+        form.addRow("Planes", self.count)
+        form.addRow("Spacing", self.spacing)
+        form.addRow("Comb scale", self.gain)
+        form.addRow("Teeth per model size", self.density)
+        form.addRow("Graph of curve", self.curve)
+        form.addRow(self.centre)
+        layout = QVBoxLayout(self)
+        layout.addWidget(box)
+        layout.addStretch(1)
+
+        self.enabled.toggled.connect(lambda on: session.set_section(enabled=bool(on)))
+        self.axis.currentIndexChanged.connect(lambda: session.set_section(normal=AXES[self.axis.currentData()]))
+        self.count.valueChanged.connect(lambda n: session.set_section(count=int(n)))
+        self.spacing.valueChanged.connect(lambda d: session.set_section(spacing=float(d)))
+        self.gain.valueChanged.connect(lambda g: session.set_section(comb_gain=float(g)))
+        self.density.valueChanged.connect(lambda n: session.set_section(comb_density=int(n)))
+        self.curve.valueChanged.connect(lambda n: session.set_section(selected=int(n) - 1))
+        self.centre.clicked.connect(self._centre)
+        session.subscribe("section", self.refresh)
+        session.subscribe("model", self.refresh)
+        self.refresh()
+
+    def _centre(self):
+        if self.session.model is not None:
+            lo, hi = self.session.model.bounds
+            self.session.set_section(origin=tuple((lo + hi) / 2))
+
+    def refresh(self, *_):
+        s = self.session.section
+        blockers = _blocked(self.enabled, self.axis, self.count, self.spacing, self.gain, self.density, self.curve)
+        self.enabled.setChecked(s.enabled)
+        axis = next((name for name, v in AXES.items() if tuple(v) == tuple(s.normal)), None)
+        if axis is not None:
+            self.axis.setCurrentIndex(self.axis.findData(axis))
+        self.count.setValue(s.count)
+        self.spacing.setValue(s.spacing)
+        self.gain.setValue(s.comb_gain)
+        self.density.setValue(s.comb_density)
+        self.curve.setMaximum(max(len(self.session.sections), 1))
+        self.curve.setValue(min(s.selected + 1, self.curve.maximum()))
+        del blockers
+        has_model = self.session.model is not None
+        self.setEnabled(has_model)

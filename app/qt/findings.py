@@ -1,0 +1,86 @@
+"""The findings list: seams with class and verdict, free edges, inflections, curvature extremes."""
+
+from __future__ import annotations
+
+from PySide6.QtCore import QSignalBlocker, Qt, Signal
+from PySide6.QtGui import QBrush, QColor
+from PySide6.QtWidgets import QComboBox, QHBoxLayout, QLabel, QTreeWidget, QTreeWidgetItem, QVBoxLayout, QWidget
+
+from app.state import Session
+from app.state.session import KIND_ORDER, VERDICT_ORDER
+
+VERDICT_COLOURS = {"fail": "#c0281b", "pass": "#23803f", "note": "#44516e"}
+ANY = "any"
+
+
+class FindingsPanel(QWidget):
+    """Filterable list; choosing an entry selects it in the session (the window then shows it).
+
+    Signals
+    -------
+    chosen(int)
+        Index of the finding in ``session.findings``.
+    """
+
+    chosen = Signal(int)
+
+    def __init__(self, session: Session, parent=None):
+        super().__init__(parent)
+        self.session = session
+        self.kind = QComboBox()
+        self.kind.addItem("all kinds", ANY)
+        for kind in KIND_ORDER:
+            self.kind.addItem(kind + "s", kind)
+        self.verdict = QComboBox()
+        self.verdict.addItem("any verdict", ANY)
+        for verdict in VERDICT_ORDER:
+            self.verdict.addItem(verdict, verdict)
+        self.tree = QTreeWidget()
+        self.tree.setHeaderLabels(["Verdict", "Finding"])
+        self.tree.setRootIsDecorated(False)
+        self.tree.setColumnWidth(0, 56)
+        self.summary = QLabel()
+        filters = QHBoxLayout()
+        filters.addWidget(self.kind)
+        filters.addWidget(self.verdict)
+        layout = QVBoxLayout(self)
+        layout.addLayout(filters)
+        layout.addWidget(self.tree, 1)
+        layout.addWidget(self.summary)
+        self.kind.currentIndexChanged.connect(self.refresh)
+        self.verdict.currentIndexChanged.connect(self.refresh)
+        self.tree.currentItemChanged.connect(self._current_changed)
+        self.tree.itemClicked.connect(lambda item, _col: self._current_changed(item))
+        session.subscribe("findings", self.refresh)
+        session.subscribe("model", self.refresh)
+        self.refresh()
+
+    def _filters(self):
+        kind, verdict = self.kind.currentData(), self.verdict.currentData()
+        return (None if kind == ANY else (kind,)), (None if verdict == ANY else (verdict,))
+
+    def refresh(self, *_):
+        kinds, verdicts = self._filters()
+        shown = self.session.filtered_findings(kinds, verdicts)
+        blocker = QSignalBlocker(self.tree)
+        self.tree.clear()
+        for index, finding in shown:
+            item = QTreeWidgetItem([finding.verdict, finding.title])
+            item.setData(0, Qt.ItemDataRole.UserRole, index)
+            item.setToolTip(1, finding.detail or finding.title)
+            item.setForeground(0, QBrush(QColor(VERDICT_COLOURS.get(finding.verdict, "#000000"))))
+            self.tree.addTopLevelItem(item)
+        del blocker
+        failing = sum(1 for f in self.session.findings if f.verdict == "fail")
+        self.summary.setText(f"{len(shown)} shown of {len(self.session.findings)}; {failing} failing")
+
+    def item_for(self, index: int) -> QTreeWidgetItem | None:
+        for row in range(self.tree.topLevelItemCount()):
+            item = self.tree.topLevelItem(row)
+            if item.data(0, Qt.ItemDataRole.UserRole) == index:
+                return item
+        return None
+
+    def _current_changed(self, item, *_):
+        if item is not None:
+            self.chosen.emit(int(item.data(0, Qt.ItemDataRole.UserRole)))

@@ -1,0 +1,444 @@
+"""The inspection window: a 3-D view of the session, its panels, menus and status bar."""
+
+from __future__ import annotations
+
+import importlib.util
+import os
+import tempfile
+
+import numpy as np
+from PySide6.QtCore import Qt, QTimer, Signal
+from PySide6.QtGui import QAction, QKeySequence
+from PySide6.QtWidgets import (
+    QApplication,
+    QDockWidget,
+    QFileDialog,
+    QLabel,
+    QMainWindow,
+    QMessageBox,
+    QProgressBar,
+    QScrollArea,
+)
+from pyvistaqt import QtInteractor
+
+from app.render.scene import Scene
+from app.state import Mode, Session
+from app.state.recent import RecentFiles, default_store
+
+from .controls import DisplayPanel, SectionPanel
+from .findings import FindingsPanel
+from .graph import CurvatureGraph
+from .worker import LoadJob, start_job
+
+MODEL_FILTER = "Design models (*.step *.stp *.p21 *.iges *.igs *.json);;All files (*)"
+IMAGE_FILTER = "PNG image (*.png);;JPEG image (*.jpg)"
+REPORT_FILTER = "PDF report (*.pdf);;HTML report (*.html)"
+# After the plane stops moving this long (ms), its sections are recomputed exactly.
+EXACT_AFTER_MS = 250
+PROBE_EVERY_MS = 60
+MODE_KEYS = {mode: f"Ctrl+{i + 1}" for i, mode in enumerate(Mode)}
+
+
+def report_available() -> bool:
+    return importlib.util.find_spec("app.report") is not None and importlib.util.find_spec("app.review") is not None
+
+
+class MainWindow(QMainWindow):
+    """Shows one :class:`Session`.
+
+    Signals
+    -------
+    model_shown(str)
+        A model was loaded and drawn (its path); its seams follow.
+    seams_measured(str)
+        The seams of that model are measured and shown.
+    open_failed(str)
+        The message shown to the user.
+    """
+
+    model_shown = Signal(str)
+    seams_measured = Signal(str)
+    open_failed = Signal(str)
+
+    def __init__(self, session: Session | None = None, multi_samples: int | None = None):
+        super().__init__()
+        self.session = session or Session(RecentFiles(default_store()))
+        self.setWindowTitle("Batten")
+        self.resize(1400, 900)
+        self.setAcceptDrops(True)
+        self.view = QtInteractor(self, multi_samples=multi_samples)
+        self.setCentralWidget(self.view)
+        self.scene = Scene(self.view, self.session)
+        self.view.add_axes(interactive=False)
+        self._job_thread = None
+        self._job = None
+        self._job_path = ""
+        self._job_shown = False
+        self._plane_widget = None
+        self._placing_plane = False
+        self._last_camera = None
+        self._probe_at = None
+
+        self._build_docks()
+        self._build_menus()
+        self._build_status()
+        self._exact_timer = QTimer(self, singleShot=True, interval=EXACT_AFTER_MS)
+        self._exact_timer.timeout.connect(lambda: self.session.set_section(exact=True))
+        self._probe_timer = QTimer(self, singleShot=True, interval=PROBE_EVERY_MS)
+        self._probe_timer.timeout.connect(self._probe)
+        self._camera_timer = QTimer(self, singleShot=True, interval=0)
+        self._camera_timer.timeout.connect(self._camera_moved)
+
+        s = self.session
+        s.subscribe("model", self._model_changed)
+        s.subscribe("display", self._display_changed)
+        s.subscribe("sections", self._sections_changed)
+        s.subscribe("section", self._section_settings_changed)
+        s.subscribe("selection", self._selection_changed)
+        s.subscribe("seams", lambda _: self.scene.update_seams())
+        s.subscribe("recent", self._fill_recent)
+        s.subscribe("camera", lambda _: self.scene.update_stripes())
+        self.view.iren.add_observer("MouseMoveEvent", self._mouse_moved)
+        self.view.camera.AddObserver("ModifiedEvent", lambda *_: self._camera_timer.start())
+        self._fill_recent()
+        self._update_status()
+
+    # -- layout ----------------------------------------------------------
+    def _dock(self, title: str, widget, area, name: str) -> QDockWidget:
+        dock = QDockWidget(title, self)
+        dock.setObjectName(name)
+        dock.setWidget(widget)
+        self.addDockWidget(area, dock)
+        return dock
+
+    def _build_docks(self) -> None:
+        self.display_panel = DisplayPanel(self.session)
+        self.section_panel = SectionPanel(self.session)
+        scroll = QScrollArea()
+        scroll.setWidgetResizable(True)
+        scroll.setWidget(self.display_panel)
+        self._dock("Display", scroll, Qt.DockWidgetArea.LeftDockWidgetArea, "display")
+        self._dock("Sections", self.section_panel, Qt.DockWidgetArea.LeftDockWidgetArea, "sections")
+        self.findings_panel = FindingsPanel(self.session)
+        self.findings_panel.chosen.connect(self.session.select)
+        self.findings_panel.setMinimumWidth(360)
+        self._dock("Findings", self.findings_panel, Qt.DockWidgetArea.RightDockWidgetArea, "findings")
+        self.graph = CurvatureGraph()
+        self._dock("Curvature along the section", self.graph, Qt.DockWidgetArea.BottomDockWidgetArea, "graph")
+
+    def _action(self, text: str, slot, shortcut=None, tip: str = "") -> QAction:
+        action = QAction(text, self)
+        action.triggered.connect(slot)
+        if shortcut is not None:
+            action.setShortcut(QKeySequence(shortcut))
+        if tip:
+            action.setToolTip(tip)
+            action.setStatusTip(tip)
+        return action
+
+    def _build_menus(self) -> None:
+        menu = self.menuBar().addMenu("&File")
+        self.open_action = self._action("&Open…", self.choose_file, QKeySequence.StandardKey.Open)
+        menu.addAction(self.open_action)
+        self.recent_menu = menu.addMenu("Open &recent")
+        menu.addSeparator()
+        self.report_action = self._action("Export &report…", self.export_report, "Ctrl+R")
+        if not report_available():
+            self.report_action.setEnabled(False)
+            self.report_action.setToolTip("the report writer is not part of this build")
+        menu.addAction(self.report_action)
+        self.image_action = self._action("Export &image…", self.export_image, "Ctrl+E")
+        menu.addAction(self.image_action)
+        menu.addSeparator()
+        menu.addAction(self._action("&Close window", self.close, QKeySequence.StandardKey.Close))
+        menu.addAction(self._action("&Quit", QApplication.closeAllWindows, QKeySequence.StandardKey.Quit))
+        menu.setToolTipsVisible(True)
+
+        view = self.menuBar().addMenu("&View")
+        for mode, key in MODE_KEYS.items():
+            view.addAction(
+                self._action(mode.value.capitalize(), lambda _=False, m=mode: self.session.set_display(mode=m), key)
+            )
+        view.addSeparator()
+        view.addAction(self._action("Fit model in view", self._fit, "Ctrl+0"))
+        docks = self.menuBar().addMenu("&Panels")
+        for dock in self.findChildren(QDockWidget):
+            docks.addAction(dock.toggleViewAction())
+
+    def _build_status(self) -> None:
+        self.model_label = QLabel()
+        self.probe_label = QLabel()
+        self.progress = QProgressBar()
+        self.progress.setMaximumWidth(220)
+        self.progress.setVisible(False)
+        bar = self.statusBar()
+        bar.addWidget(self.model_label)
+        bar.addWidget(self.probe_label, 1)
+        bar.addPermanentWidget(self.progress)
+
+    # -- opening ---------------------------------------------------------
+    def choose_file(self) -> None:
+        path, _ = QFileDialog.getOpenFileName(self, "Open a design model", "", MODEL_FILTER)
+        if path:
+            self.open_file(path)
+
+    def open_file(self, path: str) -> None:
+        """Load ``path`` in a worker thread; the current model stays until the new one is ready."""
+        if self._job is not None:
+            self.statusBar().showMessage("still opening the previous file", 3000)
+            return
+        self._job = LoadJob(str(path))
+        self._job_shown = False
+        self._job.progress.connect(self._loading_progress)
+        self._job_path = str(path)
+        # bound methods of this window: Qt queues them onto the GUI thread (a lambda would run in the worker)
+        self._job.finished.connect(self._loaded)
+        self._job.seams_ready.connect(self._seams_measured)
+        self._job.failed.connect(self._load_failed)
+        self.progress.setValue(0)
+        self.progress.setVisible(True)
+        self.open_action.setEnabled(False)
+        self._job_thread = start_job(self._job, self)
+
+    def wait_for_job(self) -> None:
+        """Block until a running load has ended (the kernel cannot be interrupted)."""
+        thread, self._job_thread = self._job_thread, None
+        try:
+            if thread is not None and thread.isRunning():
+                thread.wait()
+        except RuntimeError:
+            pass  # the thread object is already deleted: it has ended
+
+    def _loading_progress(self, percent: int, message: str) -> None:
+        self.progress.setValue(percent)
+        self.statusBar().showMessage(message)
+
+    def _job_done(self) -> None:
+        self._job = None
+        self.progress.setVisible(False)
+        self.open_action.setEnabled(True)
+        self.statusBar().clearMessage()
+
+    def _loaded(self, loaded) -> None:
+        self._job_shown = True
+        self.session.adopt(loaded, self._job_path)
+        for warning in loaded.model.warnings[:1]:
+            self.statusBar().showMessage(f"read with warnings: {warning}", 8000)
+        self.model_shown.emit(self._job_path)
+
+    def _seams_measured(self, loaded) -> None:
+        self._job_done()
+        self.session.adopt_seams(loaded)
+        self.seams_measured.emit(self._job_path)
+
+    def _load_failed(self, message: str) -> None:
+        shown = self._job_shown
+        self._job_done()
+        self.open_failed.emit(message)
+        if shown:  # the model is on screen; only its seam analysis failed
+            QMessageBox.critical(self, "Cannot measure the seams", message + "\n\nThe model is shown without seams.")
+        else:
+            QMessageBox.critical(self, "Cannot open the file", message + "\n\nThe model already shown is kept.")
+
+    def dragEnterEvent(self, event):  # noqa: N802 - Qt's name
+        if event.mimeData().hasUrls():
+            event.acceptProposedAction()
+
+    def dropEvent(self, event):  # noqa: N802 - Qt's name
+        urls = [u.toLocalFile() for u in event.mimeData().urls() if u.isLocalFile()]
+        if urls:
+            self.open_file(urls[0])
+            event.acceptProposedAction()
+
+    def _fill_recent(self, *_) -> None:
+        self.recent_menu.clear()
+        for path in self.session.recent.paths:
+            self.recent_menu.addAction(self._action(path, lambda _=False, p=path: self.open_file(p)))
+        self.recent_menu.setEnabled(bool(self.session.recent.paths))
+
+    # -- session -> view -------------------------------------------------
+    def _model_changed(self, _topic) -> None:
+        self._remove_plane_widget()
+        self.scene.rebuild()
+        self.view.view_isometric()
+        self._remember_camera()
+        if self.session.section.enabled:
+            self._add_plane_widget()
+        self._update_status()
+        self.setWindowTitle(f"Batten: {self.session.describe()}")
+
+    def _display_changed(self, _topic) -> None:
+        if self.session.display.mode == Mode.REFLECTION:
+            self.session.camera = self.scene.camera()
+        self.scene.update_surface()
+        self.scene.update_seams()
+
+    def _sections_changed(self, _topic) -> None:
+        self.scene.update_sections()
+        curve = self.session.selected_section
+        self.graph.set_curve(curve, "" if curve is None else f"(curve {self.session.section.selected + 1})")
+
+    def _section_settings_changed(self, _topic) -> None:
+        if not self.session.section.enabled:
+            self._remove_plane_widget()
+        elif self._plane_widget is None:
+            if not self._placing_plane:
+                self._placing_plane = True
+                try:
+                    self._add_plane_widget()
+                finally:
+                    self._placing_plane = False
+        elif not self._placing_plane:
+            self._plane_widget.SetOrigin(*self.session.section.origin)
+            self._plane_widget.SetNormal(*self.session.section.normal)
+
+    def _selection_changed(self, _topic) -> None:
+        finding = self.session.selected_finding
+        if finding is None:
+            self.scene.mark(None)
+        else:
+            self.scene.focus(finding)
+            self.statusBar().showMessage(finding.detail or finding.title, 10000)
+
+    def _fit(self) -> None:
+        self.view.reset_camera()
+        self.view.update()
+
+    # -- section plane widget --------------------------------------------
+    def _add_plane_widget(self) -> None:
+        if self.session.model is None:
+            return
+        lo, hi = self.session.model.bounds
+        pad = 0.05 * self.session.model.size
+        bounds = [lo[0] - pad, hi[0] + pad, lo[1] - pad, hi[1] + pad, lo[2] - pad, hi[2] + pad]
+        s = self.session.section
+        self._plane_widget = self.view.add_plane_widget(
+            self._plane_moved,
+            normal=s.normal,
+            origin=s.origin,
+            bounds=bounds,
+            factor=1.0,
+            color="#3b6ea5",
+            outline_translation=False,
+            interaction_event="always",
+            implicit=True,
+            test_callback=False,  # the session already has these sections
+        )
+
+    def _remove_plane_widget(self) -> None:
+        if self._plane_widget is not None:
+            self.view.clear_plane_widgets()
+            self._plane_widget = None
+
+    def _plane_moved(self, normal, origin) -> None:
+        """The user drags or turns the plane: fast sections now, exact ones once it rests."""
+        self._placing_plane = True
+        try:
+            self.session.set_section(exact=False, origin=tuple(origin), normal=tuple(normal))
+        finally:
+            self._placing_plane = False
+        self._exact_timer.start()
+
+    def move_section(self, origin, normal=None) -> None:
+        """Move the plane from code (tests, scripts): one fast drag step; the widget follows."""
+        normal = self.session.section.normal if normal is None else normal
+        self.session.set_section(exact=False, origin=tuple(origin), normal=tuple(normal))
+        self._exact_timer.start()
+
+    # -- camera and probe ------------------------------------------------
+    def _remember_camera(self) -> None:
+        cam = self.view.camera
+        self._last_camera = (cam.position, cam.focal_point, cam.up)
+
+    def _camera_moved(self) -> None:
+        cam = self.view.camera
+        now = (cam.position, cam.focal_point, cam.up)
+        if now == self._last_camera:
+            return  # clipping-range updates modify the camera on every frame
+        self._last_camera = now
+        if self.session.display.mode == Mode.REFLECTION:
+            self.session.set_camera(self.scene.camera())
+
+    def _mouse_moved(self, *_):
+        self._probe_at = self.view.iren.get_event_position()
+        if not self._probe_timer.isActive():
+            self._probe_timer.start()
+
+    def _probe(self) -> None:
+        if self._probe_at is None or self.session.model is None:
+            return
+        hit = self.scene.pick(*self._probe_at)
+        if hit is None:
+            self.probe_label.setText("")
+            return
+        face, i, j = hit
+        samples = self.session.samples[face]
+        point = samples.field.points[i, j]
+        name, value = self.session.value_at(face, i, j)
+        where = ", ".join(f"{x:.2f}" for x in point)
+        self.probe_label.setText(
+            f"face {face + 1}  ({where}) mm   {name} {value:.4g}   k1 {samples.field.k1[i, j]:.4g}  "
+            f"k2 {samples.field.k2[i, j]:.4g} 1/mm"
+        )
+
+    def _update_status(self) -> None:
+        model = self.session.model
+        if model is None:
+            self.model_label.setText("no model: File > Open, or drop a STEP, IGES or JSON file here")
+        else:
+            self.model_label.setText(f"{len(model.faces)} faces · units {model.units} · size {model.size:.1f} mm")
+
+    # -- export ----------------------------------------------------------
+    def export_image(self) -> None:
+        path, _ = QFileDialog.getSaveFileName(self, "Export the view as an image", "batten-view.png", IMAGE_FILTER)
+        if path:
+            self.save_image(path)
+
+    def save_image(self, path: str) -> None:
+        """Screenshot of the 3-D view, written whole or not at all."""
+        folder = os.path.dirname(os.path.abspath(path))
+        suffix = os.path.splitext(path)[1] or ".png"
+        fd, tmp = tempfile.mkstemp(dir=folder, prefix=".batten-", suffix=suffix)
+        os.close(fd)
+        try:
+            self.view.screenshot(tmp)
+            os.replace(tmp, path)
+        except Exception as exc:
+            if os.path.exists(tmp):
+                os.remove(tmp)
+            QMessageBox.critical(self, "Cannot write the image", f"{path}: {exc}")
+
+    def export_report(self) -> None:
+        if self.session.model is None:
+            QMessageBox.information(self, "Export report", "Open a model first.")
+            return
+        path, _ = QFileDialog.getSaveFileName(self, "Export the review report", "batten-report.pdf", REPORT_FILTER)
+        if path:
+            self.write_report(path)
+
+    def write_report(self, path: str) -> None:
+        from app.report import render_figures, write_report
+        from app.review import review_model
+        from geometry.errors import BattenError
+
+        QApplication.setOverrideCursor(Qt.CursorShape.WaitCursor)
+        try:
+            review = review_model(self.session.model)
+            write_report(path, [review], [render_figures(self.session.model, review)])
+        except (BattenError, OSError) as exc:
+            QMessageBox.critical(self, "Cannot write the report", str(exc))
+        else:
+            self.statusBar().showMessage(f"report written: {path}", 8000)
+        finally:
+            QApplication.restoreOverrideCursor()
+
+    def closeEvent(self, event):  # noqa: N802 - Qt's name
+        self.wait_for_job()
+        self.view.close()
+        super().closeEvent(event)
+
+
+def camera_state(window: MainWindow) -> np.ndarray:
+    """Camera position and focal point, shape (2, 3) (for tests and scripts)."""
+    cam = window.view.camera
+    return np.array([cam.position, cam.focal_point])

@@ -1,0 +1,58 @@
+"""Loading a model off the GUI thread: read, sample, prepare sections, measure seams."""
+
+from __future__ import annotations
+
+from PySide6.QtCore import QObject, QThread, Signal, Slot
+
+from app.state.loading import measure_seams, prepare
+from geometry.errors import BattenError
+
+
+class LoadJob(QObject):
+    """Prepares one file in a worker thread; the result is adopted on the GUI thread.
+
+    Signals
+    -------
+    progress(int, str)
+        Percent done and what is being done.
+    finished(object)
+        The :class:`app.state.Loaded` bundle, seams not yet measured: the
+        window shows it at once.
+    seams_ready(object)
+        The same bundle with its seams measured (the job's last signal).
+    failed(str)
+        A message that names the file and the cause.
+    """
+
+    progress = Signal(int, str)
+    finished = Signal(object)
+    seams_ready = Signal(object)
+    failed = Signal(str)
+
+    def __init__(self, path: str):
+        super().__init__()
+        self.path = path
+
+    @Slot()
+    def run(self) -> None:
+        report = lambda f, m: self.progress.emit(int(round(100 * f)), m)  # noqa: E731
+        try:
+            loaded = prepare(self.path, progress=report, seams=False)
+            self.finished.emit(loaded)
+            self.seams_ready.emit(measure_seams(loaded, report))
+        except BattenError as exc:
+            self.failed.emit(str(exc))
+        except Exception as exc:  # a bug of ours must not kill the window; say what happened
+            self.failed.emit(f"{self.path}: internal error while opening ({type(exc).__name__}: {exc})")
+
+
+def start_job(job: LoadJob, parent: QObject) -> QThread:
+    """Run ``job`` in a new thread that ends (and is deleted) when the job reports."""
+    thread = QThread(parent)
+    job.moveToThread(thread)
+    thread.started.connect(job.run)
+    job.seams_ready.connect(thread.quit)
+    job.failed.connect(thread.quit)
+    thread.finished.connect(thread.deleteLater)
+    thread.start()
+    return thread

@@ -1,0 +1,270 @@
+"""The 3-D scene of a session on any pyvista plotter (the window's, or an off-screen one).
+
+The scene owns the actors and updates them in place where it can (the stripe
+parameter on a camera move, line sets while the section plane is dragged),
+so an update costs the geometry and a buffer upload, not a new pipeline.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import pyvista as pv
+import vtk
+
+from app.state import Camera, Finding, Mode, Session
+from app.state.settings import MEASURE_UNITS, SIGNED_MEASURES, STRIPE_MODES
+
+from . import colours
+from .combs import comb_envelopes, comb_teeth, marker_points, polylines, section_curves
+from .meshes import FaceMesh, face_mesh
+from .seams import seam_lines
+from .stripes import stripe_range, stripe_table
+
+# How far the camera stands from a focused finding, in finding extents.
+FOCUS_DISTANCE = 4.0
+LEGEND = dict(
+    n_labels=5,
+    fmt="%.3g",
+    vertical=True,
+    position_x=0.86,
+    position_y=0.25,
+    width=0.06,
+    height=0.5,
+    title_font_size=14,
+    label_font_size=12,
+    color="black",
+)
+
+
+def legend_title(session: Session) -> str:
+    measure = session.display.measure
+    return f"{measure.value} [{MEASURE_UNITS[measure]}]"
+
+
+class Scene:
+    """Actors of the model, its seams, sections and marks on ``plotter``.
+
+    Parameters
+    ----------
+    plotter : pyvista.Plotter
+        A Qt interactor (updates schedule a repaint) or an off-screen plotter.
+    session : Session
+    auto_render : bool
+        Render (off-screen) or schedule a repaint (Qt) after each update; off
+        for benchmarks that time the frame apart.
+    """
+
+    def __init__(self, plotter: pv.Plotter, session: Session, auto_render: bool = True):
+        self.plotter = plotter
+        self.auto_render = auto_render
+        self.session = session
+        self.faces: FaceMesh | None = None
+        self.surface_actor = None
+        self.surface: pv.PolyData | None = None
+        self.legend: str | None = None
+        self.lines = {name: pv.PolyData() for name in ("curves", "teeth", "envelopes", "seams", "mark")}
+        self.points = {name: pv.PolyData() for name in ("inflections", "extrema", "mark_point")}
+        self.actors: dict[str, object] = {}
+        self._locator = None
+        self._stripe_table = None
+        self._stripe_limits: tuple[float, float] | None = None
+        self._stripe_share: float | None = None
+        plotter.set_background(colours.BACKGROUND_BOTTOM, top=colours.BACKGROUND_TOP)
+
+    # -- whole model -----------------------------------------------------
+    def rebuild(self) -> None:
+        """Drop everything and show the session's current model."""
+        for title in list(self.plotter.scalar_bars.keys()):
+            self.plotter.remove_scalar_bar(title, render=False)
+        self.plotter.clear_actors()
+        self.legend = None
+        self.actors.clear()
+        self.surface_actor = None
+        self.faces = None
+        self._locator = None
+        if self.session.model is None:
+            return
+        self.faces = face_mesh(self.session.samples)
+        self.update_surface()
+        self.update_seams()
+        self.update_sections()
+        self.mark(None)
+        self.plotter.reset_camera()
+
+    def _remove_legend(self) -> None:
+        # Hide rather than remove: a later map with the same title reuses its bar.
+        for bar in self.plotter.scalar_bars.values():
+            bar.SetVisibility(False)
+        self.legend = None
+
+    def update_surface(self) -> None:
+        """Re-show the faces in the session's display mode."""
+        if self.faces is None:
+            return
+        if self.surface_actor is not None:
+            self.plotter.remove_actor(self.surface_actor, render=False)
+        self._remove_legend()
+        # a shallow copy per mode (arrays shared), so one mode's arrays never reach another's mapper
+        mesh = self.surface = self.faces.mesh.copy(deep=False)
+        mode = self.session.display.mode
+        common = dict(name="faces", smooth_shading=True, render=False, pickable=True)
+        if mode == Mode.CURVATURE:
+            values = self.faces.point_values(self.session.measure_fields())
+            values[~np.isfinite(values)] = np.nan
+            mesh.point_data["value"] = values
+            signed = self.session.display.measure in SIGNED_MEASURES
+            limits = self.session.colour_limits()
+            self.legend = legend_title(self.session)
+            self.surface_actor = self.plotter.add_mesh(
+                mesh,
+                scalars="value",
+                cmap=colours.lookup_table(signed, limits),
+                clim=limits,
+                nan_color=colours.MISSING,
+                scalar_bar_args=LEGEND | {"title": self.legend},
+                **common,
+            )
+            self.plotter.scalar_bars[self.legend].SetVisibility(True)
+        elif mode in STRIPE_MODES:
+            self.update_stripes(render=False)
+            self.surface_actor = self.plotter.add_mesh(
+                mesh,
+                scalars="stripe",
+                cmap=self._stripe_table,
+                clim=self._stripe_limits,
+                interpolate_before_map=True,  # per-fragment lookup: sharp stripes
+                lighting=False,
+                show_scalar_bar=False,
+                **common,
+            )
+        else:
+            self.surface_actor = self.plotter.add_mesh(
+                mesh, scalars=None, color=colours.SURFACE, show_scalar_bar=False, **common
+            )
+        self._render()
+
+    def update_stripes(self, render: bool = True) -> None:
+        """Recompute the stripe parameter (after a camera move in reflection mode)."""
+        if self.faces is None or self.surface is None or self.session.display.mode not in STRIPE_MODES:
+            return
+        parameter = self.faces.point_values(self.session.stripe_fields())
+        limits = stripe_range(parameter)
+        share = self.session.display.stripes.width
+        if self._stripe_limits != limits or self._stripe_share != share:
+            self._stripe_table, self._stripe_limits, self._stripe_share = stripe_table(share, limits), limits, share
+            if self.surface_actor is not None and self.surface_actor.mapper.lookup_table is not None:
+                self.surface_actor.mapper.lookup_table = self._stripe_table
+                self.surface_actor.mapper.scalar_range = limits
+        self.surface.point_data["stripe"] = parameter
+        if render:
+            self._render()
+
+    def camera(self) -> Camera:
+        """The plotter's camera as the session describes it."""
+        cam = self.plotter.camera
+        position, focal = np.array(cam.position), np.array(cam.focal_point)
+        direction = tuple(float(x) for x in (focal - position) / max(np.linalg.norm(focal - position), 1e-300))
+        if cam.parallel_projection:
+            return Camera(None, direction)
+        return Camera(tuple(float(x) for x in position), direction)
+
+    # -- lines and markers -----------------------------------------------
+    def _show_lines(self, name: str, data: pv.PolyData, **style) -> None:
+        """Swap new geometry into a persistent actor (created on first use)."""
+        target = self.lines.get(name, self.points.get(name))
+        target.copy_from(data)
+        if name not in self.actors and data.n_points:
+            self.actors[name] = self.plotter.add_mesh(target, name=name, render=False, pickable=False, **style)
+        if name in self.actors:
+            self.actors[name].SetVisibility(data.n_points > 0)
+
+    def update_seams(self) -> None:
+        if self.session.loaded is None:
+            return
+        data = seam_lines(self.session.loaded.seams) if self.session.display.show_seams else pv.PolyData()
+        style = dict(line_width=4, render_lines_as_tubes=False)
+        if data.n_points:
+            style.update(scalars="colour", rgb=True, show_scalar_bar=False)
+        self.lines["seams"].copy_from(data)
+        if "seams" in self.actors:
+            self.plotter.remove_actor(self.actors.pop("seams"), render=False)
+        if data.n_points:
+            self.actors["seams"] = self.plotter.add_mesh(
+                self.lines["seams"], name="seams", render=False, pickable=False, **style
+            )
+        self._render()
+
+    def update_sections(self) -> None:
+        """Curves, comb teeth, envelopes, inflection and extremum markers of the current sections."""
+        session = self.session
+        combs = session.combs
+        sections = session.sections
+        self._show_lines("curves", section_curves(sections), color=colours.SECTION, line_width=2)
+        self._show_lines("teeth", comb_teeth(combs), color=colours.COMB, line_width=1)
+        self._show_lines("envelopes", comb_envelopes(combs), color=colours.ENVELOPE, line_width=2)
+        marker = dict(point_size=12, render_points_as_spheres=True)
+        self._show_lines(
+            "inflections", marker_points([c.inflections.points for c in sections]), color=colours.INFLECTION, **marker
+        )
+        self._show_lines(
+            "extrema", marker_points([c.extrema.points for c in sections]), color=colours.EXTREMUM, **marker
+        )
+        self._render()
+
+    # -- findings --------------------------------------------------------
+    def mark(self, finding: Finding | None) -> None:
+        """Highlight one finding (its path and point), or clear the mark."""
+        if finding is None:
+            path, point = pv.PolyData(), pv.PolyData()
+        else:
+            path = polylines([finding.path]) if finding.path.shape[0] >= 2 else pv.PolyData()
+            point = marker_points([finding.position])
+        self._show_lines("mark", path, color=colours.MARK, line_width=7)
+        self._show_lines("mark_point", point, color=colours.MARK, point_size=20, render_points_as_spheres=True)
+        self._render()
+
+    def focus(self, finding: Finding) -> None:
+        """Turn the camera onto a finding, keeping the viewing direction."""
+        cam = self.plotter.camera
+        position, focal = np.array(cam.position), np.array(cam.focal_point)
+        direction = (focal - position) / max(np.linalg.norm(focal - position), 1e-300)
+        distance = FOCUS_DISTANCE * max(finding.extent, 1e-3)
+        cam.focal_point = tuple(finding.position)
+        cam.position = tuple(finding.position - direction * distance)
+        if cam.parallel_projection:
+            cam.parallel_scale = distance / 2
+        self.plotter.reset_camera_clipping_range()
+        self.mark(finding)
+
+    # -- picking ---------------------------------------------------------
+    def pick(self, x: int, y: int) -> tuple[int, int, int] | None:
+        """(face, i, j) of the grid sample nearest the surface under display pixel (x, y)."""
+        if self.faces is None or self.surface_actor is None:
+            return None
+        if self._locator is None:
+            self._locator = vtk.vtkStaticCellLocator()
+            self._locator.SetDataSet(self.faces.mesh)
+            self._locator.BuildLocator()
+        picker = vtk.vtkCellPicker()
+        picker.SetTolerance(0.0005)
+        picker.AddLocator(self._locator)
+        picker.PickFromListOn()
+        picker.AddPickList(self.surface_actor)
+        if not picker.Pick(x, y, 0, self.plotter.renderer):
+            return None
+        cell = picker.GetCellId()
+        if cell < 0:
+            return None
+        ids = self.faces.mesh.get_cell(cell).point_ids
+        where = np.array(picker.GetPickPosition())
+        nearest = min(ids, key=lambda p: np.linalg.norm(self.faces.mesh.points[p] - where))
+        return self.faces.locate(int(nearest))
+
+    def _render(self) -> None:
+        # Qt plotters paint on their next event; off-screen ones only when asked.
+        if not self.auto_render:
+            return
+        if getattr(self.plotter, "off_screen", False):
+            self.plotter.render()
+        else:
+            self.plotter.update()

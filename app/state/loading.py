@@ -1,0 +1,98 @@
+"""Reading, sampling and analysing a model for the window: one pure function, safe off the GUI thread.
+
+The reader (:func:`geometry.io.read_model`), the trim-aware sampler
+(:func:`geometry.sampling.model_grids`), the section engine and the seam
+analysis are the core's; this file only strings them together with progress.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+from dataclasses import replace
+
+import numpy as np
+
+from geometry.differential import curvature_on_grid
+from geometry.errors import BattenError, ReadError
+from geometry.io import read_model
+from geometry.model import Model
+from geometry.sampling import FaceGrid, model_grids
+from geometry.sections import SectionEngine
+
+from .results import FaceSamples, Loaded
+from .seam_findings import analyse_seams
+
+# Total samples the display grids of a model get (geometry.sampling shares them out).
+SAMPLE_BUDGET = 300_000
+
+Progress = Callable[[float, str], None]
+
+
+def _no_progress(fraction: float, message: str) -> None:
+    pass
+
+
+def sample_face(model: Model, index: int, grid: FaceGrid) -> FaceSamples:
+    """A face's curvature field on its grid; degenerate samples count as off the face."""
+    face = model.faces[index]
+    field = curvature_on_grid(face.surface, grid.u, grid.v, reversed=face.reversed, workers=1)
+    return FaceSamples(index, np.asarray(grid.u), np.asarray(grid.v), grid.inside & field.valid, field)
+
+
+def typical_curvature(samples: tuple[FaceSamples, ...]) -> float:
+    """The 90th percentile of max |k| over all samples on faces (1/mm), 0 for a flat model."""
+    values = np.concatenate([s.field.max_abs[s.inside] for s in samples]) if samples else np.zeros(0)
+    values = values[np.isfinite(values)]
+    return float(np.percentile(values, 90)) if values.size else 0.0
+
+
+def prepare(
+    path: str | None = None, model: Model | None = None, progress: Progress = _no_progress, seams: bool = True
+) -> Loaded:
+    """Read (unless ``model`` is given), sample and analyse a model.
+
+    Parameters
+    ----------
+    path : str, optional
+    model : Model, optional
+        An in-memory model (scripts, tests); ``path`` is then ignored.
+    progress : callable(fraction, message)
+    seams : bool
+        Measure the seams too; the window leaves them to :func:`measure_seams`
+        afterwards, so the model shows before the slowest analysis ends.
+
+    Raises
+    ------
+    BattenError
+        Anything wrong with the file, with the file named.
+    """
+    if model is None:
+        progress(0.0, f"reading {path}")
+        model = read_model(path)
+    name = model.source or str(path)
+    if not model.faces:
+        raise ReadError(name, "the model holds no faces")
+    progress(0.3, "choosing samples")
+    grids = model_grids(model, SAMPLE_BUDGET)
+    samples = []
+    for i, grid in enumerate(grids):
+        progress(0.3 + 0.4 * i / len(grids), f"curvature of face {i + 1} of {len(grids)}")
+        try:
+            samples.append(sample_face(model, i, grid))
+        except BattenError as exc:
+            raise ReadError(name, f"face {i + 1} cannot be evaluated: {exc}") from exc
+    progress(0.7, "preparing sections")
+    engine = SectionEngine(model)
+    samples = tuple(samples)
+    loaded = Loaded(model, samples, curvature_scale=typical_curvature(samples), engine=engine, seams_measured=False)
+    if seams:
+        loaded = measure_seams(loaded, progress)
+    progress(1.0, "ready")
+    return loaded
+
+
+def measure_seams(loaded: Loaded, progress: Progress = _no_progress) -> Loaded:
+    """The same bundle with its seams and free edges measured."""
+    progress(0.8, "measuring seams")
+    seams, findings = analyse_seams(loaded.model)
+    return replace(loaded, seams=seams, seam_findings=findings, seams_measured=True)

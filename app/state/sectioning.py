@@ -1,0 +1,28 @@
+"""Section curves and curvature combs for the window, from the core's :mod:`geometry.sections`.
+
+The session keeps one :class:`geometry.sections.SectionEngine` per model (its
+grids are built once, off the GUI thread) and asks it for the family of planes
+in the section settings: fast (markers interpolated) while the plane is being
+dragged, exact (markers by root finding) once it rests.
+"""
+
+from __future__ import annotations
+
+from geometry.combs import curvature_comb
+from geometry.section_results import CurvatureComb, SectionCurve
+from geometry.sections import SectionEngine
+
+from .settings import SectionSettings
+
+
+def sections_for(engine: SectionEngine | None, settings: SectionSettings, exact: bool) -> tuple[SectionCurve, ...]:
+    """Every curve cut by the family of planes in ``settings`` (none when the tool is off)."""
+    if engine is None or not settings.enabled:
+        return ()
+    family = engine.family(settings.origin, settings.normal, settings.count, settings.spacing, exact=exact)
+    return tuple(curve for section in family for curve in section.curves if curve.points.shape[0] >= 2)
+
+
+def combs_for(curves: tuple[SectionCurve, ...], scale: float, spacing: float) -> tuple[CurvatureComb, ...]:
+    """Comb of each curve; teeth on the convex side (negative scale, see :func:`geometry.combs.curvature_comb`)."""
+    return tuple(curvature_comb(c, -scale, spacing) for c in curves)

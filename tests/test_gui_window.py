@@ -1,0 +1,233 @@
+"""The inspection window under a real X server (pytest-xvfb): open, show, section, findings, errors.
+
+Screenshots of every display mode of every sample go to tests/artifacts/ for a
+person to look at.
+"""
+
+from __future__ import annotations
+
+import json
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+pytest.importorskip("pyvistaqt")
+
+from PySide6.QtCore import QMimeData, QPointF, Qt, QUrl  # noqa: E402
+from PySide6.QtGui import QDropEvent  # noqa: E402
+
+from app.qt import window as window_module  # noqa: E402
+from app.qt.window import MainWindow, camera_state  # noqa: E402
+from app.state import Mode, Session  # noqa: E402
+from app.state.demo import demo_model  # noqa: E402
+
+pytestmark = pytest.mark.gui
+
+ROOT = Path(__file__).resolve().parents[1]
+SAMPLES = ROOT / "sample_surfaces"
+ARTIFACTS = Path(__file__).resolve().parent / "artifacts"
+LOAD_MS = 120_000  # a loaded CI machine; the benchmark reports real times
+
+
+def sample_files(kind: str) -> list[Path]:
+    manifest = SAMPLES / "manifest.json"
+    if not manifest.is_file():
+        return []
+    entries = json.loads(manifest.read_text())["samples"]
+    return [SAMPLES / e["files"][kind] for e in entries if kind in e.get("files", {})]
+
+
+@pytest.fixture
+def window(qtbot, tmp_path, monkeypatch):
+    monkeypatch.setenv("XDG_CONFIG_HOME", str(tmp_path))
+    w = MainWindow(Session(), multi_samples=0)
+    qtbot.addWidget(w)
+    w.resize(1280, 800)
+    w.show()
+    qtbot.waitExposed(w)
+    yield w
+    w.close()
+
+
+def open_and_wait(qtbot, w: MainWindow, path: Path) -> None:
+    """Open and wait until the model is shown and its seams are measured."""
+    with qtbot.waitSignals([w.model_shown, w.seams_measured], timeout=LOAD_MS, raising=True):
+        w.open_file(str(path))
+
+
+def shoot(w: MainWindow, name: str) -> Path:
+    ARTIFACTS.mkdir(exist_ok=True)
+    w.view.update()
+    target = ARTIFACTS / f"{name}.png"
+    assert w.grab().save(str(target))
+    return target
+
+
+@pytest.mark.parametrize("path", sample_files("step"), ids=lambda p: p.stem)
+def test_each_sample_in_every_mode(qtbot, window, path):
+    open_and_wait(qtbot, window, path)
+    assert window.session.path == str(path)
+    assert f"{len(window.session.model.faces)} faces" in window.model_label.text()
+    for mode in Mode:
+        window.session.set_display(mode=mode)
+        qtbot.wait(30)
+        assert window.scene.surface_actor is not None
+        assert shoot(window, f"{path.stem}-{mode.name.lower()}").stat().st_size > 10_000
+    assert window.recent_menu.actions()[0].text() == str(path)
+    assert window.session.loaded.seams_measured
+    assert window.findings_panel.tree.topLevelItemCount() == len(window.session.findings)
+
+
+@pytest.mark.parametrize("path", sample_files("iges")[:2], ids=lambda p: p.stem)
+def test_iges_samples_open(qtbot, window, path):
+    open_and_wait(qtbot, window, path)
+    window.session.set_display(mode=Mode.CURVATURE)
+    shoot(window, f"{path.stem}-iges-curvature")
+    assert window.session.model.faces
+
+
+def test_section_plane_moves_combs_and_markers(qtbot, window):
+    window.session.show_model(demo_model())
+    window.session.set_section(enabled=True, normal=(0.0, 1.0, 0.0), count=2, spacing=12.0)
+    qtbot.wait(30)
+    assert window._plane_widget is not None
+    teeth = window.scene.lines["teeth"].points.copy()
+    marks = window.scene.points["inflections"].points.copy()
+    window.move_section((80.0, 15.0, 0.0))
+    qtbot.wait(30)
+    assert window.scene.lines["teeth"].n_points > 0
+    assert not np.allclose(window.scene.lines["teeth"].points[:, 1].mean(), teeth[:, 1].mean())
+    assert not np.allclose(window.scene.points["inflections"].points, marks)
+    assert np.allclose(window._plane_widget.GetOrigin(), (80.0, 15.0, 0.0))
+    window.session.set_display(mode=Mode.CURVATURE)
+    shoot(window, "demo-section-combs")
+    qtbot.waitUntil(lambda: not window._exact_timer.isActive(), timeout=2000)  # exact pass after the drag
+    assert window.graph.curve is window.session.selected_section is not None
+
+
+def test_clicking_a_finding_focuses_the_camera(qtbot, window):
+    window.session.show_model(demo_model())
+    window.session.set_display(mode=Mode.CURVATURE)
+    tree = window.findings_panel.tree
+    assert tree.topLevelItemCount() == len(window.session.findings)
+    before = camera_state(window)
+    item = tree.topLevelItem(0)
+    qtbot.mouseClick(tree.viewport(), Qt.MouseButton.LeftButton, pos=tree.visualItemRect(item).center())
+    qtbot.waitUntil(lambda: window.session.selection == 0, timeout=2000)
+    finding = window.session.findings[0]
+    assert not np.allclose(camera_state(window), before)
+    assert np.allclose(window.view.camera.focal_point, finding.position)
+    assert window.scene.actors["mark_point"].GetVisibility()
+    shoot(window, "demo-finding-focused")
+
+
+def test_findings_filter_by_verdict(qtbot, window):
+    window.session.show_model(demo_model())
+    panel = window.findings_panel
+    panel.verdict.setCurrentIndex(panel.verdict.findData("fail"))
+    assert 0 < panel.tree.topLevelItemCount() < len(window.session.findings)
+    assert all(panel.tree.topLevelItem(i).text(0) == "fail" for i in range(panel.tree.topLevelItemCount()))
+
+
+def test_broken_file_shows_a_dialog_and_keeps_the_model(qtbot, window, tmp_path, monkeypatch):
+    window.session.show_model(demo_model())
+    shown, faces_actor = window.session.model, window.scene.surface_actor
+    messages = []
+    monkeypatch.setattr(window_module.QMessageBox, "critical", lambda parent, title, text: messages.append(text))
+    bad = tmp_path / "truncated.stp"
+    bad.write_bytes(b"ISO-10303-21;\nHEADER;\nFILE_DESCRIPTION((''),'2;1');\n")
+    with qtbot.waitSignal(window.open_failed, timeout=LOAD_MS):
+        window.open_file(str(bad))
+    assert len(messages) == 1 and "truncated.stp" in messages[0]
+    assert window.session.model is shown
+    assert window.scene.surface_actor is faces_actor
+    assert window.open_action.isEnabled()
+
+
+def test_probe_reports_the_value_under_the_cursor(qtbot, window):
+    window.session.show_model(demo_model())
+    window.session.set_display(mode=Mode.CURVATURE)
+    window.view.update()
+    qtbot.wait(50)
+    size = window.view.render_window.GetSize()
+    window._probe_at = (size[0] // 2, size[1] // 2)
+    window._probe()
+    assert "face" in window.probe_label.text() and "mean" in window.probe_label.text()
+
+
+def test_drop_a_file_opens_it(qtbot, window):
+    path = sample_files("step")[0] if sample_files("step") else None
+    if path is None:
+        pytest.skip("no sample files")
+    mime = QMimeData()
+    mime.setUrls([QUrl.fromLocalFile(str(path))])
+    event = QDropEvent(
+        QPointF(10, 10), Qt.DropAction.CopyAction, mime, Qt.MouseButton.LeftButton, Qt.KeyboardModifier.NoModifier
+    )
+    with qtbot.waitSignals([window.model_shown, window.seams_measured], timeout=LOAD_MS):
+        window.dropEvent(event)
+    assert window.session.path == str(path)
+
+
+def test_export_image_writes_a_whole_file(qtbot, window, tmp_path):
+    window.session.show_model(demo_model())
+    target = tmp_path / "view.png"
+    window.save_image(str(target))
+    assert target.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
+    assert [p.name for p in tmp_path.iterdir() if p.name.startswith(".batten-")] == []
+
+
+def test_report_action_state_matches_the_build(window):
+    assert window.report_action.isEnabled() == window_module.report_available()
+
+
+@pytest.mark.skipif(not window_module.report_available(), reason="no report writer in this build")
+def test_export_report_from_the_window(qtbot, window, tmp_path, monkeypatch):
+    window.session.show_model(demo_model())
+    messages = []
+    monkeypatch.setattr(window_module.QMessageBox, "critical", lambda parent, title, text: messages.append(text))
+    target = tmp_path / "review.html"
+    window.write_report(str(target))
+    assert messages == []
+    assert target.stat().st_size > 1000 and b"<html" in target.read_bytes()[:2000].lower()
+
+
+def test_reflection_lines_follow_a_camera_move(qtbot, window):
+    window.session.show_model(demo_model())
+    window.session.set_display(mode=Mode.REFLECTION)
+    qtbot.wait(30)
+    before = np.array(window.scene.surface.point_data["stripe"])
+    window.view.camera.azimuth = window.view.camera.azimuth + 25.0  # as a mouse rotation would
+    qtbot.waitUntil(lambda: not np.allclose(window.scene.surface.point_data["stripe"], before), timeout=3000)
+    assert window.session.camera is not None and window.session.camera.eye is not None
+    shoot(window, "demo-reflection-after-turn")
+
+
+def designed_inflections():
+    manifest = SAMPLES / "manifest.json"
+    if not manifest.is_file():
+        return []
+    cases = []
+    for entry in json.loads(manifest.read_text())["samples"]:
+        for item in entry.get("inflections", []):
+            cases.append(pytest.param(SAMPLES / entry["files"]["step"], item, id=f"{entry['name']}-{item['count']}"))
+    return cases
+
+
+INFLECTION_MM = 1e-3  # the manifest gives exact roots; the section engine refines to far below this
+
+
+@pytest.mark.parametrize(("path", "designed"), designed_inflections())
+def test_designed_inflections_show_in_the_window(qtbot, window, path, designed):
+    open_and_wait(qtbot, window, path)
+    plane = designed["plane"]
+    window.session.set_section(enabled=True, origin=tuple(plane["point"]), normal=tuple(plane["normal"]), count=1)
+    marks = [f for f in window.session.findings if f.kind == "inflection"]
+    assert len(marks) == designed["count"]
+    found = np.array([f.position for f in marks])
+    for point in designed["points"]:
+        assert np.min(np.linalg.norm(found - point, axis=1)) < INFLECTION_MM
+    assert window.scene.points["inflections"].n_points == designed["count"]
+    window.session.set_display(mode=Mode.CURVATURE)
+    shoot(window, f"{path.stem}-designed-inflections-{designed['count']}")

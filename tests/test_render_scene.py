@@ -1,0 +1,126 @@
+"""Results to pyvista objects, on an off-screen plotter (no window needed)."""
+
+from __future__ import annotations
+
+import numpy as np
+import pytest
+import pyvista as pv
+from numpy.testing import assert_allclose
+
+from app.render import colours
+from app.render.combs import comb_teeth, polylines
+from app.render.meshes import face_mesh, grid_triangles
+from app.render.scene import Scene
+from app.render.stripes import TEXELS, stripe_range, stripe_table
+from app.state import Mode, Session
+from app.state.demo import demo_model
+
+
+@pytest.fixture
+def session():
+    s = Session()
+    s.show_model(demo_model())
+    return s
+
+
+@pytest.fixture
+def scene(session):
+    plotter = pv.Plotter(off_screen=True, window_size=(320, 240))
+    built = Scene(plotter, session)
+    built.rebuild()
+    yield built
+    plotter.close()
+
+
+def test_grid_triangles_keep_only_cells_inside():
+    inside = np.ones((3, 4), bool)
+    inside[0, 0] = False
+    tris = grid_triangles(inside)
+    assert tris.shape == (2 * (2 * 3 - 1), 3)
+    assert 0 not in tris
+
+
+def test_face_mesh_maps_samples_to_points(session):
+    mesh = face_mesh(session.samples)
+    sizes = [s.inside.size for s in session.samples]
+    assert mesh.mesh.n_points == sum(sizes)
+    face, i, j = mesh.locate(sizes[0] + 7)
+    assert (face, i, j) == (1, *divmod(7, session.samples[1].inside.shape[1]))
+    assert_allclose(mesh.mesh.points[sizes[0] + 7], session.samples[1].field.points[i, j], atol=1e-5)
+
+
+def test_diverging_table_is_neutral_at_zero():
+    table = colours.ramp_table(colours.DIVERGING, 257)
+    middle = table[128, :3]
+    assert np.all(middle > 230)  # near-white at zero
+    assert table[0, 2] > table[0, 0] and table[-1, 0] > table[-1, 2]  # cool below zero, warm above
+
+
+def test_stripe_table_light_share_and_whole_periods():
+    parameter = np.linspace(-3.2, 7.9, 500)
+    low, high = stripe_range(parameter)
+    assert low == np.floor(low) and high == np.ceil(high) and low < -3.2 and high > 7.9
+    table = stripe_table(0.25, (low, high))
+    values = np.array([table.map_value(float(x))[:3] for x in (0.0, 0.5, 3.0, 3.5)])
+    assert values[0].min() > 0.9 and values[1].max() < 0.2  # light on integers, dark half-way
+    assert values[2].min() > 0.9 and values[3].max() < 0.2
+    assert TEXELS >= 16 * (high - low)
+
+
+def test_stripe_range_is_bounded_for_grazing_normals():
+    parameter = np.concatenate([np.linspace(0, 5, 1000), [1e9, -1e9]])
+    low, high = stripe_range(parameter)
+    assert high - low <= TEXELS // 16
+
+
+def test_polylines_and_teeth(session):
+    lines = polylines([np.zeros((3, 3)), np.ones((1, 3)), np.ones((2, 3))])
+    assert lines.n_points == 5 and lines.n_lines == 2
+    session.set_section(enabled=True, normal=(0, 1, 0))
+    teeth = comb_teeth(session.combs)
+    assert teeth.n_lines == sum(c.roots.shape[0] for c in session.combs)
+
+
+@pytest.mark.parametrize("mode", list(Mode))
+def test_every_mode_draws_the_faces(scene, session, mode):
+    session.set_display(mode=mode)
+    scene.update_surface()
+    assert scene.surface_actor is not None
+    image = scene.plotter.screenshot(None, return_img=True)
+    assert image.std() > 5  # something drawn, not a blank frame
+    if mode in (Mode.REFLECTION, Mode.HIGHLIGHT, Mode.ISOPHOTE):
+        assert "stripe" in scene.surface.point_data
+        assert scene.surface_actor.mapper.interpolate_before_map  # per-fragment lookup
+
+
+def test_reflection_stripes_follow_the_camera(scene, session):
+    session.set_display(mode=Mode.REFLECTION)
+    scene.update_surface()
+    session.set_camera(scene.camera())
+    scene.update_stripes()
+    before = scene.surface.point_data["stripe"].copy()
+    scene.plotter.camera.azimuth = 40
+    session.set_camera(scene.camera())
+    scene.update_stripes()
+    assert not np.allclose(scene.surface.point_data["stripe"], before)
+
+
+def test_focus_moves_the_camera_onto_a_finding(scene, session):
+    finding = session.findings[0]
+    start = np.array(scene.plotter.camera.position)
+    scene.focus(finding)
+    assert_allclose(scene.plotter.camera.focal_point, finding.position)
+    assert not np.allclose(scene.plotter.camera.position, start)
+    assert scene.actors["mark_point"].GetVisibility()
+
+
+def test_legend_survives_opening_another_model(scene, session):
+    session.set_display(mode=Mode.CURVATURE)
+    scene.update_surface()
+    session.show_model(demo_model())
+    scene.rebuild()
+    bar = scene.plotter.scalar_bars[scene.legend]
+    assert bar.GetVisibility() and scene.plotter.renderer.HasViewProp(bar)
+    session.set_display(mode=Mode.SHADED)
+    scene.update_surface()
+    assert not any(b.GetVisibility() for b in scene.plotter.scalar_bars.values())
