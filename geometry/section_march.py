@@ -108,8 +108,12 @@ def _edge_nodes(grid: MarchGrid, d: np.ndarray, ids: np.ndarray):
     j0 = np.where(along_u, k % b, k % (b - 1))
     i1 = i0 + along_u
     j1 = j0 + ~along_u
-    d0, d1 = d[i0, j0], d[i1, j1]
-    t = d0 / (d0 - d1)  # crossed edges only: d0 and d1 differ in sign, so d0 != d1
+    # t = d0 / (d0 - d1), written so that no step can overflow: on a crossed edge the signs
+    # differ, so |d0 - d1| = |d0| + |d1|, and scaling by the larger (never 0: zero counts as
+    # positive, so the other end is negative) keeps both terms in [0, 1] whatever |f| is
+    a0, a1 = np.abs(d[i0, j0]), np.abs(d[i1, j1])
+    scale = np.maximum(a0, a1)
+    t = (a0 / scale) / (a0 / scale + a1 / scale)
     uv = np.stack([grid.u[i0] + t * (grid.u[i1] - grid.u[i0]), grid.v[j0] + t * (grid.v[j1] - grid.v[j0])], axis=1)
     p0, p1 = grid.points[i0, j0], grid.points[i1, j1]
     xyz = p0 + t[:, None] * (p1 - p0)
@@ -208,6 +212,12 @@ def march_face(face: Face, grid: MarchGrid, origin: np.ndarray, normal: np.ndarr
     # rounding must not scatter signs where the plane runs along grid nodes (a face
     # edge or a knot line in the plane): there f is zero, and zero counts as positive
     d[np.abs(d) <= ZERO_SNAP * (np.abs(grid.points).max() + abs(offset))] = 0.0
+    if d.min() == 0.0 < d.max():
+        # the face touches the plane from the positive side only (a boundary or knot line
+        # in the plane): with zero counted as positive it would show no crossing, so the
+        # curve would depend on which way the normal points. Count zero as negative here;
+        # a neighbour on the other side finds the same curve (sections.py drops the twin).
+        d = -d
     segs = _cell_segments(d)
     if segs.size == 0:
         return None

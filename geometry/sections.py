@@ -122,6 +122,21 @@ class _Piece:
     cycle: bool
 
 
+def _on_polyline(piece: _Piece, other: _Piece, tol: float) -> bool:
+    """Whether every sample of ``piece`` lies on the polyline of ``other`` (see ``_without_twins``)."""
+    pts, line = piece.geom["points"], other.geom["points"]
+    if other.cycle:
+        line = np.concatenate([line, line[:1]])
+    start, step = line[:-1], np.diff(line, axis=0)  # (s, 3)
+    h2 = np.einsum("ij,ij->i", step, step)
+    slack = tol + float(h2.max()) * float(np.max(other.geom["abs_curvature"])) / 8.0
+    # distance from each sample (n) to each segment (s): clamp the foot of the perpendicular
+    rel = pts[:, None, :] - start[None, :, :]
+    t = np.clip(np.einsum("nsk,sk->ns", rel, step) / np.where(h2 > 0, h2, 1.0), 0.0, 1.0)
+    dist = np.linalg.norm(rel - t[..., None] * step[None], axis=-1).min(axis=1)
+    return bool(np.all(dist <= slack))
+
+
 class SectionEngine(IsoCurves):
     """Sections of one model, with per-face sample grids cached for interactive use.
 
@@ -381,22 +396,35 @@ class SectionEngine(IsoCurves):
         return chains
 
     def _without_twins(self, pieces: list[_Piece]) -> list[_Piece]:
-        """Drop pieces that repeat another face's piece: a plane through a shared edge cuts both faces there."""
+        """Drop pieces that repeat another face's piece: a plane through a shared edge cuts both faces there.
+
+        Twins are pieces of different faces with the same ends (either way round)
+        whose every sample lies on the other's polyline, within the join tolerance
+        plus the chord's sagitta ``h^2 |k| / 8`` (h the longest step, k the largest
+        curvature: the circle through a step's ends). Sample counts and positions
+        may differ between the faces, so samples are not compared one to one.
+        """
         if len(pieces) < 2:
             return pieces
         tol = JOIN_FRACTION * self.size
-        marks = np.array(
-            [
-                [p.geom["points"][0], p.geom["points"][p.geom["points"].shape[0] // 2], p.geom["points"][-1]]
-                for p in pieces
-            ]
-        )  # (m, 3, 3)
-        same = np.linalg.norm(marks[:, None] - marks[None, :], axis=-1).max(-1) <= tol
-        turned = np.linalg.norm(marks[:, None] - marks[None, :, ::-1], axis=-1).max(-1) <= tol
-        twin = np.triu(same | turned, k=1)
+        ends = np.array([[p.geom["points"][0], p.geom["points"][-1]] for p in pieces])  # (m, 2, 3)
+        gap = np.linalg.norm(ends[:, None] - ends[None, :], axis=-1).max(-1)
+        gap_turned = np.linalg.norm(ends[:, None] - ends[None, :, ::-1], axis=-1).max(-1)
         faces = np.array([p.face for p in pieces])
-        twin &= faces[:, None] != faces[None, :]
-        drop = twin.any(axis=0)
+        # pieces closing on themselves (cycles, or ends on a periodic face's parameter seam) start
+        # anywhere: their ends say nothing, the polyline test decides
+        loops = np.array([p.cycle for p in pieces]) | (np.linalg.norm(ends[:, 0] - ends[:, 1], axis=1) <= tol)
+        candidate = (np.minimum(gap, gap_turned) <= tol) | (loops[:, None] & loops[None, :])
+        candidate &= faces[:, None] != faces[None, :]
+        drop = np.zeros(len(pieces), bool)
+        for a, b in zip(*np.nonzero(np.triu(candidate, k=1)), strict=True):
+            if (
+                not drop[a]
+                and not drop[b]
+                and _on_polyline(pieces[b], pieces[a], tol)
+                and _on_polyline(pieces[a], pieces[b], tol)
+            ):
+                drop[b] = True
         return [p for p, d in zip(pieces, drop, strict=True) if not d]
 
     def _plane_curve(self, chain, origin, normal, exact: bool) -> SectionCurve:

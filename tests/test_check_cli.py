@@ -109,3 +109,20 @@ def test_a_face_the_core_rejects_makes_that_file_unreadable_not_the_run(tmp_path
     monkeypatch.setattr(batch, "review_file", broken)
     review, figures = batch.check_one(str(CLEAN), batch.ReviewSettings(), False, False)
     assert review.verdict == "unreadable" and "knot vector" in review.error and figures == ()
+
+
+def test_a_kernel_crash_inside_a_pool_worker_marks_only_that_file_unreadable(tmp_path, monkeypatch):
+    # Pool workers read through their own kernel helper (geometry.io.isolation): the crash stays in the
+    # helper, the worker reports the file and goes on with the next one.
+    from test_io_isolation import crashing_copy
+    from test_io_support import plate_with_hole, write_step
+
+    monkeypatch.delenv("BATTEN_READ_IN_PROCESS", raising=False)
+    good = write_step(plate_with_hole(), tmp_path / "plate.step")
+    bad = crashing_copy(good, tmp_path / "plate_damaged.step")
+    out = tmp_path / "all.json"
+    status = main(["check", str(bad), good, str(CLEAN), "--sections", "none", "--json", str(out), "--jobs", "2"])
+    entries = json.loads(out.read_text())["files"]
+    assert status == 2
+    assert [e["status"] for e in entries] == ["unreadable", "checked", "checked"]
+    assert "kernel crashed" in entries[0]["error"]

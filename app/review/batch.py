@@ -89,12 +89,6 @@ def _workers(options: BatchOptions) -> int:
     return max(1, min(wanted, len(options.files)))
 
 
-def _worker_start() -> None:
-    # Each worker already isolates the CAD kernel from the command: read in the worker itself. (A helper
-    # process of the reader inside a pool worker would be joined when the worker exits, and never told to stop.)
-    os.environ["BATTEN_READ_IN_PROCESS"] = "1"
-
-
 def _crashed(path: str) -> FileReview:
     reason = "the process checking this file stopped abruptly (damaged content, or a failure in a native library)"
     return FileReview(source=path, status=UNREADABLE, error=reason, sha256=file_sha256(path))
@@ -103,9 +97,11 @@ def _crashed(path: str) -> FileReview:
 def _pool_run(files: list[str], options: BatchOptions, workers: int, pictures: bool, done: list[int]) -> dict:
     """Results by file index; files whose worker died are left out."""
     out: dict[int, tuple] = {}
-    # spawn: a clean interpreter per worker, no inherited threads or GUI state.
+    # spawn: a clean interpreter per worker, no inherited threads or GUI state. Each worker reads through its
+    # own kernel helper process (geometry.io.isolation), so a kernel crash marks only that file unreadable;
+    # the helper stops when its worker exits.
     context = multiprocessing.get_context("spawn")
-    with ProcessPoolExecutor(workers, mp_context=context, initializer=_worker_start) as pool:
+    with ProcessPoolExecutor(workers, mp_context=context) as pool:
         futures = {
             pool.submit(check_one, f, options.settings, pictures, options.progress): i for i, f in enumerate(files)
         }

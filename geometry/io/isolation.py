@@ -10,6 +10,14 @@ helper is a plain ``python -m`` process, not a multiprocessing child, so scripts
 that call :func:`geometry.io.read_model` need no ``if __name__ == "__main__"``
 guard.
 
+The helper is stopped when the process that started it exits, whichever way it
+exits: ``atexit`` for a plain interpreter, and a multiprocessing finaliser for a
+pool or ``Process`` worker (a fork-started worker leaves through ``os._exit``,
+which skips ``atexit``; the finaliser runs on both start methods). Stopping
+closes the helper's input, so its read loop ends by itself, and kills it only if
+it does not leave within :data:`STOP_TIMEOUT_S`. A forked child forgets its
+parent's helper (the pipes are the parent's) and starts its own when it reads.
+
 Set ``BATTEN_READ_IN_PROCESS=1`` to read in the calling process instead (for
 debugging the readers).
 """
@@ -17,6 +25,7 @@ debugging the readers).
 from __future__ import annotations
 
 import atexit
+import multiprocessing.util
 import os
 import pickle
 import select
@@ -32,9 +41,14 @@ from .occt_model import ShapeContents
 
 # Seconds a single file may take in the kernel before it is given up on.
 READ_TIMEOUT_S = 900.0
+# Seconds an idle helper gets to leave after its input closes, before it is killed.
+STOP_TIMEOUT_S = 10.0
+# Runs before multiprocessing joins a worker's own children and before lower priorities (default 0).
+_FINALIZE_PRIORITY = 10
 
 _LOCK = threading.Lock()
 _WORKER: subprocess.Popen | None = None
+_FINALIZED_PID: int | None = None  # the process whose exit already stops the helper
 
 
 def _read(fmt: str, path: str) -> tuple[ShapeContents, str]:
@@ -59,9 +73,18 @@ def read_in_worker(fmt: str, path: str):
         return ("error", f"the {fmt.upper()} reader failed ({type(exc).__name__}: {exc})")
 
 
+def _stop_at_exit() -> None:
+    """Stop the helper when this process exits (once per process; the registry is per process)."""
+    global _FINALIZED_PID
+    if _FINALIZED_PID != os.getpid():
+        _FINALIZED_PID = os.getpid()
+        multiprocessing.util.Finalize(None, _stop_worker, exitpriority=_FINALIZE_PRIORITY)
+
+
 def _worker() -> subprocess.Popen:
     global _WORKER
     if _WORKER is None or _WORKER.poll() is not None:
+        _stop_at_exit()
         root = os.path.dirname(os.path.dirname(os.path.dirname(os.path.abspath(__file__))))
         env = dict(os.environ, PYTHONPATH=os.pathsep.join(filter(None, [root, os.environ.get("PYTHONPATH")])))
         _WORKER = subprocess.Popen(
@@ -74,15 +97,45 @@ def _worker() -> subprocess.Popen:
     return _WORKER
 
 
-def _stop_worker() -> None:
+def _close_pipes(worker: subprocess.Popen) -> None:
+    for pipe in (worker.stdin, worker.stdout):
+        try:
+            pipe.close()
+        except OSError:  # already broken: the helper is gone
+            pass
+
+
+def _stop_worker(graceful: bool = True) -> None:
+    """Stop the helper: close its input and let it leave, or kill it (after a crash or time-out)."""
     global _WORKER
     worker, _WORKER = _WORKER, None
-    if worker is not None and worker.poll() is None:
+    if worker is None:
+        return
+    _close_pipes(worker)
+    if graceful:
+        try:
+            worker.wait(STOP_TIMEOUT_S)
+            return
+        except subprocess.TimeoutExpired:
+            pass
+    if worker.poll() is None:
         worker.kill()
-        worker.wait()
+    worker.wait()
+
+
+def _forget_parents_worker() -> None:
+    """In a forked child: drop the parent's helper and lock without touching the helper itself."""
+    global _WORKER, _LOCK, _FINALIZED_PID
+    worker, _WORKER = _WORKER, None
+    _LOCK = threading.Lock()  # another thread of the parent may have held it at the fork
+    _FINALIZED_PID = None
+    if worker is not None:
+        _close_pipes(worker)  # the parent's helper then sees its input close when the parent exits
+        worker.returncode = 0  # not our child: never wait for it
 
 
 atexit.register(_stop_worker)
+os.register_at_fork(after_in_child=_forget_parents_worker)
 
 
 def _receive(worker: subprocess.Popen, timeout: float) -> bytes | str:
@@ -132,7 +185,7 @@ def read_isolated(fmt: str, path: str) -> tuple[ShapeContents, str]:
         except OSError:  # the pipe broke: the worker is gone
             answer = "crashed"
         if isinstance(answer, str):
-            _stop_worker()
+            _stop_worker(graceful=False)
             if answer == "crashed":
                 raise ReadError(path, f"the CAD kernel crashed reading the {fmt.upper()} file (damaged content)")
             raise ReadError(path, f"the CAD kernel took longer than {READ_TIMEOUT_S:.0f} s on this file")
