@@ -119,12 +119,18 @@ def _product(build):
             expect.setdefault(key, [])
         expect["faces"] = _face_list(faces)
         expect["free_edges"] = {"count": about["free_edges"], "note": about["free_note"]}
+        # edges of the STEP file used by one face only: the free edges, plus both edges of a gap
+        expect["unshared_edges_step"] = about.get("unshared_edges_step", about["free_edges"])
         return Sample(build.__name__, about["product"], about["description"], faces, expect, about.get("sew", True))
 
     return make
 
 
 # -- 1. hand-held garment steamer: a tube of eight faces, all G2 -------------------
+
+# Every cross-section is the same convex loop scaled by the half-width; one
+# aspect ratio keeps the longitudinal sections free of inflections (see steamer_body).
+STEAMER_HEIGHT_TO_WIDTH = 1.15
 
 
 @_product
@@ -134,12 +140,27 @@ def steamer_body() -> tuple[list[SampleFace], dict]:
     One bicubic surface, periodic around the body (uniform cubic, wrapped poles)
     and clamped along it, split at simple knots: every seam is C2, so G2 with a
     curvature jump at rounding level.
+
+    No plane section inflects. The surface is (x, w(x) Y(v), a w(x) Z(v)) with
+    one aspect ratio a. The loop (Y, Z) is a closed B-spline on a convex pole
+    octagon, hence convex (variation diminishing: The NURBS Book sec. 3.2 and
+    Farin, 5th ed., ch. 7), so every cross-section x = c is convex. w(x) is a
+    spline function with concave coefficients at the Greville abscissae, hence
+    concave (its second derivative is a spline with coefficients of the sign of
+    the second differences; de Boor, *A Practical Guide to Splines*, ch. X).
+    A longitudinal section y = c is z = a w g(c / w), g the concave top of the
+    loop: the perspective of a concave function, concave and rising in w, and
+    of concave w(x), so concave (Boyd & Vandenberghe, *Convex Optimization*,
+    secs. 3.2.4 and 3.2.6); likewise z = c. All citations from memory.
     """
     x_breaks = np.linspace(0.0, 180.0, 7)
     ku = clamped_knots(x_breaks, 3)
     xs = greville(ku, 3)  # x(u) = u exactly
-    half_width = np.array([20.0, 20.0, 18.0, 16.0, 17.0, 21.0, 24.0, 26.0, 26.0])
-    half_height = np.array([22.0, 22.0, 20.0, 18.0, 19.0, 24.0, 28.0, 30.0, 30.0])
+    # The body flares from the slim rear of the grip to the head. The half-width
+    # poles climb with ever smaller steps (a concave polygon, slopes 0.15 down to
+    # 0) and the last two are equal, so the body ends straight into the soleplate.
+    half_width = np.array([12.5, 14.0, 16.8, 20.7, 23.9, 25.7, 26.6, 27.0, 27.0])
+    half_height = STEAMER_HEIGHT_TO_WIDTH * half_width
     # Cross-section poles clockwise seen from +x (so Su x Sv points outwards),
     # starting at 180 degrees; the piece [3, 5] is centred on pole 2 (the top).
     angles = np.radians(180.0 - 45.0 * np.arange(8))
@@ -177,7 +198,12 @@ def steamer_body() -> tuple[list[SampleFace], dict]:
                 face, "u1", soleplate, "G0", sides=["u1", "trim"], angle_deg=90.0, angle_exact=True, curvature_jump=None
             )
         )
-    return [*faces, soleplate], {"seams": seams}
+    # Through the grip, the ring seam, the head; along the middle and off it, both ways.
+    clean = [
+        {"plane": _section_plane(axis, value), "count": 0}
+        for axis, value in (("x", 45.0), ("x", 90.0), ("x", 135.0), ("y", 0.0), ("y", -10.0), ("z", 0.0), ("z", 15.0))
+    ]
+    return [*faces, soleplate], {"seams": seams, "clean_sections": clean}
 
 
 def _end_curve(surface: NurbsSurface) -> tuple:
@@ -233,6 +259,9 @@ def hood_visor() -> tuple[list[SampleFace], dict]:
 
 # -- 3. toaster side panel: a pressed bump whose sections inflect --------------------
 
+# `batten check` cuts this many evenly spaced planes across x and across y by default.
+DEFAULT_SECTIONS_PER_AXIS = 5
+
 
 @_product
 def toaster_panel() -> tuple[list[SampleFace], dict]:
@@ -241,7 +270,7 @@ def toaster_panel() -> tuple[list[SampleFace], dict]:
     x(u) = u and y(v) = v exactly (poles at Greville abscissae), so the section by
     a plane y = c is the graph z = f(x, c) and its curvature has the sign of
     f_xx: the crown alone keeps f_xx < 0; the bump's foot makes it positive, so
-    each section through the bump inflects four times.
+    a section through the bump inflects (three or four times).
     """
     ku = clamped_knots(np.linspace(0.0, 160.0, 9), 3)
     kv = clamped_knots(np.linspace(0.0, 110.0, 7), 3)
@@ -259,13 +288,23 @@ def toaster_panel() -> tuple[list[SampleFace], dict]:
         _inflection_section(surface, "side_panel", "x", 100.0),
     ]
     clean = [{"plane": _section_plane("y", 10.0), "count": 0}, {"plane": _section_plane("x", 20.0), "count": 0}]
-    return [face], {"inflections": sections, "clean_sections": clean}
+    # The planes a default `batten check` cuts (x:5;y:5: sixths of the 160 x 110 mm panel).
+    default = [
+        _inflection_section(surface, "side_panel", axis, size * i / (DEFAULT_SECTIONS_PER_AXIS + 1))
+        for axis, size in (("x", 160.0), ("y", 110.0))
+        for i in range(1, DEFAULT_SECTIONS_PER_AXIS + 1)
+    ]
+    return [face], {"inflections": sections, "clean_sections": clean, "default_sections": default}
 
 
 def _section_plane(axis: str, value: float) -> dict:
-    """The plane ``axis = value`` (axis "x" or "y") as point and normal."""
-    normal = [1.0 if axis == "x" else 0.0, 1.0 if axis == "y" else 0.0, 0.0]
-    return {"point": [value * normal[0], value * normal[1], 0.0], "normal": normal}
+    """The plane ``axis = value`` (axis "x", "y" or "z") as point and normal."""
+    normal = [float(axis == a) for a in "xyz"]
+    return {"point": [value * c for c in normal], "normal": normal}
+
+
+# |f_xx| at a knot below this fraction of its largest value is zero (rounding).
+SECOND_DERIVATIVE_ZERO = 1e-12
 
 
 def _inflection_section(surface: NurbsSurface, face: str, axis: str, value: float) -> dict:
@@ -275,16 +314,24 @@ def _inflection_section(surface: NurbsSurface, face: str, axis: str, value: floa
     sign of f_xx. The second derivative of a cubic spline is a continuous
     piecewise linear spline (degree p - 2), so its sign changes, and their exact
     places, follow from its values at the knots (The NURBS Book sec. 3.3 on
-    derivatives, from memory). None of the samples has f_xx = 0 at a knot.
+    derivatives, from memory): a root inside a span where the values there
+    differ in sign, or the knot itself where f_xx is zero at it (to rounding)
+    between values of opposite sign.
     """
     along_u = axis == "y"
     knots = np.unique(surface.knots_u if along_u else surface.knots_v)
     fixed = np.full(knots.size, value)
     ders = surface.derivatives_at(*((knots, fixed) if along_u else (fixed, knots)), 2)
     d2 = ders[2, 0, :, 2] if along_u else ders[0, 2, :, 2]
-    lo, hi = d2[:-1], d2[1:]
-    span = np.flatnonzero(lo * hi < 0.0)
-    roots = knots[span] + (knots[span + 1] - knots[span]) * lo[span] / (lo[span] - hi[span])
+    signs = np.where(np.abs(d2) > SECOND_DERIVATIVE_ZERO * np.abs(d2).max(), np.sign(d2), 0.0)
+    nonzero = np.flatnonzero(signs)
+    a, b = nonzero[:-1], nonzero[1:]
+    a, b = a[signs[a] != signs[b]], b[signs[a] != signs[b]]
+    inside = b == a + 1  # a root inside the span; else f_xx is zero at the knot(s) between
+    lo, hi = d2[a], d2[b]
+    roots = np.where(
+        inside, knots[a] + (knots[b] - knots[a]) * lo / np.where(inside, lo - hi, 1.0), knots[(a + b) // 2]
+    )
     fixed = np.full(roots.size, value)
     ru, rv = (roots, fixed) if along_u else (fixed, roots)
     return {

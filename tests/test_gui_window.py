@@ -153,7 +153,8 @@ def test_probe_reports_the_value_under_the_cursor(qtbot, window):
     size = window.view.render_window.GetSize()
     window._probe_at = (size[0] // 2, size[1] // 2)
     window._probe()
-    assert "face" in window.probe_label.text() and "mean" in window.probe_label.text()
+    text = window.probe_label.text()
+    assert text.split()[0] in ("panel", "flange") and "mean" in text  # the demo's face names
 
 
 def test_drop_a_file_opens_it(qtbot, window):
@@ -223,7 +224,7 @@ def test_designed_inflections_show_in_the_window(qtbot, window, path, designed):
     open_and_wait(qtbot, window, path)
     plane = designed["plane"]
     window.session.set_section(enabled=True, origin=tuple(plane["point"]), normal=tuple(plane["normal"]), count=1)
-    marks = [f for f in window.session.findings if f.kind == "inflection"]
+    marks = [f for f in window.session.findings if f.kind == "inflection" and f.verdict == "note"]
     assert len(marks) == designed["count"]
     found = np.array([f.position for f in marks])
     for point in designed["points"]:
@@ -231,3 +232,126 @@ def test_designed_inflections_show_in_the_window(qtbot, window, path, designed):
     assert window.scene.points["inflections"].n_points == designed["count"]
     window.session.set_display(mode=Mode.CURVATURE)
     shoot(window, f"{path.stem}-designed-inflections-{designed['count']}")
+
+
+# -- profile, findings, graph, curve picking, report settings ---------------------------------------
+
+HOOD = SAMPLES / "hood_visor.stp"  # its visor_flat / visor_bend seam is G1 by design (manifest.json)
+TOASTER = SAMPLES / "toaster_panel.stp"
+
+
+def seam_verdicts(w: MainWindow) -> list[str]:
+    return [f.verdict for f in w.session.findings if f.kind == "seam"]
+
+
+@pytest.mark.skipif(not HOOD.is_file(), reason="samples not built")
+def test_profile_chooser_rejudges_without_reloading(qtbot, window):
+    open_and_wait(qtbot, window, HOOD)
+    chooser = window.findings_panel.profile
+    names = [chooser.itemData(i) for i in range(chooser.count())]
+    assert names == ["class-a", "technical", window_module.FROM_FILE]
+    assert window.profile_label.text() == "profile class-a"
+    assert seam_verdicts(window) == ["fail"]  # class-A wants G2
+    shown, actor = window.session.model, window.scene.surface_actor
+    chooser.activated.emit(names.index("technical"))  # as a user's choice in the list
+    assert window.profile_label.text() == "profile technical"
+    assert chooser.currentData() == "technical"
+    assert seam_verdicts(window) == ["pass"]  # G1 is enough for technical surfaces
+    assert window.session.model is shown and window.scene.surface_actor is actor
+    assert "profile technical" in window.findings_panel.summary.text()
+    shoot(window, "hood_visor-technical-profile")
+
+
+def test_a_bad_profile_file_keeps_the_profile_in_force(qtbot, window, tmp_path, monkeypatch):
+    window.session.show_model(demo_model())
+    bad = tmp_path / "ours.toml"
+    bad.write_text("this is = not toml [")
+    messages = []
+    monkeypatch.setattr(window_module.QMessageBox, "critical", lambda parent, title, text: messages.append(text))
+    monkeypatch.setattr(window_module.QFileDialog, "getOpenFileName", lambda *a, **k: (str(bad), ""))
+    window.choose_profile(window_module.FROM_FILE)
+    assert len(messages) == 1 and "ours.toml" in messages[0]
+    assert window.session.profile.name == "class-a"
+    assert window.findings_panel.profile.currentData() == "class-a"
+
+
+def test_findings_name_faces_and_filter_section_extrema(qtbot, window):
+    if not TOASTER.is_file():
+        pytest.skip("samples not built")
+    open_and_wait(qtbot, window, TOASTER)
+    window.session.set_section(enabled=True, normal=(0.0, 1.0, 0.0))
+    panel = window.findings_panel
+    panel.kind.setCurrentIndex(panel.kind.findData("section extremum"))
+    shown = panel.tree.topLevelItemCount()
+    assert shown == sum(len(c.extrema) for c in window.session.sections) > 0
+    assert all(": curvature m" in panel.tree.topLevelItem(i).text(1) for i in range(shown))
+    panel.kind.setCurrentIndex(panel.kind.findData("free edge"))
+    assert panel.tree.topLevelItem(0).text(1).startswith("free edge of side_panel")  # the face's name in the file
+
+
+def test_graph_draws_every_point_of_the_curve(qtbot, window):
+    if not TOASTER.is_file():
+        pytest.skip("samples not built")
+    open_and_wait(qtbot, window, TOASTER)
+    window.session.set_display(mode=Mode.CURVATURE)
+    window.session.set_section(enabled=True, normal=(0.0, 1.0, 0.0))
+    curve = window.session.selected_section
+    assert window.graph.curve is curve
+    xs, ys = window.graph.polyline()
+    assert xs.shape == ys.shape == (curve.points.shape[0],) and curve.points.shape[0] > 200
+    assert np.all(np.diff(xs) >= 0)  # arc length runs left to right
+    assert window.graph.title == "section 1, curve 1"
+    shoot(window, "toaster_panel-graph")
+
+
+def test_clicking_a_section_curve_shows_it_in_the_graph(qtbot, window):
+    import vtk
+
+    window.session.show_model(demo_model())
+    window.session.set_section(enabled=True, normal=(0.0, 1.0, 0.0), count=3, spacing=12.0)
+    window.view.update()
+    qtbot.wait(50)
+    curve = window.session.sections[2]
+    # display pixel of a point on the third curve, by VTK's own world -> display conversion
+    coordinate = vtk.vtkCoordinate()
+    coordinate.SetCoordinateSystemToWorld()
+    coordinate.SetValue(*curve.points[len(curve.points) // 3])
+    x, y = coordinate.GetComputedDoubleDisplayValue(window.view.renderer)
+    assert window.pick_curve(x, y)
+    assert window.session.section.selected == 2 and window.graph.curve is curve
+    assert window.section_panel.curve.currentText() == "section 3, curve 1"
+    assert not window.pick_curve(2, 2)  # a corner of the view: no curve there
+    window.section_panel.curve.setCurrentIndex(0)  # choosing it in the list
+    assert window.graph.curve is window.session.sections[0]
+
+
+@pytest.mark.skipif(not window_module.report_available(), reason="no report writer in this build")
+def test_export_report_uses_the_profile_and_planes_on_screen(qtbot, window, tmp_path, monkeypatch):
+    window.session.show_model(demo_model())
+    window.set_profile("technical")
+    window.session.set_section(enabled=True, normal=(0.0, 1.0, 0.0), count=2, spacing=12.0)
+    seen = []
+    from app import review
+
+    real = review.review_model
+    monkeypatch.setattr(review, "review_model", lambda model, settings: seen.append(settings) or real(model, settings))
+    target = tmp_path / "review.html"
+    window.write_report(str(target))
+    assert seen == [window.session.review_settings]
+    assert seen[0].profile == "technical" and seen[0].sections.count("plane:") == 2
+    text = target.read_text()
+    assert "technical" in text and "plane:" in text
+
+
+def test_curvature_map_is_smooth_point_data_on_the_dense_grid(qtbot, window):
+    if not TOASTER.is_file():
+        pytest.skip("samples not built")
+    open_and_wait(qtbot, window, TOASTER)
+    window.session.set_display(mode=Mode.CURVATURE)
+    a, b = window.session.samples[0].inside.shape
+    assert min(a, b) >= 250  # one face: a few hundred samples a side (common practice for smooth maps)
+    surface, mapper = window.scene.surface, window.scene.surface_actor.mapper
+    assert surface.point_data["value"].shape == (surface.n_points,) == (a * b,)  # a value per node, not per cell
+    assert mapper.GetScalarModeAsString() in ("Default", "UsePointData")
+    assert mapper.GetInterpolateScalarsBeforeMapping()  # colours interpolated across each triangle
+    assert window.scene.surface_actor.prop.interpolation.name in ("GOURAUD", "PHONG")

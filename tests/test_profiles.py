@@ -53,6 +53,9 @@ def test_user_file_by_path_with_a_base(tmp_path):
         ("base = 'class-a'\nrequired = 'G7'\n", "required must be one of"),
         ("base = 'class-a'\n[tolerance]\nwobble = 1\n", "unknown [tolerance] key"),
         ("base = 'nowhere'\n", "base must name a shipped profile"),
+        ("base = 'class-a'\n[tolerance]\nsection_inflections_max = -1\n", "whole number >= 0"),
+        ("base = 'class-a'\n[tolerance]\nsection_inflections_max = 1.5\n", "whole number >= 0"),
+        ("base = 'class-a'\n[tolerance]\nsection_inflections_max = 'few'\n", "whole number >= 0"),
     ],
 )
 def test_bad_files_name_the_file_and_the_cause(tmp_path, text, words):
@@ -98,3 +101,33 @@ def test_geometry_defaults_are_the_shipped_class_a_values():
     default = SeamTolerance()
     for key in ("position_mm", "tangent_deg", "curvature_relative", "flat_curvature_per_mm", "required", "crease_deg"):
         assert getattr(shipped, key) == getattr(default, key), key
+
+
+def test_inflection_limit_per_section():
+    """Class-A: none (common practice, no published source); technical: no limit, listed not judged."""
+    class_a, technical = get_profile("class-a"), get_profile("technical")
+    assert class_a.section_inflections_max == 0 and class_a.as_dict()["section_inflections_max"] == 0
+    assert "common practice" in class_a.basis["section_inflections_max"]
+    assert technical.section_inflections_max is None and technical.as_dict()["section_inflections_max"] is None
+
+
+def test_inflection_limit_is_inherited_and_can_be_lifted(tmp_path):
+    inherited = tmp_path / "inherited.toml"
+    inherited.write_text('name = "inherited"\nbase = "class-a"\n')
+    assert get_profile(str(inherited)).section_inflections_max == 0
+    lifted = tmp_path / "lifted.toml"
+    lifted.write_text('name = "lifted"\nbase = "class-a"\n[tolerance]\nsection_inflections_max = "none"\n')
+    assert get_profile(str(lifted)).section_inflections_max is None
+    two = tmp_path / "two.toml"
+    two.write_text('name = "two"\nbase = "technical"\n[tolerance]\nsection_inflections_max = 2\n')
+    profile = get_profile(str(two))
+    assert profile.section_inflections_max == 2 and profile.basis["section_inflections_max"] == "set in two.toml"
+
+
+def test_the_review_reads_the_inflection_limit_the_profile_gives():
+    """app.review judges section curves by the key the profile echoes."""
+    from app.review.adapters import load_profile as review_profile
+    from app.review.findings import INFLECTION_LIMIT_KEY
+
+    assert review_profile("class-a").limit(INFLECTION_LIMIT_KEY) == 0
+    assert review_profile("technical").limit(INFLECTION_LIMIT_KEY) is None

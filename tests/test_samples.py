@@ -217,7 +217,7 @@ def test_step_faces_topology_and_names(entry):
     TopExp.MapShapesAndAncestors_s(shape, TopAbs_EDGE, TopAbs_FACE, edge_faces)
     uses = [edge_faces.FindFromIndex(i).Size() for i in range(1, edge_faces.Extent() + 1)]
     assert uses.count(2) == len(entry["seams"]) - sum(s["continuity"] == "broken" for s in entry["seams"])
-    assert uses.count(1) == entry["free_edges"]["count"]
+    assert uses.count(1) == entry["unshared_edges_step"]  # a gap is not sewn: both its edges stay unshared
     assert max(uses) <= 2
 
 
@@ -365,23 +365,62 @@ def _section_z2(surface, plane, s: np.ndarray) -> np.ndarray:
     return np.array(out)
 
 
+# Either side of a listed root, well inside the gap to the next one (the closest two, on
+# x = 133.33, are 0.068 mm apart); dense samples for counting sign changes, in mm.
+ROOT_SIDE_MM = 0.01
+DENSE_STEP_MM = 0.005
+
+
 def test_bump_sections_inflect_where_listed():
     """Section curvature of a graph z = f(x, c) is f_xx / (1 + f_x^2)^1.5: its sign is f_xx's."""
     entry = BY_NAME["toaster_panel"]
     surface = _occ_surface(_step_faces_by_name(entry)["side_panel"])
-    for section in entry["inflections"]:
-        assert section["count"] > 0
+    for section in [*entry["inflections"], *entry["default_sections"]]:
         along = 0 if section["plane"]["normal"][1] == 1.0 else 1
+        size = 160.0 if along == 0 else 110.0
+        dense = _section_z2(surface, section["plane"], np.linspace(0.0, size, round(size / DENSE_STEP_MM) + 1))
+        signs = np.sign(dense[np.abs(dense) > ROUNDING])
+        assert np.count_nonzero(np.diff(signs) != 0) == section["count"]
+        if not section["count"]:
+            continue
         s = np.array([uv[along] for uv in section["uv"]])
         np.testing.assert_allclose(_section_z2(surface, section["plane"], s), 0.0, atol=ROUNDING)
-        left, right = _section_z2(surface, section["plane"], s - 0.5), _section_z2(surface, section["plane"], s + 0.5)
+        left = _section_z2(surface, section["plane"], s - ROOT_SIDE_MM)
+        right = _section_z2(surface, section["plane"], s + ROOT_SIDE_MM)
         assert np.all(left * right < 0)
-        dense = _section_z2(surface, section["plane"], np.linspace(0.0, 160.0 if along == 0 else 110.0, 1601))
-        assert np.count_nonzero(np.diff(np.sign(dense)) != 0) == section["count"]
+    assert any(section["count"] == 0 for section in entry["default_sections"])
     for section in entry["clean_sections"]:
         along_x = section["plane"]["normal"][1] == 1.0
         dense = _section_z2(surface, section["plane"], np.linspace(0.0, 160.0 if along_x else 110.0, 1601))
         assert np.all(dense < 0)  # the crown alone: convex everywhere, no inflection
+
+
+def test_steamer_cross_sections_are_convex_and_its_profile_concave():
+    """By OCP on the STEP faces: x = u exactly, so an iso-u curve is the cross-section x = u.
+
+    A planar curve is convex where (C' x C'') keeps one sign (do Carmo 1976, sec. 1-5);
+    the top line (the middle of the upper faces, y = 0 by symmetry) is z(x) with
+    curvature of the sign of z_xx, which must stay negative (concave, no inflection).
+    """
+    from OCP.gp import gp_Pnt, gp_Vec
+
+    entry = BY_NAME["steamer_body"]
+    faces = _step_faces_by_name(entry)
+    turns, top = [], []
+    for part in ("grip", "head"):
+        for side in ("upper", "side_r", "lower", "side_l"):
+            surface = _occ_surface(faces[f"{part}_{side}"])
+            u0, u1, v0, v1 = surface.Bounds()
+            for u in np.linspace(u0, u1, 7):
+                for v in np.linspace(v0, v1, 41):
+                    p, du, dv, duu, dvv, duv = gp_Pnt(), gp_Vec(), gp_Vec(), gp_Vec(), gp_Vec(), gp_Vec()
+                    surface.D2(float(u), float(v), p, du, dv, duu, dvv, duv)
+                    turns.append(dv.Y() * dvv.Z() - dv.Z() * dvv.Y())
+                    if side == "upper" and v == 0.5 * (v0 + v1):
+                        assert abs(p.Y()) < ROUNDING
+                        top.append(duu.Z())
+    assert np.all(np.array(turns) < 0)  # one turning sense all round: convex cross-sections
+    assert len(top) == 14 and np.all(np.array(top) < 0)
 
 
 def test_bump_inflections_agree_with_the_core():

@@ -9,6 +9,8 @@ the minimum radius of a circular cylinder is its radius.
 
 from __future__ import annotations
 
+from pathlib import Path
+
 import numpy as np
 import pytest
 from numpy.testing import assert_allclose
@@ -155,8 +157,8 @@ def test_section_family_finds_the_designed_inflection(session):
     for curve in session.sections:
         assert len(curve.inflections) == 1
         assert abs(curve.inflections.points[0, 0] - INFLECTION_X) < ROOT_TOL
-    kinds = [f.kind for f in session.findings]
-    assert kinds.count("inflection") == 3
+    marks = [f for f in session.findings if f.kind == "inflection" and f.verdict == "note"]
+    assert len(marks) == 3  # one note per point; a profile limit adds a judged entry per curve
 
 
 def test_dragging_the_plane_moves_combs_and_markers(session):
@@ -201,3 +203,158 @@ def test_probe_value_reads_the_current_measure(session):
     session.set_display(measure=Measure.K1)
     name, value = session.value_at(0, 3, 4)
     assert name == "k1" and value == session.samples[0].field.k1[3, 4]
+
+
+# -- findings judged by the check's own review code ----------------------------------------------
+
+SAMPLES = Path(__file__).resolve().parents[1] / "sample_surfaces"
+HOOD = SAMPLES / "hood_visor.stp"  # its visor_flat / visor_bend seam is G1 by design (manifest.json)
+TOASTER = SAMPLES / "toaster_panel.stp"  # a raised bump: the curvature along a section has extrema
+
+
+def judged(findings) -> list[tuple[str, str]]:
+    """(kind, verdict) of the entries a profile judges (notes are not judged), sorted."""
+    kinds = {"free edge": "free_edge", "curvature extreme": "curvature"}
+    return sorted((kinds.get(f.kind, f.kind), f.verdict) for f in findings if f.verdict in ("pass", "fail"))
+
+
+def test_faces_are_named_from_the_file_or_counted_from_zero(session):
+    seam = next(f for f in session.findings if f.kind == "seam")
+    assert seam.title.startswith("seam panel / flange: ")  # the demo's face names
+    unnamed = Session()
+    unnamed.show_model(Model((Face(quarter_cylinder(12.5)),)))
+    assert unnamed.face_label(0) == "face 0"  # as `batten probe --face 0`
+    assert [f.title.split(":")[0] for f in unnamed.findings if f.kind == "curvature extreme"] == ["face 0"]
+
+
+@pytest.mark.skipif(not TOASTER.is_file(), reason="samples not built")
+def test_section_extrema_are_listed_as_their_own_kind():
+    session = Session()
+    session.open(str(TOASTER))
+    session.set_section(enabled=True, normal=(0, 1, 0), count=2, spacing=10.0)
+    extrema = session.filtered_findings(kinds=("section extremum",))
+    assert len(extrema) == sum(len(c.extrema) for c in session.sections) > 0
+    assert_allclose(extrema[0][1].position, session.sections[0].extrema.points[0])
+    assert extrema[0][1].title.startswith("section 1, curve 1: curvature m")
+    assert all(f.verdict == "note" for _, f in extrema)  # the check does not judge them
+
+
+@pytest.mark.skipif(not HOOD.is_file(), reason="samples not built")
+def test_window_verdicts_are_the_checks_and_follow_the_profile():
+    from app.review import review_model
+
+    s = Session()
+    s.open(str(HOOD))
+    s.set_section(enabled=True, origin=tuple(s.model.bounds.mean(axis=0)), normal=(1, 0, 0), count=2, spacing=20.0)
+    shown = s.model
+    for profile in ("class-a", "technical"):
+        s.set_profile(profile)
+        check = review_model(shown, s.review_settings)
+        assert judged(s.findings) == judged_check(check.findings), profile
+        assert check.profile["name"] == s.profile.name == profile
+    assert s.model is shown  # re-judged, not reloaded
+    seam = next(f for f in s.findings if f.kind == "seam")
+    assert seam.verdict == "pass" and "profile technical" in seam.detail  # G1 is enough for technical surfaces
+    s.set_profile("class-a")
+    assert next(f for f in s.findings if f.kind == "seam").verdict == "fail"  # class-A wants G2
+
+
+def judged_check(findings) -> list[tuple[str, str]]:
+    return sorted((f.kind, f.verdict) for f in findings)
+
+
+def test_a_profile_limit_on_inflections_fails_the_curve_as_the_check_does(session, monkeypatch):
+    from app.review import adapters
+    from app.review import findings as review
+    from app.state import session as session_module
+
+    strict = adapters.load_profile("class-a")
+    strict = adapters.ProfileInForce(strict.name, {**strict.values, review.INFLECTION_LIMIT_KEY: 0}, strict.source)
+    monkeypatch.setattr(session_module, "load_profile", lambda name: strict)
+    session.set_profile("class-a")
+    session.set_section(enabled=True, normal=(0, 1, 0), count=2, spacing=10.0)
+    failing = [f for f in session.findings if f.kind == "inflection" and f.verdict == "fail"]
+    assert [f.title for f in failing] == [
+        "section 1, curve 1: 1 inflection, limit 0",
+        "section 2, curve 1: 1 inflection, limit 0",
+    ]
+    sections = [{"label": str(i + 1), "curves": [c.to_json()]} for i, c in enumerate(session.sections)]
+    assert [f.verdict for f in review.inflection_findings(sections, strict)] == ["fail", "fail"]
+
+
+def test_bad_profile_keeps_the_one_in_force(session, tmp_path):
+    bad = tmp_path / "mine.toml"
+    bad.write_text("name = 'mine'\n[tolerance]\nposition_mm = 'tight'\n")
+    before = session.profile
+    with pytest.raises(BattenError, match="mine.toml"):
+        session.set_profile(str(bad))
+    assert session.profile is before and session.profile_choice is None
+
+
+def test_review_settings_carry_the_profile_and_the_planes_on_screen(session):
+    from app.review import parse_spec
+
+    assert session.review_settings.sections == "none"  # section tool off
+    session.set_profile("technical")
+    session.set_section(enabled=True, normal=(0, 1, 0), count=3, spacing=10.0)
+    settings = session.review_settings
+    assert settings.profile == "technical"
+    items = parse_spec(settings.sections)
+    assert len(items) == 3
+    for item, (origin, normal) in zip(items, session.section.planes(), strict=True):
+        assert_allclose(item.values, [*origin, *normal], atol=1e-9)
+
+
+def test_choosing_a_curve_for_the_graph_recomputes_nothing(session):
+    session.set_section(enabled=True, normal=(0, 1, 0), count=3, spacing=10.0)
+    curves, heard = session.sections, []
+    session.subscribe("curve", heard.append)
+    session.select_curve(2)
+    assert session.sections is curves and session.selected_section is curves[2]
+    assert session.selected_curve_label == "section 3, curve 1" and heard == ["curve"]
+    with pytest.raises(IndexError):
+        session.select_curve(3)
+
+
+def test_display_grids_are_dense_enough_for_smooth_maps():
+    # common practice: a few hundred samples per side of a single face; the sampler shares one budget
+    s = Session()
+    s.show_model(Model((Face(quarter_cylinder(12.5)),)))
+    a, b = s.samples[0].inside.shape
+    assert min(a, b) >= 250 and a * b <= 300_000
+
+
+MENGER_SHARE = 0.02  # three-point circle vs exact curvature at 0.5 mm spacing: well under 2 % of the peak
+
+
+@pytest.mark.skipif(not TOASTER.is_file(), reason="samples not built")
+def test_the_graphs_corners_are_the_panels_knot_lines_not_sparse_points():
+    # The toaster panel is one bicubic B-spline face. Along a section its curvature is
+    # continuous with a derivative that jumps at each simple knot (de Boor, A Practical
+    # Guide to Splines, rev. ed. 2001, ch. IX: a cubic spline's second derivative is
+    # piecewise linear), so the graph has corners there however densely it is drawn.
+    s = Session()
+    s.open(str(TOASTER))
+    s.set_section(enabled=True, normal=(0, 1, 0))
+    curve = s.selected_section
+    knots = np.unique(s.model.faces[0].surface.knots_u)
+    assert len(curve.extrema) > 0 and np.all(curve.extrema.at_knot)
+    assert np.min(np.abs(curve.extrema.uv[:, :1] - knots), axis=1).max() < 1e-6
+    # independent check of the plotted values: the circle through three consecutive
+    # points (Menger curvature, 4 * area / product of the sides; common practice)
+    a, b, c = curve.points[:-2], curve.points[1:-1], curve.points[2:]
+    sides = np.linalg.norm(b - a, axis=1) * np.linalg.norm(c - b, axis=1) * np.linalg.norm(c - a, axis=1)
+    menger = 2 * np.linalg.norm(np.cross(b - a, c - a), axis=1) / sides
+    peak = np.abs(curve.curvature).max()
+    assert np.abs(menger - np.abs(curve.curvature[1:-1])).max() < MENGER_SHARE * peak
+    assert curve.points.shape[0] > 200  # every one of these goes into the graph (see the GUI test)
+
+
+def test_seams_measured_under_an_old_profile_are_judged_again(session):
+    from app.state.loading import measure_seams
+
+    stale = measure_seams(session.loaded)  # as a worker thread still running under class-A would
+    session.set_profile("technical")
+    session.adopt_seams(stale)
+    assert session.loaded.seam_review.profile.name == "technical"
+    assert all("profile technical" in f.detail for f in session.findings if f.kind == "seam")

@@ -20,6 +20,7 @@ from PySide6.QtWidgets import (
 )
 
 from app.state import Measure, Mode, Session
+from app.state.review_findings import curve_label
 from app.state.settings import AXES, STRIPE_MODES
 
 
@@ -149,7 +150,7 @@ class SectionPanel(QWidget):
         self.spacing.setSuffix(" mm")
         self.gain = _spin(0.05, 50.0, 0.25, 2)
         self.density = _spin(2, 2000, 10)
-        self.curve = _spin(1, 1, 1)
+        self.curve = QComboBox()  # the curve the graph shows (a click on a curve in the view chooses too)
         self.centre = QPushButton("Back to the middle")
         box = QGroupBox("Sections")
         form = QFormLayout(box)
@@ -171,10 +172,10 @@ class SectionPanel(QWidget):
         self.spacing.valueChanged.connect(lambda d: session.set_section(spacing=float(d)))
         self.gain.valueChanged.connect(lambda g: session.set_section(comb_gain=float(g)))
         self.density.valueChanged.connect(lambda n: session.set_section(comb_density=int(n)))
-        self.curve.valueChanged.connect(lambda n: session.set_section(selected=int(n) - 1))
+        self.curve.currentIndexChanged.connect(lambda n: n >= 0 and session.select_curve(int(n)))
         self.centre.clicked.connect(self._centre)
-        session.subscribe("section", self.refresh)
-        session.subscribe("model", self.refresh)
+        for topic in ("section", "sections", "curve", "model"):
+            session.subscribe(topic, self.refresh)
         self.refresh()
 
     def _centre(self):
@@ -193,8 +194,11 @@ class SectionPanel(QWidget):
         self.spacing.setValue(s.spacing)
         self.gain.setValue(s.comb_gain)
         self.density.setValue(s.comb_density)
-        self.curve.setMaximum(max(len(self.session.sections), 1))
-        self.curve.setValue(min(s.selected + 1, self.curve.maximum()))
+        labels = [curve_label(place) for place in self.session.section_places]
+        if labels != [self.curve.itemText(i) for i in range(self.curve.count())]:
+            self.curve.clear()
+            self.curve.addItems(labels)
+        self.curve.setCurrentIndex(min(s.selected, len(labels) - 1))
         del blockers
         has_model = self.session.model is not None
         self.setEnabled(has_model)

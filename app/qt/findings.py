@@ -1,4 +1,4 @@
-"""The findings list: seams with class and verdict, free edges, inflections, curvature extremes."""
+"""The findings list (seams, free edges, inflections, curvature extrema) and the profile that judges them."""
 
 from __future__ import annotations
 
@@ -7,10 +7,53 @@ from PySide6.QtGui import QBrush, QColor
 from PySide6.QtWidgets import QComboBox, QHBoxLayout, QLabel, QTreeWidget, QTreeWidgetItem, QVBoxLayout, QWidget
 
 from app.state import Session
+from app.state.profiles import shipped_names
 from app.state.session import KIND_ORDER, VERDICT_ORDER
 
 VERDICT_COLOURS = {"fail": "#c0281b", "pass": "#23803f", "note": "#44516e"}
 ANY = "any"
+FROM_FILE = "from file…"
+KIND_WORDS = {
+    "seam": "seams",
+    "free edge": "free edges",
+    "inflection": "inflections",
+    "section extremum": "curvature extrema of sections",
+    "curvature extreme": "tightest spot of each face",
+}
+
+
+class ProfileChooser(QComboBox):
+    """The tolerance profile in force: the shipped ones by name, the one in force if from a file, and "from file…".
+
+    Signals
+    -------
+    wanted(str)
+        A shipped profile's name; ``FROM_FILE`` when the user asks for a file
+        (the window opens the dialog). The list shows the session's profile
+        again until the session reports a change.
+    """
+
+    wanted = Signal(str)
+
+    def __init__(self, session: Session, parent=None):
+        super().__init__(parent)
+        self.session = session
+        self.setToolTip("Tolerances the findings are judged against (as batten check --profile)")
+        self.activated.connect(lambda i: self.wanted.emit(self.itemData(i)))
+        session.subscribe("profile", self.refresh)
+        self.refresh()
+
+    def refresh(self, *_):
+        blocker = QSignalBlocker(self)
+        self.clear()
+        for name in shipped_names():
+            self.addItem(name, name)
+        current = self.session.profile.name
+        if self.findData(current) < 0:  # a user's file: show it by its name
+            self.addItem(f"{current} (file)", current)
+        self.addItem(FROM_FILE, FROM_FILE)
+        self.setCurrentIndex(self.findData(current))
+        del blocker
 
 
 class FindingsPanel(QWidget):
@@ -30,7 +73,7 @@ class FindingsPanel(QWidget):
         self.kind = QComboBox()
         self.kind.addItem("all kinds", ANY)
         for kind in KIND_ORDER:
-            self.kind.addItem(kind + "s", kind)
+            self.kind.addItem(KIND_WORDS.get(kind, kind), kind)
         self.verdict = QComboBox()
         self.verdict.addItem("any verdict", ANY)
         for verdict in VERDICT_ORDER:
@@ -40,10 +83,15 @@ class FindingsPanel(QWidget):
         self.tree.setRootIsDecorated(False)
         self.tree.setColumnWidth(0, 56)
         self.summary = QLabel()
+        self.profile = ProfileChooser(session)
+        chooser = QHBoxLayout()
+        chooser.addWidget(QLabel("Judged by profile"))
+        chooser.addWidget(self.profile, 1)
         filters = QHBoxLayout()
         filters.addWidget(self.kind)
         filters.addWidget(self.verdict)
         layout = QVBoxLayout(self)
+        layout.addLayout(chooser)
         layout.addLayout(filters)
         layout.addWidget(self.tree, 1)
         layout.addWidget(self.summary)
@@ -72,7 +120,10 @@ class FindingsPanel(QWidget):
             self.tree.addTopLevelItem(item)
         del blocker
         failing = sum(1 for f in self.session.findings if f.verdict == "fail")
-        self.summary.setText(f"{len(shown)} shown of {len(self.session.findings)}; {failing} failing")
+        self.summary.setText(
+            f"{len(shown)} shown of {len(self.session.findings)}; {failing} failing"
+            f" (profile {self.session.profile.name})"
+        )
 
     def item_for(self, index: int) -> QTreeWidgetItem | None:
         for row in range(self.tree.topLevelItemCount()):

@@ -9,7 +9,9 @@ from PySide6.QtWidgets import QSizePolicy, QWidget
 
 from geometry.section_results import SectionCurve
 
-MARGIN_LEFT, MARGIN_RIGHT, MARGIN_TOP, MARGIN_BOTTOM = 64, 12, 12, 28
+MARGIN_LEFT, MARGIN_RIGHT, MARGIN_TOP, MARGIN_BOTTOM = 78, 12, 22, 34
+INFLECTION, EXTREMUM, LINE = "#ff00aa", "#00a0c0", "#6a3d9a"
+TICKS = 6  # about this many labelled distances along the curve
 
 
 class CurvatureGraph(QWidget):
@@ -51,6 +53,11 @@ class CurvatureGraph(QWidget):
 
         return to_x, to_y, reach, length
 
+    def polyline(self) -> tuple[np.ndarray, np.ndarray]:
+        """Widget coordinates of every point of the curve (none dropped), shapes (n,) and (n,)."""
+        to_x, to_y, _, _ = self.mapping()
+        return to_x(self.curve.arc_length), to_y(self.curve.curvature)
+
     def paintEvent(self, event):  # noqa: N802 - Qt's name
         painter = QPainter(self)
         painter.setRenderHint(QPainter.RenderHint.Antialiasing)
@@ -66,22 +73,54 @@ class CurvatureGraph(QWidget):
         painter.setPen(QPen(QColor("#b0b0b0"), 1, Qt.PenStyle.DashLine))
         zero = float(to_y(0.0))
         painter.drawLine(QPointF(rect.left(), zero), QPointF(rect.right(), zero))
-        xs, ys = to_x(self.curve.arc_length), to_y(self.curve.curvature)
+        self._distance_ticks(painter, to_x, rect, length)
+        xs, ys = self.polyline()
         # Qt takes points one object each; a curve has a few hundred
         polygon = QPolygonF([QPointF(x, y) for x, y in zip(xs.tolist(), ys.tolist(), strict=True)])
-        painter.setPen(QPen(QColor("#6a3d9a"), 1.6))
+        painter.setPen(QPen(QColor(LINE), 1.6))
         painter.drawPolyline(polygon)
-        self._markers(
-            painter, to_x, to_y, self.curve.inflections.arc_length, np.zeros(len(self.curve.inflections)), "#ff00aa"
-        )
-        self._markers(painter, to_x, to_y, self.curve.extrema.arc_length, self.curve.extrema.curvature, "#00a0c0")
+        marks = self.curve.inflections
+        self._markers(painter, to_x, to_y, marks.arc_length, np.zeros(len(marks)), INFLECTION)
+        self._markers(painter, to_x, to_y, self.curve.extrema.arc_length, self.curve.extrema.curvature, EXTREMUM)
         painter.setPen(QColor("#333333"))
-        painter.drawText(QPointF(4, rect.top() + 10), f"{reach:.3g}")
-        painter.drawText(QPointF(4, zero + 4), "0")
-        painter.drawText(QPointF(4, rect.bottom()), f"{-reach:.3g}")
-        painter.drawText(QPointF(rect.left(), self.height() - 8), "0")
-        painter.drawText(QPointF(rect.right() - 90, self.height() - 8), f"s = {length:.1f} mm")
-        painter.drawText(QPointF(rect.left() + 80, self.height() - 8), f"k [1/mm] along the curve   {self.title}")
+        painter.drawText(QPointF(24, rect.top() + 10), f"{reach:.3g}")
+        painter.drawText(QPointF(24, zero + 4), "0")
+        painter.drawText(QPointF(24, rect.bottom()), f"{-reach:.3g}")
+        painter.save()
+        painter.translate(14, rect.center().y() + 45)
+        painter.rotate(-90)
+        painter.drawText(QPointF(0, 0), "curvature, 1/mm")
+        painter.restore()
+        painter.drawText(
+            QPointF(rect.center().x() - 110, self.height() - 4), "distance along the curve from its start, mm"
+        )
+        painter.drawText(QPointF(rect.left(), 14), self.title)
+        self._key(painter, rect, len(self.curve.points))
+
+    def _distance_ticks(self, painter, to_x, rect, length) -> None:
+        """Faint vertical lines with their distances at round steps along the curve."""
+        raw = length / TICKS
+        step = 10 ** np.floor(np.log10(raw))
+        step *= next(m for m in (1, 2, 5, 10) if m * step >= raw)
+        for s in np.arange(0.0, length + 1e-9, step):
+            x = float(to_x(s))
+            painter.setPen(QPen(QColor("#e2e2dc"), 1))
+            painter.drawLine(QPointF(x, rect.top()), QPointF(x, rect.bottom()))
+            painter.setPen(QColor("#555555"))
+            painter.drawText(QPointF(x - 8, rect.bottom() + 13), f"{s:g}")
+
+    def _key(self, painter, rect, count: int) -> None:
+        """What the markers mean, and how many points the line joins, top right."""
+        metrics = painter.fontMetrics()
+        items = ((INFLECTION, "inflection"), (EXTREMUM, "curvature extremum"), (None, f"{count} points on the line"))
+        x = rect.right() - sum(metrics.horizontalAdvance(w) + 24 for _, w in items)
+        for colour, words in items:
+            if colour is not None:
+                painter.setPen(QPen(QColor(colour), 2))
+                painter.drawEllipse(QPointF(x, 10), 4, 4)
+            painter.setPen(QColor("#333333"))
+            painter.drawText(QPointF(x + 8, 14), words)
+            x += metrics.horizontalAdvance(words) + 24
 
     @staticmethod
     def _markers(painter, to_x, to_y, s, k, colour) -> None:

@@ -26,16 +26,18 @@ from app.state import Mode, Session
 from app.state.recent import RecentFiles, default_store
 
 from .controls import DisplayPanel, SectionPanel
-from .findings import FindingsPanel
+from .findings import FROM_FILE, FindingsPanel
 from .graph import CurvatureGraph
 from .worker import LoadJob, start_job
 
 MODEL_FILTER = "Design models (*.step *.stp *.p21 *.iges *.igs *.json);;All files (*)"
 IMAGE_FILTER = "PNG image (*.png);;JPEG image (*.jpg)"
 REPORT_FILTER = "PDF report (*.pdf);;HTML report (*.html)"
+PROFILE_FILTER = "Tolerance profiles (*.toml);;All files (*)"
 # After the plane stops moving this long (ms), its sections are recomputed exactly.
 EXACT_AFTER_MS = 250
 PROBE_EVERY_MS = 60
+CLICK_PIXELS = 3  # a press and release this close is a click, not a turn of the view
 MODE_KEYS = {mode: f"Ctrl+{i + 1}" for i, mode in enumerate(Mode)}
 
 
@@ -96,9 +98,14 @@ class MainWindow(QMainWindow):
         s.subscribe("section", self._section_settings_changed)
         s.subscribe("selection", self._selection_changed)
         s.subscribe("seams", lambda _: self.scene.update_seams())
+        s.subscribe("profile", lambda _: self._update_status())
+        s.subscribe("curve", lambda _: self._show_graph())
         s.subscribe("recent", self._fill_recent)
         s.subscribe("camera", lambda _: self.scene.update_stripes())
         self.view.iren.add_observer("MouseMoveEvent", self._mouse_moved)
+        self._press_at = None
+        self.view.iren.add_observer("LeftButtonPressEvent", self._left_pressed)
+        self.view.iren.add_observer("LeftButtonReleaseEvent", self._left_released)
         self.view.camera.AddObserver("ModifiedEvent", lambda *_: self._camera_timer.start())
         self._fill_recent()
         self._update_status()
@@ -121,6 +128,7 @@ class MainWindow(QMainWindow):
         self._dock("Sections", self.section_panel, Qt.DockWidgetArea.LeftDockWidgetArea, "sections")
         self.findings_panel = FindingsPanel(self.session)
         self.findings_panel.chosen.connect(self.session.select)
+        self.findings_panel.profile.wanted.connect(self.choose_profile)
         self.findings_panel.setMinimumWidth(360)
         self._dock("Findings", self.findings_panel, Qt.DockWidgetArea.RightDockWidgetArea, "findings")
         self.graph = CurvatureGraph()
@@ -167,6 +175,7 @@ class MainWindow(QMainWindow):
 
     def _build_status(self) -> None:
         self.model_label = QLabel()
+        self.profile_label = QLabel()
         self.probe_label = QLabel()
         self.progress = QProgressBar()
         self.progress.setMaximumWidth(220)
@@ -174,6 +183,7 @@ class MainWindow(QMainWindow):
         bar = self.statusBar()
         bar.addWidget(self.model_label)
         bar.addWidget(self.probe_label, 1)
+        bar.addPermanentWidget(self.profile_label)
         bar.addPermanentWidget(self.progress)
 
     # -- opening ---------------------------------------------------------
@@ -187,7 +197,7 @@ class MainWindow(QMainWindow):
         if self._job is not None:
             self.statusBar().showMessage("still opening the previous file", 3000)
             return
-        self._job = LoadJob(str(path))
+        self._job = LoadJob(str(path), self.session.profile)
         self._job_shown = False
         self._job.progress.connect(self._loading_progress)
         self._job_path = str(path)
@@ -275,8 +285,10 @@ class MainWindow(QMainWindow):
 
     def _sections_changed(self, _topic) -> None:
         self.scene.update_sections()
-        curve = self.session.selected_section
-        self.graph.set_curve(curve, "" if curve is None else f"(curve {self.session.section.selected + 1})")
+        self._show_graph()
+
+    def _show_graph(self) -> None:
+        self.graph.set_curve(self.session.selected_section, self.session.selected_curve_label)
 
     def _section_settings_changed(self, _topic) -> None:
         if not self.session.section.enabled:
@@ -359,6 +371,25 @@ class MainWindow(QMainWindow):
         if self.session.display.mode == Mode.REFLECTION:
             self.session.set_camera(self.scene.camera())
 
+    def _left_pressed(self, *_):
+        self._press_at = self.view.iren.get_event_position()
+
+    def _left_released(self, *_):
+        """A click (not a drag that turned the view) on a section curve shows it in the graph."""
+        start, self._press_at = self._press_at, None
+        end = self.view.iren.get_event_position()
+        if start is not None and np.hypot(end[0] - start[0], end[1] - start[1]) <= CLICK_PIXELS:
+            self.pick_curve(*end)
+
+    def pick_curve(self, x: float, y: float) -> bool:
+        """Choose the section curve under display pixel (x, y) for the graph; False when there is none."""
+        index = self.scene.curve_at(x, y)
+        if index is None:
+            return False
+        self.session.select_curve(index)
+        self.statusBar().showMessage(f"graph shows {self.session.selected_curve_label}", 4000)
+        return True
+
     def _mouse_moved(self, *_):
         self._probe_at = self.view.iren.get_event_position()
         if not self._probe_timer.isActive():
@@ -377,7 +408,7 @@ class MainWindow(QMainWindow):
         name, value = self.session.value_at(face, i, j)
         where = ", ".join(f"{x:.2f}" for x in point)
         self.probe_label.setText(
-            f"face {face + 1}  ({where}) mm   {name} {value:.4g}   k1 {samples.field.k1[i, j]:.4g}  "
+            f"{self.session.face_label(face)}  ({where}) mm   {name} {value:.4g}   k1 {samples.field.k1[i, j]:.4g}  "
             f"k2 {samples.field.k2[i, j]:.4g} 1/mm"
         )
 
@@ -387,6 +418,38 @@ class MainWindow(QMainWindow):
             self.model_label.setText("no model: File > Open, or drop a STEP, IGES or JSON file here")
         else:
             self.model_label.setText(f"{len(model.faces)} faces · units {model.units} · size {model.size:.1f} mm")
+        profile = self.session.profile
+        self.profile_label.setText(f"profile {profile.name}")
+        # a permanent status widget keeps its first width unless told: make room for the whole name
+        self.profile_label.setMinimumWidth(
+            self.profile_label.fontMetrics().horizontalAdvance(self.profile_label.text()) + 16
+        )
+        self.profile_label.setToolTip(str(profile.values.get("title", profile.name)))
+
+    # -- tolerance profile -----------------------------------------------
+    def choose_profile(self, wanted: str) -> None:
+        """The profile chooser asked for a shipped profile, or for a file (a dialog)."""
+        if wanted == FROM_FILE:
+            wanted, _ = QFileDialog.getOpenFileName(self, "Judge by the tolerance profile in", "", PROFILE_FILTER)
+            if not wanted:
+                self.findings_panel.profile.refresh()
+                return
+        self.set_profile(wanted)
+
+    def set_profile(self, name_or_path: str) -> None:
+        """Judge the model on screen against another profile; a bad file leaves the current one in force."""
+        from geometry.errors import BattenError
+
+        QApplication.setOverrideCursor(Qt.CursorShape.WaitCursor)
+        try:
+            self.session.set_profile(name_or_path)
+        except BattenError as exc:
+            self.findings_panel.profile.refresh()
+            QMessageBox.critical(self, "Cannot use this profile", f"{exc}\n\nThe profile in force is kept.")
+        else:
+            self.statusBar().showMessage(f"findings judged by profile {self.session.profile.name}", 5000)
+        finally:
+            QApplication.restoreOverrideCursor()
 
     # -- export ----------------------------------------------------------
     def export_image(self) -> None:
@@ -423,7 +486,7 @@ class MainWindow(QMainWindow):
 
         QApplication.setOverrideCursor(Qt.CursorShape.WaitCursor)
         try:
-            review = review_model(self.session.model)
+            review = review_model(self.session.model, self.session.review_settings)
             write_report(path, [review], [render_figures(self.session.model, review)])
         except (BattenError, OSError) as exc:
             QMessageBox.critical(self, "Cannot write the report", str(exc))

@@ -29,9 +29,10 @@ class LoadJob(QObject):
     seams_ready = Signal(object)
     failed = Signal(str)
 
-    def __init__(self, path: str):
+    def __init__(self, path: str, profile=None):
         super().__init__()
         self.path = path
+        self.profile = profile  # the session's ProfileInForce: the seams are judged by it
 
     @Slot()
     def run(self) -> None:
@@ -39,7 +40,7 @@ class LoadJob(QObject):
         try:
             loaded = prepare(self.path, progress=report, seams=False)
             self.finished.emit(loaded)
-            self.seams_ready.emit(measure_seams(loaded, report))
+            self.seams_ready.emit(measure_seams(loaded, report, self.profile))
         except BattenError as exc:
             self.failed.emit(str(exc))
         except Exception as exc:  # a bug of ours must not kill the window; say what happened

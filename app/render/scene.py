@@ -22,6 +22,8 @@ from .stripes import stripe_range, stripe_table
 
 # How far the camera stands from a focused finding, in finding extents.
 FOCUS_DISTANCE = 4.0
+# A click this close to a section curve (display pixels) chooses it.
+CURVE_PICK_PIXELS = 8.0
 LEGEND = dict(
     n_labels=5,
     fmt="%.3g",
@@ -259,6 +261,39 @@ class Scene:
         where = np.array(picker.GetPickPosition())
         nearest = min(ids, key=lambda p: np.linalg.norm(self.faces.mesh.points[p] - where))
         return self.faces.locate(int(nearest))
+
+    def to_display(self, points: np.ndarray) -> np.ndarray:
+        """Display pixel coordinates (VTK's: origin bottom left) of world points.
+
+        Parameters
+        ----------
+        points : ndarray of shape (n, 3)
+
+        Returns
+        -------
+        ndarray of shape (n, 2)
+            NaN for points behind the camera.
+        """
+        renderer = self.plotter.renderer
+        matrix = renderer.GetActiveCamera().GetCompositeProjectionTransformMatrix(renderer.GetTiledAspectRatio(), -1, 1)
+        m = np.array([[matrix.GetElement(i, j) for j in range(4)] for i in range(4)])
+        h = np.c_[np.asarray(points, float).reshape(-1, 3), np.ones(len(points))] @ m.T
+        with np.errstate(divide="ignore", invalid="ignore"):
+            ndc = np.where(h[:, 3:] > 0, h[:, :2] / h[:, 3:], np.nan)
+        (x0, y0, x1, y1), (width, height) = renderer.GetViewport(), self.plotter.render_window.GetSize()
+        return np.c_[(x0 + (ndc[:, 0] + 1) / 2 * (x1 - x0)) * width, (y0 + (ndc[:, 1] + 1) / 2 * (y1 - y0)) * height]
+
+    def curve_at(self, x: float, y: float, pixels: float = CURVE_PICK_PIXELS) -> int | None:
+        """Index (in ``session.sections``) of the section curve nearest display pixel (x, y), if within ``pixels``."""
+        sections = self.session.sections
+        if not sections:
+            return None
+        points = np.concatenate([c.points for c in sections])
+        owner = np.repeat(np.arange(len(sections)), [c.points.shape[0] for c in sections])
+        distance = np.linalg.norm(self.to_display(points) - (x, y), axis=1)
+        if not np.isfinite(distance).any() or np.nanmin(distance) > pixels:
+            return None
+        return int(owner[np.nanargmin(distance)])
 
     def _render(self) -> None:
         # Qt plotters paint on their next event; off-screen ones only when asked.

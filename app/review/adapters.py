@@ -88,6 +88,8 @@ class ProfileInForce:
 
 
 DEFAULT_PROFILE = "class-A"
+# As in the shipped class-A profile: no inflection per section curve (common practice, no published source).
+CLASS_A_INFLECTIONS_MAX = 0
 
 
 def _fallback_profile(name_or_path: str | None) -> ProfileInForce:
@@ -98,7 +100,7 @@ def _fallback_profile(name_or_path: str | None) -> ProfileInForce:
     if name_or_path not in (None, DEFAULT_PROFILE, DEFAULT_PROFILE.lower()):
         raise BattenError(f"profile {name_or_path!r}: only the built-in class-A profile is in this build")
     tolerance = SeamTolerance(name="class-A (built-in)", source="built-in, common practice (no published source)")
-    values = tolerance.as_dict()
+    values = {**tolerance.as_dict(), "section_inflections_max": CLASS_A_INFLECTIONS_MAX}
     return ProfileInForce(tolerance.name, values, tolerance)
 
 

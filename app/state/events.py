@@ -6,7 +6,19 @@ from collections import defaultdict
 from collections.abc import Callable
 
 # Topics a session announces. Widgets subscribe to the ones they show.
-TOPICS = ("model", "display", "section", "sections", "seams", "findings", "selection", "recent", "camera")
+TOPICS = (
+    "model",
+    "display",
+    "section",
+    "sections",
+    "seams",
+    "findings",
+    "selection",
+    "recent",
+    "camera",
+    "profile",
+    "curve",
+)
 
 
 class Notifier:

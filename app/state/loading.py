@@ -12,6 +12,7 @@ from dataclasses import replace
 
 import numpy as np
 
+from app.review.adapters import ProfileInForce, load_profile
 from geometry.differential import curvature_on_grid
 from geometry.errors import BattenError, ReadError
 from geometry.io import read_model
@@ -20,7 +21,7 @@ from geometry.sampling import FaceGrid, model_grids
 from geometry.sections import SectionEngine
 
 from .results import FaceSamples, Loaded
-from .seam_findings import analyse_seams
+from .review_findings import review_seams
 
 # Total samples the display grids of a model get (geometry.sampling shares them out).
 SAMPLE_BUDGET = 300_000
@@ -47,7 +48,11 @@ def typical_curvature(samples: tuple[FaceSamples, ...]) -> float:
 
 
 def prepare(
-    path: str | None = None, model: Model | None = None, progress: Progress = _no_progress, seams: bool = True
+    path: str | None = None,
+    model: Model | None = None,
+    progress: Progress = _no_progress,
+    seams: bool = True,
+    profile: ProfileInForce | None = None,
 ) -> Loaded:
     """Read (unless ``model`` is given), sample and analyse a model.
 
@@ -60,6 +65,8 @@ def prepare(
     seams : bool
         Measure the seams too; the window leaves them to :func:`measure_seams`
         afterwards, so the model shows before the slowest analysis ends.
+    profile : ProfileInForce, optional
+        Tolerances the seams are judged against (default: the default profile).
 
     Raises
     ------
@@ -86,13 +93,17 @@ def prepare(
     samples = tuple(samples)
     loaded = Loaded(model, samples, curvature_scale=typical_curvature(samples), engine=engine, seams_measured=False)
     if seams:
-        loaded = measure_seams(loaded, progress)
+        loaded = measure_seams(loaded, progress, profile)
     progress(1.0, "ready")
     return loaded
 
 
-def measure_seams(loaded: Loaded, progress: Progress = _no_progress) -> Loaded:
-    """The same bundle with its seams and free edges measured."""
+def measure_seams(loaded: Loaded, progress: Progress = _no_progress, profile: ProfileInForce | None = None) -> Loaded:
+    """The same bundle with its seams and free edges measured against ``profile`` (default: the default profile).
+
+    The measuring is the check's own (:func:`app.state.review_findings.review_seams`),
+    so the window and ``batten check`` judge a seam alike.
+    """
     progress(0.8, "measuring seams")
-    seams, findings = analyse_seams(loaded.model)
-    return replace(loaded, seams=seams, seam_findings=findings, seams_measured=True)
+    reviewed = review_seams(loaded.model, profile or load_profile(None))
+    return replace(loaded, seams=reviewed.views, seam_review=reviewed, seams_measured=True)

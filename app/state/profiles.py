@@ -6,6 +6,12 @@ optional ``base`` (the name of a shipped profile to start from), a
 from. The shipped profiles live in ``app/profiles/``; every value in them is
 common practice, not a published standard. The geometry layer never sees the
 file: :attr:`Profile.tolerance` is the plain :class:`SeamTolerance` it takes.
+
+Besides the seam values, ``[tolerance]`` may limit the inflections of each
+section curve: ``section_inflections_max`` (a whole number, 0 or more, or
+``"none"`` for no limit, the default). The review judges each section curve
+against it (:mod:`app.review.findings`); without a limit inflections are
+listed and marked, not judged.
 """
 
 from __future__ import annotations
@@ -23,6 +29,10 @@ DEFAULT_PROFILE = "class-a"
 _SHIPPED = {"class-a": "class_a.toml", "technical": "technical.toml"}
 _TOP_KEYS = {"name", "title", "required", "base", "tolerance", "basis"}
 _NUMBERS = ("position_mm", "tangent_deg", "curvature_relative", "flat_curvature_per_mm", "crease_deg")
+# Inflections allowed per section curve (the key app.review.findings reads); "none": no limit.
+INFLECTIONS_KEY = "section_inflections_max"
+_NO_LIMIT = "none"
+_KEYS = (*_NUMBERS, INFLECTIONS_KEY)
 
 
 class ProfileError(ReadError):
@@ -45,6 +55,8 @@ class Profile:
         What the seam analysis takes.
     basis : mapping of str to str
         Where each value comes from (e.g. "common practice, no published source").
+    section_inflections_max : int or None
+        Most inflections a section curve may have; None: no limit (listed, not judged).
     """
 
     name: str
@@ -52,6 +64,7 @@ class Profile:
     path: str
     tolerance: SeamTolerance
     basis: MappingProxyType = field(default_factory=lambda: MappingProxyType({}))
+    section_inflections_max: int | None = None
 
     def as_dict(self) -> dict:
         """Plain data, echoed in every report and ``batten check`` result."""
@@ -60,6 +73,7 @@ class Profile:
             "title": self.title,
             "path": self.path,
             **self.tolerance.as_dict(),
+            INFLECTIONS_KEY: self.section_inflections_max,
             "basis": dict(self.basis),
         }
 
@@ -96,6 +110,15 @@ def _number(path: Path, key: str, value, allow_none: bool = False):
     return float(value)
 
 
+def _count_limit(path: Path, key: str, value) -> int | None:
+    """A whole number of 0 or more, or "none" (no limit)."""
+    if isinstance(value, str) and value.strip().lower() == _NO_LIMIT:
+        return None
+    if isinstance(value, bool) or not isinstance(value, int) or value < 0:
+        raise ProfileError(str(path), f'[tolerance] {key} must be a whole number >= 0 or "none", got {value!r}')
+    return value
+
+
 def load_profile(path: str | Path, _depth: int = 0) -> Profile:
     """Read and check one profile file.
 
@@ -123,11 +146,9 @@ def load_profile(path: str | Path, _depth: int = 0) -> Profile:
     for table_name, table in (("tolerance", tol_table), ("basis", basis_table)):
         if not isinstance(table, dict):
             raise ProfileError(str(path), f"[{table_name}] must be a table")
-    unknown = sorted(set(tol_table) - set(_NUMBERS))
+    unknown = sorted(set(tol_table) - set(_KEYS))
     if unknown:
-        raise ProfileError(
-            str(path), f"unknown [tolerance] key(s) {', '.join(unknown)}; expected {', '.join(_NUMBERS)}"
-        )
+        raise ProfileError(str(path), f"unknown [tolerance] key(s) {', '.join(unknown)}; expected {', '.join(_KEYS)}")
     values: dict = {}
     basis: dict = {}
     base_name = data.get("base")
@@ -138,11 +159,15 @@ def load_profile(path: str | Path, _depth: int = 0) -> Profile:
             )
         base = load_profile(shipped_path(base_name), _depth + 1)
         values = {f.name: getattr(base.tolerance, f.name) for f in fields(SeamTolerance)}
+        values[INFLECTIONS_KEY] = base.section_inflections_max
         basis = dict(base.basis)
     for key in _NUMBERS:
         if key in tol_table:
             values[key] = _number(path, key, tol_table[key], allow_none=key == "crease_deg")
             basis[key] = str(basis_table.get(key, f"set in {path.name}"))
+    if INFLECTIONS_KEY in tol_table:
+        values[INFLECTIONS_KEY] = _count_limit(path, INFLECTIONS_KEY, tol_table[INFLECTIONS_KEY])
+        basis[INFLECTIONS_KEY] = str(basis_table.get(INFLECTIONS_KEY, f"set in {path.name}"))
     missing = [k for k in _NUMBERS if k not in values and k != "crease_deg"]
     if missing:
         raise ProfileError(str(path), f'[tolerance] is missing {", ".join(missing)} (or give base = "class-a")')
@@ -171,7 +196,7 @@ def load_profile(path: str | Path, _depth: int = 0) -> Profile:
         crease_deg=crease,
         source=str(path),
     )
-    return Profile(name, title, str(path), tolerance, MappingProxyType(basis))
+    return Profile(name, title, str(path), tolerance, MappingProxyType(basis), values.get(INFLECTIONS_KEY))
 
 
 def get_profile(name_or_path: str | Path | None = None) -> Profile:

@@ -131,7 +131,9 @@ class Loaded:
     model : Model
     samples : tuple of FaceSamples
     seams : tuple of SeamView
-    seam_findings : tuple of Finding
+    seam_review : app.state.review_findings.SeamReview or None
+        The seams and free edges as the check measures them, under the profile
+        they were measured with; None until measured.
     curvature_scale : float
         Typical |k| of the model (1/mm), the reference of the comb scale.
     engine : geometry.sections.SectionEngine
@@ -143,7 +145,7 @@ class Loaded:
     model: Model
     samples: tuple[FaceSamples, ...]
     seams: tuple[SeamView, ...] = ()
-    seam_findings: tuple[Finding, ...] = ()
+    seam_review: object = None
     curvature_scale: float = 0.0
     engine: SectionEngine | None = None
     seams_measured: bool = True

@@ -15,12 +15,27 @@ from geometry.sections import SectionEngine
 from .settings import SectionSettings
 
 
-def sections_for(engine: SectionEngine | None, settings: SectionSettings, exact: bool) -> tuple[SectionCurve, ...]:
-    """Every curve cut by the family of planes in ``settings`` (none when the tool is off)."""
+def sections_for(
+    engine: SectionEngine | None, settings: SectionSettings, exact: bool
+) -> tuple[tuple[SectionCurve, ...], tuple[tuple[int, int], ...]]:
+    """Every curve cut by the family of planes in ``settings`` (none when the tool is off).
+
+    Returns
+    -------
+    curves : tuple of SectionCurve
+    where : tuple of (plane, curve) pairs
+        Index of each curve's plane in the family and of the curve among that
+        plane's curves (both from 0).
+    """
     if engine is None or not settings.enabled:
-        return ()
+        return (), ()
     family = engine.family(settings.origin, settings.normal, settings.count, settings.spacing, exact=exact)
-    return tuple(curve for section in family for curve in section.curves if curve.points.shape[0] >= 2)
+    kept = [(curve, p) for p, section in enumerate(family) for curve in section.curves if curve.points.shape[0] >= 2]
+    where, seen = [], {}
+    for _, p in kept:
+        where.append((p, seen.get(p, 0)))
+        seen[p] = seen.get(p, 0) + 1
+    return tuple(c for c, _ in kept), tuple(where)
 
 
 def combs_for(curves: tuple[SectionCurve, ...], scale: float, spacing: float) -> tuple[CurvatureComb, ...]:

@@ -13,13 +13,15 @@ from dataclasses import replace
 
 import numpy as np
 
+from app.review.adapters import ProfileInForce, load_profile
 from geometry.model import Model
 from geometry.section_results import CurvatureComb, SectionCurve
 
 from .events import Notifier
-from .loading import Progress, prepare
+from .loading import Progress, measure_seams, prepare
 from .recent import RecentFiles
 from .results import FaceSamples, Finding, Loaded, measure_values
+from .review_findings import curvature_extremes, curve_label, face_label, judged_findings, section_notes
 from .sectioning import combs_for, sections_for
 from .settings import SIGNED_MEASURES, ColourRange, DisplaySettings, SectionSettings
 from .stripes import Camera, stripe_parameters
@@ -28,7 +30,7 @@ from .stripes import Camera, stripe_parameters
 AUTO_PERCENTILE = 2.0
 # At comb gain 1 a tooth of the model's typical curvature is this share of the model size.
 COMB_REACH = 0.1
-KIND_ORDER = ("seam", "free edge", "inflection", "curvature extreme")
+KIND_ORDER = ("seam", "free edge", "inflection", "section extremum", "curvature extreme")
 VERDICT_ORDER = ("fail", "note", "pass")
 
 
@@ -39,20 +41,31 @@ class Session:
     ----------
     recent : RecentFiles, optional
         Where the recent-files list is kept (default: in memory only).
+    profile : str, optional
+        Tolerance profile: a shipped name or a TOML path (default: the default profile).
+
+    Raises
+    ------
+    BattenError
+        When ``profile`` names no profile or the file is bad.
     """
 
-    def __init__(self, recent: RecentFiles | None = None):
+    def __init__(self, recent: RecentFiles | None = None, profile: str | None = None):
         self.events = Notifier()
+        self.profile_choice: str | None = profile
+        self.profile: ProfileInForce = load_profile(profile)
         self.loaded: Loaded | None = None
         self.path: str | None = None
         self.display = DisplaySettings()
         self.section = SectionSettings()
         self.sections: tuple[SectionCurve, ...] = ()
+        self.section_places: tuple[tuple[int, int], ...] = ()  # (plane, curve) of each section curve
         self.combs: tuple[CurvatureComb, ...] = ()
         self.findings: tuple[Finding, ...] = ()
         self.selection: int | None = None
         self.camera: Camera | None = None
         self.recent = recent or RecentFiles(None)
+        self._face_extremes: list[Finding] = []
 
     # -- what is loaded --------------------------------------------------
     @property
@@ -74,17 +87,20 @@ class Session:
         BattenError
             The file cannot be read; the model already shown stays as it was.
         """
-        loaded = prepare(path, progress=progress) if progress else prepare(path)
+        extra = {} if progress is None else {"progress": progress}
+        loaded = prepare(path, profile=self.profile, **extra)
         self.adopt(loaded, path)
 
     def show_model(self, model: Model) -> None:
         """Show an in-memory model (scripts and tests)."""
-        self.adopt(prepare(model=model), None)
+        self.adopt(prepare(model=model, profile=self.profile), None)
 
     def adopt(self, loaded: Loaded, path: str | None) -> None:
         """Make an already prepared model current (the window prepares it in a worker thread)."""
         self.loaded = loaded
         self.path = path
+        # they depend on the samples alone: found once, not on every drag step of the plane
+        self._face_extremes = curvature_extremes(loaded.model, loaded.samples)
         lo, hi = loaded.model.bounds
         centre = tuple(float(x) for x in (lo + hi) / 2)
         spacing = max(loaded.model.size / 20, 1e-3)
@@ -99,10 +115,50 @@ class Session:
         """The seam analysis of the current model finished (measured after it was shown)."""
         if self.loaded is None or loaded.model is not self.loaded.model:
             return  # another model was opened meanwhile
+        review = loaded.seam_review
+        if review is not None and review.profile.values != self.profile.values:
+            loaded = measure_seams(loaded, profile=self.profile)  # the user changed the profile meanwhile (rare)
         self.loaded = loaded
         self.findings = self._collect_findings()
         self.selection = None
         self.events.emit("seams", "findings", "selection")
+
+    # -- tolerance profile -----------------------------------------------
+    def set_profile(self, name_or_path: str | None, remeasure: bool = True) -> None:
+        """Judge everything against another profile (a shipped name or a TOML path), without reloading.
+
+        The seams are measured again under it (their measures use its flat-curvature
+        threshold), as ``batten check --profile`` would; ``remeasure=False`` leaves
+        that to the caller (the window does it in a worker thread and hands the
+        result to :meth:`adopt_seams`).
+
+        Raises
+        ------
+        BattenError
+            Unknown name or bad file; the profile in force stays as it was.
+        """
+        profile = load_profile(name_or_path)
+        self.profile, self.profile_choice = profile, name_or_path
+        if self.loaded is not None and remeasure:
+            self.loaded = measure_seams(self.loaded, profile=profile)
+        self.findings = self._collect_findings()
+        self.selection = None
+        self.events.emit("profile", "seams", "findings", "selection")
+
+    @property
+    def review_settings(self):
+        """What ``batten check`` needs to say about this model what the window shows.
+
+        Returns
+        -------
+        app.review.ReviewSettings
+            The profile in force and the section planes on screen (``"none"``
+            when the section tool is off).
+        """
+        from app.review import ReviewSettings, plane_spec
+
+        planes = self.section.planes() if self.section.enabled else []
+        return ReviewSettings(profile=self.profile_choice, sections=plane_spec(planes))
 
     def forget_recent(self, path: str) -> None:
         self.recent.remove(path)
@@ -188,11 +244,25 @@ class Session:
             return None
         return self.sections[min(self.section.selected, len(self.sections) - 1)]
 
+    def select_curve(self, index: int) -> None:
+        """Show section curve ``index`` (of :attr:`sections`, from 0) in the graph; nothing is recomputed."""
+        if not 0 <= index < max(len(self.sections), 1):
+            raise IndexError(f"no section curve {index}")
+        self.section = replace(self.section, selected=int(index))
+        self.events.emit("curve")
+
+    @property
+    def selected_curve_label(self) -> str:
+        """``section P, curve C`` of the curve in the graph, or "" without one."""
+        if not self.sections:
+            return ""
+        return curve_label(self.section_places[min(self.section.selected, len(self.sections) - 1)])
+
     def _recompute_sections(self, exact: bool = True) -> None:
         if self.loaded is None:
-            self.sections, self.combs = (), ()
+            self.sections, self.section_places, self.combs = (), (), ()
         else:
-            self.sections = sections_for(self.loaded.engine, self.section, exact)
+            self.sections, self.section_places = sections_for(self.loaded.engine, self.section, exact)
             self.combs = combs_for(self.sections, self.comb_scale, self.comb_spacing)
         self.findings = self._collect_findings()
         self.selection = None
@@ -201,9 +271,11 @@ class Session:
     def _collect_findings(self) -> tuple[Finding, ...]:
         if self.loaded is None:
             return ()
-        found = list(self.loaded.seam_findings)
-        found.extend(_section_findings(self.sections))
-        found.extend(curvature_extremes(self.loaded.samples))
+        model, places = self.loaded.model, self.section_places
+        seams = self.loaded.seam_review if self.loaded.seams_measured else None
+        found = judged_findings(model, seams, self.sections, places, self.profile)
+        found.extend(section_notes(self.sections, places))
+        found.extend(self._face_extremes)
         # failing first, then by kind; a stable sort keeps each source's own order within
         found.sort(key=lambda f: (VERDICT_ORDER.index(f.verdict), KIND_ORDER.index(f.kind)))
         return tuple(found)
@@ -239,30 +311,6 @@ class Session:
         value = float(measure_values(self.samples[face].field, measure)[i, j])
         return measure.value, value
 
-
-def _section_findings(sections: tuple[SectionCurve, ...]) -> list[Finding]:
-    found = []
-    for n, curve in enumerate(sections):
-        extent = max(curve.length / 10, 1.0)
-        marks = curve.inflections
-        for p, s, seam in zip(marks.points, marks.arc_length, marks.at_seam, strict=True):
-            where = " (across a seam)" if seam else ""
-            title = f"inflection on section {n + 1} at s = {s:.1f} mm{where}"
-            found.append(Finding("inflection", title, "note", p, extent, "", p))
-    return found
-
-
-def curvature_extremes(samples: tuple[FaceSamples, ...]) -> list[Finding]:
-    """The tightest spot (largest max |k|) of each face, tightest face first."""
-    found = []
-    for s in samples:
-        size = np.where(s.inside, s.field.max_abs, -np.inf)
-        if not np.isfinite(size).any() or size.max() <= 0:
-            continue
-        i, j = np.unravel_index(np.argmax(size), size.shape)
-        k = float(size[i, j])
-        title = f"face {s.face + 1}: tightest radius {1 / k:.3g} mm"
-        detail = f"max |k| {k:.4g} 1/mm (k1 {s.field.k1[i, j]:.4g}, k2 {s.field.k2[i, j]:.4g})"
-        extent = min(10.0 / k, float(np.ptp(s.field.points[s.inside], axis=0).max()) or 10.0)
-        found.append((k, Finding("curvature extreme", title, "note", s.field.points[i, j], extent, detail)))
-    return [f for _, f in sorted(found, key=lambda pair: -pair[0])]
+    def face_label(self, face: int) -> str:
+        """A face's name from the file, or ``face N`` counted from 0 (as ``batten probe --face N``)."""
+        return face_label(self.model, face)

@@ -1,0 +1,192 @@
+"""The window's findings, judged by the same review code as ``batten check``.
+
+Seams and free edges are measured by :func:`app.review.adapters.seams_and_free_edges`
+against the profile in force, and the verdicts come from
+:func:`app.review.findings.collect`, exactly as the check computes them; this
+module only turns them into list entries the window can show and focus.
+Entries the check does not judge (the points of each inflection, section
+curvature extrema, each face's tightest spot) are listed as notes.
+
+Faces are named by their names in the file; an unnamed face is ``face N``
+counted from 0, as ``batten probe --face N`` counts them.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from app.review import adapters
+from app.review import findings as review
+from app.review.adapters import ProfileInForce
+from geometry.model import Model
+from geometry.section_results import SectionCurve
+
+from .results import FaceSamples, Finding, SeamView
+
+# Per-point arrays of a section curve: left out of the entries the review judges (as the check does).
+_CURVE_ARRAYS = ("points", "arc_length", "curvature")
+# Review kinds -> the window's kinds.
+KINDS = {"seam": "seam", "free_edge": "free edge", "inflection": "inflection", "curvature": "curvature extreme"}
+
+
+def face_label(model: Model, index: int) -> str:
+    """The face's name from the file, or ``face N`` (N from 0, as on the command line)."""
+    name = model.faces[index].name if 0 <= index < len(model.faces) else ""
+    return name or f"face {index}"
+
+
+@dataclass(frozen=True, eq=False)
+class SeamReview:
+    """Seams and free edges of a model measured against one profile (the check's plain dicts).
+
+    Attributes
+    ----------
+    profile : ProfileInForce
+    seams, free_edges : tuple of dict
+        As :func:`app.review.adapters.seams_and_free_edges` gives them.
+    lines : tuple of app.review.adapters.Line
+        Seams first (in ``seams`` order), then free edges.
+    views : tuple of SeamView
+        The same lines, coloured by verdict in the view.
+    """
+
+    profile: ProfileInForce
+    seams: tuple[dict, ...]
+    free_edges: tuple[dict, ...]
+    lines: tuple
+    views: tuple[SeamView, ...]
+
+
+def review_seams(model: Model, profile: ProfileInForce) -> SeamReview:
+    """Measure every seam and free edge of ``model`` under ``profile`` (as ``batten check`` does)."""
+    seams, free, lines, _not_run = adapters.seams_and_free_edges(model, profile)
+    views = []
+    for seam, line in zip(seams, lines[: len(seams)], strict=True):
+        label = f"seam {' / '.join(seam['face_names'])}: {seam['continuity']}, {seam['verdict']}"
+        views.append(SeamView(np.asarray(line.points, float), seam["verdict"], label))
+    for edge, line in zip(free, lines[len(seams) :], strict=True):
+        views.append(SeamView(np.asarray(line.points, float), "free", f"free edge of {edge['face_name']}"))
+    return SeamReview(profile, tuple(seams), tuple(free), tuple(lines), tuple(views))
+
+
+def section_entries(curves: tuple[SectionCurve, ...], where: tuple[tuple[int, int], ...]) -> list[dict]:
+    """The window's section curves in the check's plain form, one entry per plane.
+
+    Parameters
+    ----------
+    curves : tuple of SectionCurve
+    where : tuple of (plane, curve) index pairs, one per curve (both from 0)
+    """
+    planes = 1 + max((p for p, _ in where), default=-1)
+    entries = [{"label": str(p + 1), "curves": []} for p in range(planes)]
+    for curve, (plane, _) in zip(curves, where, strict=True):
+        data = {k: v for k, v in curve.to_json().items() if k not in _CURVE_ARRAYS}
+        entries[plane]["curves"].append(data)
+    return entries
+
+
+def curve_label(where: tuple[int, int]) -> str:
+    """``section P, curve C`` (both from 1, as the report and the check number them)."""
+    return f"section {where[0] + 1}, curve {where[1] + 1}"
+
+
+def _measured(f, value: float | None = None) -> str:
+    value = f.value if value is None else value
+    if f.unit == "fraction":
+        limit = "" if f.limit is None else f", limit {100 * f.limit:g} %"
+        return f"{f.measure} {100 * value:.3g} %{limit}"
+    limit = "" if f.limit is None else f", limit {f.limit:g} {f.unit}"
+    return f"{f.measure} {value:.4g} {f.unit}{limit}"
+
+
+def judged_findings(
+    model: Model,
+    seams: SeamReview | None,
+    curves: tuple[SectionCurve, ...],
+    where: tuple[tuple[int, int], ...],
+    profile: ProfileInForce,
+) -> list[Finding]:
+    """The check's own findings for what the window shows, as list entries.
+
+    Parameters
+    ----------
+    model : Model
+    seams : SeamReview or None
+        None until the seams are measured.
+    curves : tuple of SectionCurve
+        The window's section curves.
+    where : tuple of (plane, curve) pairs, one per curve
+    profile : ProfileInForce
+    """
+    seam_dicts = seams.seams if seams is not None else ()
+    free = seams.free_edges if seams is not None else ()
+    flat = {pair: n for n, pair in enumerate(where)}
+    found = []
+    for f in review.collect(seam_dicts, free, section_entries(curves, where), profile):
+        kind = KINDS.get(f.kind, f.kind)
+        position = None if f.where is None else np.asarray(f.where, float)
+        detail = f"{_measured(f)}; profile {profile.name}"
+        if f.kind == "seam" and "seam" in f.ref:
+            seam = seam_dicts[f.ref["seam"]]
+            names = " / ".join(seam["face_names"])
+            crease = ", designed crease" if seam.get("crease") else ""
+            title = f"seam {names}: {seam['continuity']}{crease}"
+            reasons = "; ".join(seam.get("reasons", ()))
+            detail += f" ({reasons})" if reasons else ""
+            path = np.asarray(seams.lines[f.ref["seam"]].points, float)
+            position = np.asarray(seam["worst_position"], float) if position is None else position
+            extent = max(float(seam["length"]) / 4, 1.0)
+        elif f.kind == "inflection" and (f.ref.get("section"), f.ref.get("curve")) in flat:
+            curve = curves[flat[f.ref["section"], f.ref["curve"]]]
+            count = int(f.value)
+            title = f"{f.subject}: {count} inflection{'s' * (count != 1)}, limit {f.limit:g}"
+            path = curve.points
+            position = curve.points[len(curve.points) // 2] if position is None else position
+            extent = max(curve.length / 4, 1.0)
+        else:  # a kind this window does not know yet: show it as the check words it
+            title, path, extent = f"{f.subject}: {_measured(f)}", np.zeros((0, 3)), 10.0
+            position = np.zeros(3) if position is None else position
+        found.append(Finding(kind, title, f.verdict, position, extent, detail, path))
+    for edge, line in zip(free, seams.lines[len(seam_dicts) :] if seams else (), strict=True):
+        points = np.asarray(line.points, float)
+        title = f"free edge of {edge['face_name']}, {float(edge['length']):.1f} mm"
+        extent = max(float(edge["length"]) / 4, 1.0)
+        found.append(Finding("free edge", title, "note", points[len(points) // 2], extent, "", points))
+    return found
+
+
+def section_notes(curves: tuple[SectionCurve, ...], where: tuple[tuple[int, int], ...]) -> list[Finding]:
+    """Each inflection and each curvature extremum of the section curves, as notes to click."""
+    found = []
+    for curve, pair in zip(curves, where, strict=True):
+        label = curve_label(pair)
+        extent = max(curve.length / 10, 1.0)
+        marks = curve.inflections
+        for p, s, seam in zip(marks.points, marks.arc_length, marks.at_seam, strict=True):
+            across = " (across a seam)" if seam else ""
+            found.append(Finding("inflection", f"{label}: inflection at s = {s:.1f} mm{across}", "note", p, extent))
+        ext = curve.extrema
+        for p, s, k, top in zip(ext.points, ext.arc_length, ext.curvature, ext.is_maximum, strict=True):
+            radius = f", radius {1 / abs(k):.4g} mm" if k else ""
+            title = f"{label}: curvature {'max' if top else 'min'} {k:.3g} at s = {s:.1f} mm"
+            detail = f"curvature {'maximum' if top else 'minimum'} along {label}: {k:.5g} 1/mm{radius}, s = {s:.2f} mm"
+            found.append(Finding("section extremum", title, "note", p, extent, detail))
+    return found
+
+
+def curvature_extremes(model: Model, samples: tuple[FaceSamples, ...]) -> list[Finding]:
+    """The tightest spot (largest max |k|) of each face, tightest face first."""
+    found = []
+    for s in samples:
+        size = np.where(s.inside, s.field.max_abs, -np.inf)
+        if not np.isfinite(size).any() or size.max() <= 0:
+            continue
+        i, j = np.unravel_index(np.argmax(size), size.shape)
+        k = float(size[i, j])
+        title = f"{face_label(model, s.face)}: tightest radius {1 / k:.3g} mm"
+        detail = f"max |k| {k:.4g} 1/mm (k1 {s.field.k1[i, j]:.4g}, k2 {s.field.k2[i, j]:.4g})"
+        extent = min(10.0 / k, float(np.ptp(s.field.points[s.inside], axis=0).max()) or 10.0)
+        found.append((k, Finding("curvature extreme", title, "note", s.field.points[i, j], extent, detail)))
+    return [f for _, f in sorted(found, key=lambda pair: -pair[0])]
