@@ -36,7 +36,7 @@ UMBILIC_RELATIVE = 1e-7
 # degenerate sample to report the limit values there.
 LIMIT_NUDGE = 1e-4
 
-_CHUNK_POINTS = 1 << 14
+_CHUNK_POINTS = 1 << 15
 _BLAS = ThreadpoolController()
 
 
@@ -147,9 +147,10 @@ def _unit_normal(su, sv, sign, area_floor=0.0, dest=None):
     e = _dot(su, su)
     valid = np.greater(det, (DEGENERATE_SINE * DEGENERATE_SINE) * (e * _dot(sv, sv)), out=_slot(dest, "valid"))
     valid &= det > area_floor * area_floor
-    invalid = ~valid
-    det[invalid] = 1.0
-    e[invalid] = 1.0  # degenerate samples are replaced later; keep them finite
+    if not valid.all():  # rare: skip the masked writes on regular patches
+        invalid = ~valid
+        det[invalid] = 1.0
+        e[invalid] = 1.0  # degenerate samples are replaced later; keep them finite
     inv_area = 1.0 / np.sqrt(det)
     inv_area *= sign
     normal *= inv_area
@@ -183,9 +184,10 @@ def _from_forms(su, sv, normal, det, valid, e, l_, m_, n_, sign, dest=None):
     f = _dot(su, sv)
     inv_e = 1.0 / e
     a = l_ * inv_e
+    inv_root_det = 1.0 / np.sqrt(det)
     b = m_ * e
     b -= l_ * f
-    b *= inv_e / np.sqrt(det)
+    b *= inv_e * inv_root_det
     if sign < 0:
         np.negative(b, out=b)
     c = l_ * f * f
@@ -201,18 +203,22 @@ def _from_forms(su, sv, normal, det, valid, e, l_, m_, n_, sign, dest=None):
     k2 = np.subtract(mean, disc, out=_slot(dest, "k2"))
     gaussian = np.multiply(k1, k2, out=_slot(dest, "gaussian"))
     umbilic = np.less_equal(disc, UMBILIC_RELATIVE * (np.abs(k1) + np.abs(k2)) + 1e-300, out=_slot(dest, "umbilic"))
-    disc[umbilic] = 1.0
-    half_diff[umbilic] = 1.0
-    b[umbilic] = 0.0
+    if umbilic.any():  # directions are arbitrary there: take t = 0 (along Su)
+        disc[umbilic] = 1.0
+        half_diff[umbilic] = 1.0
+        b[umbilic] = 0.0
     cos2 = half_diff / disc
     cos_t = np.sqrt(np.maximum(0.5 * (1.0 + cos2), 0.0))
     sin_t = np.copysign(np.sqrt(np.maximum(0.5 * (1.0 - cos2), 0.0)), b)
-    t1 = su * np.sqrt(inv_e)
-    t2 = _cross(normal, t1)
-    d1 = np.multiply(t1, cos_t, out=_slot(dest, "dir1"))
-    d1 += t2 * sin_t
-    d2 = np.multiply(t2, cos_t, out=_slot(dest, "dir2"))
-    d2 -= t1 * sin_t
+    # dir1 = cos t t1 + sin t t2 and dir2 = cos t t2 - sin t t1 written as
+    # combinations of Su and Sv (t1 = Su/sqrt(E), t2 = s (E Sv - F Su)/sqrt(E det)).
+    inv_root_e = np.sqrt(inv_e)
+    t2_sv = sign * inv_root_e * e * inv_root_det  # coefficient of Sv in t2
+    t2_su = -t2_sv * f * inv_e  # coefficient of Su in t2
+    d1 = np.multiply(su, cos_t * inv_root_e + sin_t * t2_su, out=_slot(dest, "dir1"))
+    d1 += sv * (sin_t * t2_sv)
+    d2 = np.multiply(su, cos_t * t2_su - sin_t * inv_root_e, out=_slot(dest, "dir2"))
+    d2 += sv * (cos_t * t2_sv)
     return {
         "normals": normal,
         "gaussian": gaussian,
