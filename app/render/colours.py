@@ -28,14 +28,15 @@ BACKGROUND_BOTTOM = "#aeb7c2"  # a soft gradient, so white stripes and the white
 BACKGROUND_TOP = "#e8ecf0"
 
 
-def _rgb(hex_colour: str) -> np.ndarray:
+def hex_rgb(hex_colour: str) -> np.ndarray:
+    """RGB in 0..1 of a "#rrggbb" colour, shape (3,)."""
     return np.array([int(hex_colour[i : i + 2], 16) for i in (1, 3, 5)], float) / 255.0
 
 
 def ramp_table(stops, count: int = 256) -> np.ndarray:
     """RGBA colours (0..255) sampled evenly along colour stops, shape (count, 4)."""
     where = np.array([p for p, _ in stops])
-    colours = np.stack([_rgb(c) for _, c in stops])
+    colours = np.stack([hex_rgb(c) for _, c in stops])
     x = np.linspace(0.0, 1.0, count)
     rgb = np.stack([np.interp(x, where, colours[:, c]) for c in range(3)], axis=-1)
     return np.concatenate([np.round(rgb * 255), np.full((count, 1), 255)], axis=-1).astype(np.uint8)
@@ -51,4 +52,4 @@ def lookup_table(signed: bool, limits: tuple[float, float]) -> pv.LookupTable:
 
 def verdict_colour(verdict: str) -> np.ndarray:
     """RGB (0..255) of a seam verdict, shape (3,)."""
-    return np.round(_rgb(VERDICT.get(verdict, VERDICT["note"])) * 255).astype(np.uint8)
+    return np.round(hex_rgb(VERDICT.get(verdict, VERDICT["note"])) * 255).astype(np.uint8)

@@ -1,19 +1,17 @@
-"""The report's colours (our own choice): a diverging ramp and stripe shades."""
+"""The report's colours: the window's diverging ramp and stripe shades as 0..1 floats."""
 
 from __future__ import annotations
 
 import numpy as np
 
-# Negative curvature towards deep teal, zero near white, positive towards brick red.
-DIVERGING_STOPS = (
-    (0.00, (0.05, 0.25, 0.45)),
-    (0.25, (0.25, 0.60, 0.75)),
-    (0.50, (0.96, 0.96, 0.93)),
-    (0.75, (0.93, 0.62, 0.30)),
-    (1.00, (0.60, 0.12, 0.08)),
-)
-STRIPE_LIGHT = (0.97, 0.97, 0.97, 1.0)
-STRIPE_DARK = (0.10, 0.10, 0.12, 1.0)
+from app.render.colours import DIVERGING, hex_rgb
+from app.render.colours import STRIPE_DARK as _STRIPE_DARK_RGB
+from app.render.colours import STRIPE_LIGHT as _STRIPE_LIGHT_RGB
+
+# The window's colours, so a report and the screen it came from look alike.
+DIVERGING_STOPS = tuple((position, tuple(float(c) for c in hex_rgb(hex_colour))) for position, hex_colour in DIVERGING)
+STRIPE_LIGHT = (*(c / 255.0 for c in _STRIPE_LIGHT_RGB), 1.0)
+STRIPE_DARK = (*(c / 255.0 for c in _STRIPE_DARK_RGB), 1.0)
 
 
 def ramp(stops, count: int) -> np.ndarray:

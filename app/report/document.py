@@ -127,7 +127,11 @@ def _figure(fig: Figure, image_src: Callable[[str], str], width: int) -> str:
 def _profile_block(review: FileReview) -> str:
     """Every value of the profile, with where it comes from."""
     basis = review.profile.get("basis") or {}
-    rows = [(str(k), str(v), str(basis.get(k, ""))) for k, v in review.profile.items() if k != "basis"]
+    rows = [
+        (str(k), "no limit" if v is None else str(v), str(basis.get(k, "")))
+        for k, v in review.profile.items()
+        if k != "basis"
+    ]
     return _table(["setting", "value", "basis"], rows, "no profile values")
 
 
