@@ -126,8 +126,8 @@ def test_inflection_limit_is_inherited_and_can_be_lifted(tmp_path):
 
 def test_the_review_reads_the_inflection_limit_the_profile_gives():
     """app.review judges section curves by the key the profile echoes."""
-    from app.review.adapters import load_profile as review_profile
     from app.review.findings import INFLECTION_LIMIT_KEY
+    from app.review.profile import load_profile as review_profile
 
     assert review_profile("class-a").limit(INFLECTION_LIMIT_KEY) == 0
     assert review_profile("technical").limit(INFLECTION_LIMIT_KEY) is None

@@ -264,12 +264,14 @@ def judged_check(findings) -> list[tuple[str, str]]:
 
 
 def test_a_profile_limit_on_inflections_fails_the_curve_as_the_check_does(session, monkeypatch):
-    from app.review import adapters
     from app.review import findings as review
+    from app.review import profile as review_profile
     from app.state import session as session_module
 
-    strict = adapters.load_profile("class-a")
-    strict = adapters.ProfileInForce(strict.name, {**strict.values, review.INFLECTION_LIMIT_KEY: 0}, strict.source)
+    strict = review_profile.load_profile("class-a")
+    strict = review_profile.ProfileInForce(
+        strict.name, {**strict.values, review.INFLECTION_LIMIT_KEY: 0}, strict.source
+    )
     monkeypatch.setattr(session_module, "load_profile", lambda name: strict)
     session.set_profile("class-a")
     session.set_section(enabled=True, normal=(0, 1, 0), count=2, spacing=10.0)

@@ -192,9 +192,6 @@ def _glance(review: FileReview) -> str:
         "<p></p>",
         _table(["kind of finding", "within tolerance", "over tolerance"], rows, "nothing was judged"),
     ]
-    if review.unavailable:
-        missing = "; ".join(f"{u.analysis}: {u.reason}" for u in review.unavailable)
-        parts.append(f'<p><b><font color="#7a4b00">Not run:</font></b> {escape(missing)}</p>')
     return "".join(parts)
 
 

@@ -20,18 +20,24 @@ FORMATS = {".pdf": "pdf", ".html": "html", ".htm": "html"}
 RESOURCE_SCHEME = "batten-image"
 PAGE_MARGIN_MM = 15.0
 
-_app = None  # the QGuiApplication this module made, kept alive for later reports
+_app = None  # the QApplication this module made, kept alive for later reports
 
 
 def _gui_application():
-    """The running QGuiApplication, or one made off-screen (text layout needs one; no display is used)."""
+    """The running Qt application, or a new one (text layout needs one).
+
+    A full QApplication, so a window opened later in the same process can use
+    it; off-screen only where there is no display to talk to.
+    """
     global _app
     from PySide6.QtGui import QGuiApplication
+    from PySide6.QtWidgets import QApplication
 
     app = QGuiApplication.instance()
     if app is None:
-        os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
-        _app = app = QGuiApplication(["batten-report"])
+        if not (os.environ.get("DISPLAY") or os.environ.get("WAYLAND_DISPLAY")):
+            os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
+        _app = app = QApplication(["batten-report"])
     return app
 
 

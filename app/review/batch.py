@@ -175,7 +175,7 @@ def run_batch(options: BatchOptions) -> list[str]:
     from app.report.atomic import write_atomically
     from app.report.writers import now_stamp
 
-    from .adapters import load_profile
+    from .profile import load_profile
     from .spec import parse_spec
 
     _check_outputs(options)

@@ -13,11 +13,10 @@ import numpy as np
 
 from geometry import curvature_on_grid
 from geometry.model import Face, Model
+from geometry.sampling import model_grids
 
 # Samples over the whole model for the curvature ranges (the sampler spreads them by size and bending).
 SAMPLE_BUDGET = 300_000
-# Fallback grid when geometry.sampling is not available: samples per direction.
-FALLBACK_SAMPLES = 48
 # |k| below this (1/mm) counts as flat: no finite minimum radius. A 1 km radius.
 FLAT_CURVATURE = 1e-6
 
@@ -81,28 +80,15 @@ class FaceSummary:
 def face_grids(model: Model, budget: int = SAMPLE_BUDGET) -> list[tuple[np.ndarray, np.ndarray, np.ndarray]]:
     """Sample parameters of every face and which of them lie inside its trim.
 
-    Uses the project's trim-aware sampler (:mod:`geometry.sampling`) when it is
-    there, else a uniform grid of :data:`FALLBACK_SAMPLES` per direction masked
-    with :meth:`geometry.model.Face.inside`.
+    The trim-aware sampler :func:`geometry.sampling.model_grids` shares ``budget``
+    samples out over the faces.
 
     Returns
     -------
     list of (u, v, inside)
         Per face: ``u`` of shape (a,), ``v`` of shape (b,), ``inside`` bool of shape (a, b).
     """
-    from . import adapters
-
-    grids = adapters.model_grids(model, budget)
-    if grids is not None:
-        return grids
-    grids = []
-    for face in model.faces:
-        (u0, u1), (v0, v1) = face.surface.domain
-        u = np.linspace(u0, u1, FALLBACK_SAMPLES)
-        v = np.linspace(v0, v1, FALLBACK_SAMPLES)
-        uu, vv = np.meshgrid(u, v, indexing="ij")
-        grids.append((u, v, face.inside(uu, vv)))
-    return grids
+    return [(g.u, g.v, g.inside) for g in model_grids(model, budget)]
 
 
 def _span(values: np.ndarray) -> tuple[float, float]:

@@ -11,7 +11,7 @@ marked, not judged.
 
 from __future__ import annotations
 
-from .adapters import ProfileInForce
+from .profile import ProfileInForce
 from .result import FAIL, PASS, Finding
 
 # seam measure -> (key of the worst value, unit, profile key of the limit, class it decides)

@@ -9,7 +9,6 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
-from .adapters import Unavailable
 from .faces import FaceSummary
 
 SCHEMA_ID = "batten-check"
@@ -89,7 +88,6 @@ class FileReview:
     free_edges: tuple[dict, ...] = ()
     sections: tuple[dict, ...] = ()
     findings: tuple[Finding, ...] = ()
-    unavailable: tuple[Unavailable, ...] = ()
     warnings: tuple[str, ...] = ()
     model_size: float = 0.0
     section_curves: tuple = ()
@@ -135,7 +133,6 @@ class FileReview:
             "seams": list(self.seams),
             "free_edges": list(self.free_edges),
             "sections": list(self.sections),
-            "not_run": [{"analysis": u.analysis, "reason": u.reason} for u in self.unavailable],
             "warnings": list(self.warnings),
             "summary": self.summary(),
         }

@@ -13,11 +13,15 @@ from dataclasses import dataclass, replace
 from pathlib import Path
 
 from geometry.errors import BattenError, ReadError
+from geometry.io import read_model
 from geometry.model import Model
 
-from . import adapters, findings
+from . import findings
 from .faces import summarise_faces
+from .profile import load_profile
 from .result import UNREADABLE, FileReview
+from .seam_entries import seams_and_free_edges
+from .section_entries import cut_sections
 from .spec import DEFAULT_SPEC, parse_spec, planes_for
 
 Progress = Callable[[str], None]
@@ -64,18 +68,17 @@ def review_model(model: Model, settings: ReviewSettings = ReviewSettings(), prog
         When the settings are wrong (unknown profile, bad SPEC).
     """
     name = Path(model.source).name or "model"
-    profile = adapters.load_profile(settings.profile)
+    profile = load_profile(settings.profile)
     items = parse_spec(settings.sections)
     progress(f"{name}: curvature of {len(model.faces)} faces")
     faces = summarise_faces(model)
     progress(f"{name}: seams and free edges")
-    seams, free_edges, lines, not_run = adapters.seams_and_free_edges(model, profile)
+    seams, free_edges, lines = seams_and_free_edges(model, profile)
     planes = planes_for(items, model.bounds)
     sections, curves = (), ()
     if planes:
         progress(f"{name}: cutting {len(planes)} section plane(s)")
-        sections, curves, more = adapters.sections(model, planes, profile)
-        not_run = not_run + more
+        sections, curves = cut_sections(model, planes)
     found = findings.collect(seams, free_edges, sections, profile)
     return FileReview(
         source=model.source,
@@ -90,7 +93,6 @@ def review_model(model: Model, settings: ReviewSettings = ReviewSettings(), prog
         free_edges=free_edges,
         sections=sections,
         findings=found,
-        unavailable=not_run,
         warnings=model.warnings,
         model_size=model.size,
         section_curves=curves,
@@ -128,7 +130,7 @@ def review_file(
     """
     progress(f"{Path(path).name}: reading")
     try:
-        model = adapters.read_model(path)
+        model = read_model(path)
     except ReadError as exc:
         return _unreadable(path, exc.reason), None
     except BattenError as exc:

@@ -12,7 +12,7 @@ from dataclasses import replace
 
 import numpy as np
 
-from app.review.adapters import ProfileInForce, load_profile
+from app.review.profile import ProfileInForce, load_profile
 from geometry.differential import curvature_on_grid
 from geometry.errors import BattenError, ReadError
 from geometry.io import read_model

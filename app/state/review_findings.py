@@ -1,6 +1,6 @@
 """The window's findings, judged by the same review code as ``batten check``.
 
-Seams and free edges are measured by :func:`app.review.adapters.seams_and_free_edges`
+Seams and free edges are measured by :func:`app.review.seam_entries.seams_and_free_edges`
 against the profile in force, and the verdicts come from
 :func:`app.review.findings.collect`, exactly as the check computes them; this
 module only turns them into list entries the window can show and focus.
@@ -17,16 +17,15 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from app.review import adapters
 from app.review import findings as review
-from app.review.adapters import ProfileInForce
+from app.review.profile import ProfileInForce
+from app.review.seam_entries import seams_and_free_edges
+from app.review.section_entries import curve_entry
 from geometry.model import Model
 from geometry.section_results import SectionCurve
 
 from .results import FaceSamples, Finding, SeamView
 
-# Per-point arrays of a section curve: left out of the entries the review judges (as the check does).
-_CURVE_ARRAYS = ("points", "arc_length", "curvature")
 # Review kinds -> the window's kinds.
 KINDS = {"seam": "seam", "free_edge": "free edge", "inflection": "inflection", "curvature": "curvature extreme"}
 
@@ -45,8 +44,8 @@ class SeamReview:
     ----------
     profile : ProfileInForce
     seams, free_edges : tuple of dict
-        As :func:`app.review.adapters.seams_and_free_edges` gives them.
-    lines : tuple of app.review.adapters.Line
+        As :func:`app.review.seam_entries.seams_and_free_edges` gives them.
+    lines : tuple of app.review.seam_entries.Line
         Seams first (in ``seams`` order), then free edges.
     views : tuple of SeamView
         The same lines, coloured by verdict in the view.
@@ -61,7 +60,7 @@ class SeamReview:
 
 def review_seams(model: Model, profile: ProfileInForce) -> SeamReview:
     """Measure every seam and free edge of ``model`` under ``profile`` (as ``batten check`` does)."""
-    seams, free, lines, _not_run = adapters.seams_and_free_edges(model, profile)
+    seams, free, lines = seams_and_free_edges(model, profile)
     views = []
     for seam, line in zip(seams, lines[: len(seams)], strict=True):
         label = f"seam {' / '.join(seam['face_names'])}: {seam['continuity']}, {seam['verdict']}"
@@ -82,8 +81,7 @@ def section_entries(curves: tuple[SectionCurve, ...], where: tuple[tuple[int, in
     planes = 1 + max((p for p, _ in where), default=-1)
     entries = [{"label": str(p + 1), "curves": []} for p in range(planes)]
     for curve, (plane, _) in zip(curves, where, strict=True):
-        data = {k: v for k, v in curve.to_json().items() if k not in _CURVE_ARRAYS}
-        entries[plane]["curves"].append(data)
+        entries[plane]["curves"].append(curve_entry(curve))
     return entries
 
 

@@ -13,7 +13,7 @@ from dataclasses import replace
 
 import numpy as np
 
-from app.review.adapters import ProfileInForce, load_profile
+from app.review.profile import ProfileInForce, load_profile
 from geometry.model import Model
 from geometry.section_results import CurvatureComb, SectionCurve
 

@@ -1,0 +1,66 @@
+"""Plane sections of a model as the check's plain dicts, and their sampled curves for the pictures."""
+
+from __future__ import annotations
+
+import numpy as np
+
+from geometry.model import Model
+
+from .curves import SectionCurve
+
+# Per-point arrays of a section curve: kept for the pictures, left out of the JSON.
+_CURVE_ARRAYS = ("points", "arc_length", "curvature")
+
+
+def curve_entry(curve) -> dict:
+    """A section curve's ``to_json()`` without its per-point arrays (the check's JSON form)."""
+    return {k: v for k, v in curve.to_json().items() if k not in _CURVE_ARRAYS}
+
+
+def cut_sections(model: Model, planes):
+    """Plane sections with inflections, extrema and fairness figures (:class:`geometry.sections.SectionEngine`).
+
+    Parameters
+    ----------
+    model : Model
+    planes : sequence of app.review.spec.SectionPlane
+
+    Returns
+    -------
+    sections : tuple of dict
+        One per plane: ``label``, ``family``, ``plane`` and ``curves`` (each
+        curve's ``to_json()`` without its per-point arrays).
+    curves : tuple of SectionCurve
+        Sampled curves for the pictures.
+    """
+    # Imported here: scipy.spatial behind it costs ~0.3 s, and app.review is imported for `batten --help`.
+    from geometry.sections import SectionEngine
+
+    engine = SectionEngine(model)
+    entries, sampled = [], []
+    for index, plane in enumerate(planes):
+        cut = engine.plane(np.asarray(plane.point), np.asarray(plane.normal))
+        curves = []
+        for curve in cut.curves:
+            curves.append(curve_entry(curve))
+            sampled.append(
+                SectionCurve(
+                    section=index,
+                    label=plane.label,
+                    points=curve.points,
+                    curvature=curve.curvature,
+                    arc_length=curve.arc_length,
+                    side=curve.sides,
+                    inflections=curve.inflections.points,
+                    extrema=curve.extrema.points,
+                )
+            )
+        entries.append(
+            {
+                "label": plane.label,
+                "family": plane.family,
+                "plane": {"point": list(plane.point), "normal": list(plane.normal)},
+                "curves": curves,
+            }
+        )
+    return tuple(entries), tuple(sampled)
