@@ -37,3 +37,18 @@ def test_battenerror_becomes_one_line_and_exit_2(monkeypatch, capsys):
     err = capsys.readouterr().err
     assert status == 2
     assert err.strip() == "batten: broken.step: not a STEP or IGES file"
+
+
+def test_window_without_a_display_says_so_and_exits_2():
+    import os
+
+    env = {k: v for k, v in os.environ.items() if k not in ("DISPLAY", "WAYLAND_DISPLAY", "QT_QPA_PLATFORM")}
+    out = subprocess.run(
+        [sys.executable, "-m", "app", "sample_surfaces/hood_visor.stp"],
+        capture_output=True,
+        text=True,
+        timeout=120,
+        env=env,
+    )
+    assert out.returncode == 2
+    assert "no display" in out.stderr and "Traceback" not in out.stderr

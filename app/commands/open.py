@@ -3,10 +3,20 @@
 from __future__ import annotations
 
 import os
+import sys
+
+from geometry.errors import BattenError
 
 
 def add_arguments(parser) -> None:
     parser.add_argument("file", nargs="?", help="STEP, IGES or geomdl JSON model to open")
+
+
+def has_display(environ=os.environ, platform: str = sys.platform) -> bool:
+    """Whether Qt has a screen to open a window on (X11 or Wayland on Linux)."""
+    if not platform.startswith("linux"):
+        return True
+    return bool(environ.get("DISPLAY") or environ.get("WAYLAND_DISPLAY") or environ.get("QT_QPA_PLATFORM"))
 
 
 def run(args) -> int:
@@ -14,6 +24,12 @@ def run(args) -> int:
         from geometry.errors import ReadError
 
         raise ReadError(args.file, "no such file")
+    if not has_display():
+        # Without this, Qt aborts the process with a page of plugin messages.
+        raise BattenError(
+            "no display to open the window on (DISPLAY is not set); run it in a desktop session or under "
+            "'xvfb-run -a', or use the headless commands: batten summary, probe, section, check"
+        )
     from PySide6.QtWidgets import QApplication
 
     from app.qt.window import MainWindow
