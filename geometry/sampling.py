@@ -198,6 +198,46 @@ def model_grids(model: Model, budget: int = DEFAULT_BUDGET) -> tuple[FaceGrid, .
     return tuple(_grid(f, d, spacing) for f, d in zip(model.faces, demands, strict=True))
 
 
+def grid_cells(inside: np.ndarray) -> np.ndarray:
+    """Grid cells whose four corners are all inside, as node indices.
+
+    Parameters
+    ----------
+    inside : ndarray of bool, shape (a, b)
+        Which grid nodes lie on the face; node (i, j) is index ``i * b + j``.
+
+    Returns
+    -------
+    cells : ndarray of int, shape (m, 4)
+        Corners (i, j), (i+1, j), (i+1, j+1), (i, j+1) of each kept cell.
+    """
+    b = inside.shape[1]
+    keep = inside[:-1, :-1] & inside[1:, :-1] & inside[:-1, 1:] & inside[1:, 1:]
+    ci, cj = np.nonzero(keep)
+    p00 = ci * b + cj
+    return np.stack([p00, p00 + b, p00 + b + 1, p00 + 1], axis=1)
+
+
+def cell_triangles(cells: np.ndarray, reversed: bool = False) -> np.ndarray:
+    """Two triangles per grid cell, wound so their normal follows Su x Sv (or its reverse).
+
+    Parameters
+    ----------
+    cells : ndarray of int, shape (m, 4)
+        From :func:`grid_cells`.
+    reversed : bool
+        The face's orientation is reversed.
+
+    Returns
+    -------
+    triangles : ndarray of int, shape (2 m, 3)
+    """
+    p00, p10, p11, p01 = cells.T
+    if reversed:
+        return np.concatenate([np.stack([p00, p01, p10], 1), np.stack([p10, p01, p11], 1)])
+    return np.concatenate([np.stack([p00, p10, p01], 1), np.stack([p10, p11, p01], 1)])
+
+
 def trimmed_mesh(face: Face, grid: FaceGrid) -> tuple[np.ndarray, np.ndarray]:
     """Display triangulation of a face: grid cells with all four corners inside.
 
@@ -215,15 +255,7 @@ def trimmed_mesh(face: Face, grid: FaceGrid) -> tuple[np.ndarray, np.ndarray]:
         follows the face's orientation.
     """
     a, b = grid.inside.shape
-    ins = grid.inside
-    keep = ins[:-1, :-1] & ins[1:, :-1] & ins[:-1, 1:] & ins[1:, 1:]
-    ci, cj = np.nonzero(keep)
-    p00 = ci * b + cj  # grid node (i, j) is point i * b + j
-    p10, p01, p11 = p00 + b, p00 + 1, p00 + b + 1
-    if face.reversed:
-        tris = np.concatenate([np.stack([p00, p01, p10], 1), np.stack([p10, p01, p11], 1)])
-    else:
-        tris = np.concatenate([np.stack([p00, p10, p01], 1), np.stack([p10, p11, p01], 1)])
+    tris = cell_triangles(grid_cells(grid.inside), face.reversed)
     used = np.unique(tris)
     remap = np.full(a * b, -1)
     remap[used] = np.arange(used.size)

@@ -14,6 +14,7 @@ import numpy as np
 import pyvista as pv
 
 from app.state.results import FaceSamples
+from geometry.sampling import cell_triangles, grid_cells
 
 
 def grid_triangles(inside: np.ndarray, offset: int = 0) -> np.ndarray:
@@ -25,13 +26,7 @@ def grid_triangles(inside: np.ndarray, offset: int = 0) -> np.ndarray:
     offset : int
         Added to every index (position of the face's first node in the merged mesh).
     """
-    a, b = inside.shape
-    keep = inside[:-1, :-1] & inside[1:, :-1] & inside[:-1, 1:] & inside[1:, 1:]
-    i, j = np.nonzero(keep)
-    corner = i * b + j + offset
-    lower = np.stack([corner, corner + b, corner + 1], axis=-1)
-    upper = np.stack([corner + b, corner + b + 1, corner + 1], axis=-1)
-    return np.concatenate([lower, upper])
+    return cell_triangles(grid_cells(inside)) + offset
 
 
 @dataclass

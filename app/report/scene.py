@@ -14,6 +14,7 @@ import pyvista as pv
 from app.review.faces import face_grids
 from geometry import curvature_on_grid
 from geometry.model import Model
+from geometry.sampling import grid_cells
 
 # Samples over the whole model for the pictures: enough for smooth shading at report size.
 MESH_BUDGET = 200_000
@@ -21,10 +22,7 @@ MESH_BUDGET = 200_000
 
 def _quads(inside: np.ndarray) -> np.ndarray:
     """VTK cell array of the grid quads whose four corners are inside, shape (5 m,)."""
-    a, b = inside.shape
-    idx = np.arange(a * b).reshape(a, b)
-    keep = inside[:-1, :-1] & inside[1:, :-1] & inside[1:, 1:] & inside[:-1, 1:]
-    corners = np.stack([idx[:-1, :-1], idx[1:, :-1], idx[1:, 1:], idx[:-1, 1:]], axis=-1)[keep]
+    corners = grid_cells(inside)
     return np.hstack([np.full((corners.shape[0], 1), 4), corners]).ravel()
 
 
