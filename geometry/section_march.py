@@ -218,6 +218,19 @@ def march_face(face: Face, grid: MarchGrid, origin: np.ndarray, normal: np.ndarr
         # curve would depend on which way the normal points. Count zero as negative here;
         # a neighbour on the other side finds the same curve (sections.py drops the twin).
         d = -d
+    return march_field(face, grid, d)
+
+
+def march_field(face: Face, grid: MarchGrid, d: np.ndarray) -> Crossings | None:
+    """Crossing polylines of the zero level of a field sampled on a face's grid, or None.
+
+    Parameters
+    ----------
+    face : Face
+    grid : MarchGrid
+    d : ndarray of shape (a, b)
+        Field values at the grid nodes; zero counts as positive.
+    """
     segs = _cell_segments(d)
     if segs.size == 0:
         return None

@@ -28,6 +28,7 @@ from pathlib import Path
 import numpy as np
 
 from geometry.nurbs import NurbsSurface
+from geometry.primitives import bilinear
 
 from .construct import arc_profile, clamped_knots, extrude_profile, greville, split_surface
 from .export import SampleFace
@@ -495,4 +496,119 @@ def dial_plate() -> tuple[list[SampleFace], dict]:
     }
 
 
-ALL = (steamer_body, hood_visor, toaster_panel, heatgun_covers, breadbin_roll_top, console_lid, dial_plate)
+# -- 8. drip tray: tooling problems (a wall short of draft, a back-tapered wall) -------
+
+TRAY_LENGTH, TRAY_WIDTH, TRAY_DEPTH = 140.0, 90.0, 25.0
+# Draft of each wall against the pull +z, degrees: the front wall is short of the usual
+# 1 degree minimum, the back wall leans over the floor (back-tapered: an undercut).
+TRAY_DRAFT_DEG = {"front_wall": 0.3, "left_wall": 2.0, "right_wall": 2.0, "back_wall": -5.0}
+TRAY_PULL = [0.0, 0.0, 1.0]
+
+
+def _plane_normal(surface: NurbsSurface) -> np.ndarray:
+    ders = surface.derivatives_at(np.array([0.5]), np.array([0.5]), 1)
+    n = np.cross(ders[1, 0, 0], ders[0, 1, 0])
+    return n / np.linalg.norm(n)
+
+
+@_product
+def drip_tray() -> tuple[list[SampleFace], dict]:
+    """Tarnwick Brewline coffee machine drip tray: an open tray with two tooling problems.
+
+    Seen from its pocket (normals Su x Sv point into it, the side the mould's core
+    touches), pulled along +z. Every face is a plane (bilinear patch): the floor
+    z = 0 and four walls leaning out by their draft; a wall x = -z tan(a) leans
+    by a from the pull, so its draft is a (common practice: draft is the angle
+    between the wall and the pull). The front wall has 0.3 degrees, short of the
+    usual 1 degree minimum; the back wall leans in by 5 degrees over the floor:
+    it can only leave downwards, through the floor, so all of it is an undercut,
+    and so is the floor strip under its overhang (x 0..L, y W - t..W with
+    t = depth tan 5 degrees). Walls meet the floor and each other at sharp creases.
+    """
+    length, width, depth = TRAY_LENGTH, TRAY_WIDTH, TRAY_DEPTH
+    lean = {name: depth * np.tan(np.radians(a)) for name, a in TRAY_DRAFT_DEG.items()}
+    p00, p10 = np.array([0.0, 0.0, 0.0]), np.array([length, 0.0, 0.0])
+    p01, p11 = np.array([0.0, width, 0.0]), np.array([length, width, 0.0])
+    dx_l, dx_r, dy_f, dy_b = lean["left_wall"], lean["right_wall"], lean["front_wall"], lean["back_wall"]
+    t00 = np.array([-dx_l, -dy_f, depth])
+    t10 = np.array([length + dx_r, -dy_f, depth])
+    t01 = np.array([-dx_l, width + dy_b, depth])
+    t11 = np.array([length + dx_r, width + dy_b, depth])
+    # corners (u0v0, u0v1, u1v0, u1v1), chosen so that Su x Sv points into the tray and
+    # every shared edge runs the same way on both faces
+    floor = SampleFace("floor", bilinear(np.array([p00, p01, p10, p11])))
+    front = SampleFace("front_wall", bilinear(np.array([p00, p10, t00, t10])))  # u up, v along +x
+    back = SampleFace("back_wall", bilinear(np.array([p01, t01, p11, t11])))  # u along +x, v up
+    left = SampleFace("left_wall", bilinear(np.array([p00, t00, p01, t01])))  # u along +y, v up
+    right = SampleFace("right_wall", bilinear(np.array([p10, p11, t10, t11])))  # u up, v along +y
+    faces = [floor, front, right, back, left]
+
+    def crease(a, side_a, b, side_b):
+        angle = float(np.degrees(np.arccos(np.clip(_plane_normal(a.surface) @ _plane_normal(b.surface), -1, 1))))
+        return seam(
+            a, side_a, b, "G0", sides=[side_a, side_b], angle_deg=round(angle, 9), angle_exact=True, curvature_jump=None
+        )
+
+    seams = [
+        crease(floor, "v0", front, "u0"),
+        crease(floor, "u1", right, "u0"),
+        crease(floor, "v1", back, "v0"),
+        crease(floor, "u0", left, "v0"),
+        crease(front, "v0", left, "u0"),
+        crease(front, "v1", right, "v0"),
+        crease(left, "u1", back, "u0"),
+        crease(back, "u1", right, "v1"),
+    ]
+    slant = {name: depth / np.cos(np.radians(a)) for name, a in TRAY_DRAFT_DEG.items()}
+    # a wall is a trapezoid: its mean width times its slant height
+    wall_area = {
+        "front_wall": slant["front_wall"] * (length + 0.5 * (dx_l + dx_r)),
+        "back_wall": slant["back_wall"] * (length + 0.5 * (dx_l + dx_r)),
+        "left_wall": slant["left_wall"] * (width + 0.5 * (dy_f + dy_b)),
+        "right_wall": slant["right_wall"] * (width + 0.5 * (dy_f + dy_b)),
+    }
+    overhang = -dy_b
+    tooling = {
+        "pull": TRAY_PULL,
+        "draft_min_deg": 1.0,
+        "draft_deg": {"floor": 90.0, **TRAY_DRAFT_DEG},
+        "insufficient_draft": [{"face": "front_wall", "area_mm2": round(float(wall_area["front_wall"]), 6)}],
+        "undercuts": [
+            {
+                "face": "back_wall",
+                "area_mm2": round(float(wall_area["back_wall"]), 6),
+                "point": _mid_point(back.surface),
+                "why": "leans 5 degrees over the floor: leaves only downwards, through the floor",
+            },
+            {
+                "face": "floor",
+                "area_mm2": round(float(length * overhang), 6),
+                "box": [[0.0, round(width - overhang, 9)], [length, width]],
+                "why": "the strip under the back wall's overhang",
+            },
+        ]
+        + [
+            {
+                # below the overhang, y > W - t: a triangle of t x depth / 2 seen from the side, on a wall
+                # leaning by its draft a (area element 1 / cos a)
+                "face": side,
+                "area_mm2": round(float(0.5 * overhang * depth / np.cos(np.radians(TRAY_DRAFT_DEG[side]))), 6),
+                "why": "the corner under the back wall's overhang",
+            }
+            for side in ("right_wall", "left_wall")
+        ],
+        "concave_radius_mm": None,
+    }
+    return faces, {"seams": seams, "tooling": tooling}
+
+
+ALL = (
+    steamer_body,
+    hood_visor,
+    toaster_panel,
+    heatgun_covers,
+    breadbin_roll_top,
+    console_lid,
+    dial_plate,
+    drip_tray,
+)

@@ -20,7 +20,8 @@ def test_geometry_pulls_in_no_gui_or_app_module():
 def test_every_geometry_module_imports_headless():
     import pathlib
 
-    names = [p.stem for p in pathlib.Path("geometry").glob("*.py") if p.stem != "__init__"]
+    root = pathlib.Path("geometry")
+    names = [".".join(p.relative_to(root).with_suffix("").parts) for p in root.rglob("*.py") if p.stem != "__init__"]
     stmt = "; ".join(f"import geometry.{n}" for n in names)
     loaded = _modules_after_import(stmt)
     assert not loaded & set(FORBIDDEN)

@@ -1,0 +1,304 @@
+"""Draft angle of a face against a pull direction, on sampled grids.
+
+The draft angle at a surface point is the angle between the surface and the
+pull direction ``d``: ``draft = asin(n . d)`` with ``n`` the face's outward
+unit normal (DEVELOPERS.md: ``n = Su x Sv / |Su x Sv|``, negated on a reversed
+face). A wall parallel to ``d`` has draft 0; a face looking along ``+d`` has a
+positive draft and leaves the mould half that moves along ``+d``; a face looking
+along ``-d`` has a negative draft (common practice: the mould opens along
+``d``, each half releasing the faces that look its way).
+
+Only first derivatives are needed, so a draft map costs less than a curvature
+map of the same grid.
+"""
+
+from __future__ import annotations
+
+import os
+from concurrent.futures import ThreadPoolExecutor
+from dataclasses import dataclass, fields
+
+import numpy as np
+from threadpoolctl import ThreadpoolController
+
+from ..basis import basis_matrices
+from ..differential import DEGENERATE_SINE, LIMIT_NUDGE, area_floor
+from ..errors import BattenError
+from ..nurbs import NurbsSurface
+
+# Samples per block of rows: temporaries stay in cache.
+_CHUNK_POINTS = 1 << 15
+_BLAS = ThreadpoolController()
+
+# Classes of a sample (see :func:`draft_classes`).
+RELEASE_MINUS, INSUFFICIENT, RELEASE_PLUS = -1, 0, 1
+
+
+def unit_pull(pull) -> np.ndarray:
+    """The pull direction as a unit vector, shape (3,).
+
+    Raises
+    ------
+    BattenError
+        For a vector that is not three finite numbers or has zero length.
+    """
+    d = np.asarray(pull, dtype=float).ravel()
+    if d.shape != (3,) or not np.all(np.isfinite(d)):
+        raise BattenError(f"a pull direction needs three finite numbers, got {list(np.ravel(pull))}")
+    length = float(np.linalg.norm(d))
+    if length == 0.0:
+        raise BattenError("the pull direction has zero length")
+    return d / length
+
+
+def draft_angles(normals: np.ndarray, pull: np.ndarray) -> np.ndarray:
+    """Draft angles in degrees from unit normals.
+
+    Parameters
+    ----------
+    normals : ndarray of shape (..., 3)
+        Outward unit normals (face orientation applied).
+    pull : ndarray of shape (3,)
+        Unit pull direction.
+
+    Returns
+    -------
+    draft : ndarray of shape (...)
+        ``degrees(asin(n . d))`` in [-90, 90]; NaN where the normal is NaN.
+
+    Notes
+    -----
+    The angle between a plane and a line is the complement of the angle between
+    the plane's normal and the line: ``asin(n . d)`` (common practice), computed
+    as ``atan2(n . d, |n x d|)``, which keeps full precision near +-90 degrees
+    where asin loses half the digits.
+    """
+    sine = normals @ pull
+    cosine = np.linalg.norm(np.cross(normals, pull), axis=-1)
+    return np.degrees(np.arctan2(sine, cosine))
+
+
+def draft_classes(draft: np.ndarray, minimum: float) -> np.ndarray:
+    """Release class of every sample.
+
+    Parameters
+    ----------
+    draft : ndarray of shape (...)
+        Degrees.
+    minimum : float
+        Least draft the tool needs, degrees (the profile's ``draft_min_deg``).
+
+    Returns
+    -------
+    classes : ndarray of int8, shape (...)
+        RELEASE_PLUS (draft >= minimum: leaves with the half moving along +d),
+        RELEASE_MINUS (draft <= -minimum), INSUFFICIENT otherwise (and NaN).
+    """
+    out = np.zeros(np.shape(draft), dtype=np.int8)
+    with np.errstate(invalid="ignore"):
+        out[draft >= minimum] = RELEASE_PLUS
+        out[draft <= -minimum] = RELEASE_MINUS
+        if minimum <= 0.0:  # a zero limit: exact zero draft still counts as insufficient
+            out[draft == 0.0] = INSUFFICIENT
+    return out
+
+
+@dataclass(frozen=True, eq=False)
+class DraftField:
+    """Draft on the grid u x v of one face.
+
+    Attributes
+    ----------
+    points, normals : ndarray of shape (a, b, 3)
+        Surface points and outward unit normals (NaN where no limit exists).
+    draft : ndarray of shape (a, b)
+        Degrees, signed (see module notes).
+    area : ndarray of shape (a, b)
+        Surface area each sample stands for, mm^2: ``|Su x Sv|`` times the
+        trapezoid weights of the grid (zero at degenerate samples).
+    valid : ndarray of bool, shape (a, b)
+        False where the tangent plane is degenerate.
+    """
+
+    points: np.ndarray
+    normals: np.ndarray
+    draft: np.ndarray
+    area: np.ndarray
+    valid: np.ndarray
+
+    def __post_init__(self):
+        for f in fields(self):
+            getattr(self, f.name).setflags(write=False)
+
+
+def trapezoid_weights(t: np.ndarray) -> np.ndarray:
+    """Trapezoid-rule weights of increasing samples t, shape (n,) (half the neighbouring gaps)."""
+    t = np.asarray(t, float)
+    if t.size < 2:
+        return np.zeros(t.size)
+    gaps = np.diff(t)
+    w = np.zeros(t.size)
+    w[:-1] += 0.5 * gaps
+    w[1:] += 0.5 * gaps
+    return w
+
+
+def _normals_block(ders: np.ndarray, sign: float, floor: float):
+    """Normals (k, 3), |Su x Sv| (k,) and validity (k,) from grid derivatives (2, 2, k, 3)."""
+    su, sv = ders[1, 0], ders[0, 1]
+    cross = np.cross(su, sv)
+    norm = np.sqrt(np.einsum("ij,ij->i", cross, cross))
+    scale = np.sqrt(np.einsum("ij,ij->i", su, su) * np.einsum("ij,ij->i", sv, sv))
+    valid = (norm > DEGENERATE_SINE * scale) & (norm > floor)
+    normals = cross * (sign / np.where(valid, norm, 1.0))[:, None]
+    return normals, np.where(valid, norm, 0.0), valid
+
+
+def _limit_normals(surface: NurbsSurface, u: np.ndarray, v: np.ndarray, sign: float, floor: float) -> np.ndarray:
+    """Normals at degenerate samples as the limit from a parameter nudged inwards, shape (k, 3)."""
+    (u0, u1), (v0, v1) = surface.domain
+    un = u + np.where(u < 0.5 * (u0 + u1), 1.0, -1.0) * LIMIT_NUDGE * (u1 - u0)
+    vn = v + np.where(v < 0.5 * (v0 + v1), 1.0, -1.0) * LIMIT_NUDGE * (v1 - v0)
+    normals, _, ok = _normals_block(surface.derivatives_at(un, vn, 1), sign, floor)
+    normals[~ok] = np.nan
+    return normals
+
+
+def _grid_block(hom: np.ndarray, rational: bool, sign: float, floor: float, pull: np.ndarray, dest: dict) -> None:
+    """Points, normals, |Su x Sv|, validity and draft of one block from homogeneous derivatives.
+
+    ``hom`` has shape (2, 2, dim, k), components first; ``dest`` holds the
+    block's output arrays ((3, k) for vectors, (k,) for scalars).
+
+    Notes
+    -----
+    With S = A / w (The NURBS Book eq. 4.20), ``S_u = (A_u - w_u S) / w``, so
+    ``S_u x S_v = (A_u - w_u S) x (A_v - w_v S) / w^2``: the normal's direction
+    needs no division.
+    """
+    points = dest["points"]
+    if rational:
+        inv_w = 1.0 / hom[0, 0, 3]
+        np.multiply(hom[0, 0, :3], inv_w, out=points)
+        su = hom[1, 0, :3] - hom[1, 0, 3] * points
+        sv = hom[0, 1, :3] - hom[0, 1, 3] * points
+        scale = inv_w * inv_w
+    else:
+        points[...] = hom[0, 0, :3]
+        su, sv, scale = hom[1, 0, :3], hom[0, 1, :3], 1.0
+    normal = dest["normals"]
+    np.multiply(su[1], sv[2], out=normal[0])
+    normal[0] -= su[2] * sv[1]
+    np.multiply(su[2], sv[0], out=normal[1])
+    normal[1] -= su[0] * sv[2]
+    np.multiply(su[0], sv[1], out=normal[2])
+    normal[2] -= su[1] * sv[0]
+    norm = np.sqrt(normal[0] * normal[0] + normal[1] * normal[1] + normal[2] * normal[2])
+    lengths = np.sqrt((su[0] * su[0] + su[1] * su[1] + su[2] * su[2]) * (sv[0] * sv[0] + sv[1] * sv[1] + sv[2] * sv[2]))
+    valid = dest["valid"]
+    np.greater(norm, DEGENERATE_SINE * lengths, out=valid)
+    jacobian = np.multiply(norm, scale, out=dest["jacobian"])
+    valid &= jacobian > floor
+    inv = np.divide(sign, norm, out=norm, where=valid)
+    inv[~valid] = 0.0
+    normal *= inv
+    # draft = atan2(n . d, |n x d|) (see draft_angles)
+    sine = normal[0] * pull[0]
+    sine += normal[1] * pull[1]
+    sine += normal[2] * pull[2]
+    cx = normal[1] * pull[2] - normal[2] * pull[1]
+    cy = normal[2] * pull[0] - normal[0] * pull[2]
+    cz = normal[0] * pull[1] - normal[1] * pull[0]
+    cx *= cx
+    cx += cy * cy
+    cx += cz * cz
+    np.degrees(np.arctan2(sine, np.sqrt(cx, out=cx), out=sine), out=dest["draft"])
+    jacobian[~valid] = 0.0
+
+
+def draft_on_grid(
+    surface: NurbsSurface, u: np.ndarray, v: np.ndarray, pull, reversed: bool = False, workers: int | None = None
+) -> DraftField:
+    """Draft angle of a face on the tensor grid u x v.
+
+    Parameters
+    ----------
+    surface : NurbsSurface
+    u : ndarray of shape (a,)
+    v : ndarray of shape (b,)
+    pull : array_like of shape (3,)
+        Pull direction (any length but zero).
+    reversed : bool
+        The face uses the surface with its normal flipped.
+    workers : int, optional
+        Threads over row blocks; default: the number of cores.
+
+    Returns
+    -------
+    DraftField
+        Arrays of shape (a, b) or (a, b, 3).
+
+    Notes
+    -----
+    First derivatives from basis matrices contracted with the homogeneous net
+    (The NURBS Book, 2nd ed., eq. 3.17), the rational quotient (eq. 4.20) folded
+    into the normal (see :func:`_grid_block`); ``draft = asin(n . d)``.
+    """
+    d = unit_pull(pull)
+    u, v = surface.clip_to_domain(np.ravel(u), np.ravel(v))
+    a, b = u.size, v.size
+    sign = -1.0 if reversed else 1.0
+    floor = area_floor(surface)
+    nu, nv = surface.shape
+    bu = basis_matrices(surface.knots_u, surface.degree_u, nu, u, 1)
+    bv = basis_matrices(surface.knots_v, surface.degree_v, nv, v, 1)
+    rational = surface.is_rational
+    out = {k: np.empty((3, a * b)) for k in ("points", "normals")}
+    out.update({k: np.empty(a * b) for k in ("jacobian", "draft")})
+    out["valid"] = np.empty(a * b, dtype=bool)
+    rows = max(1, _CHUNK_POINTS // max(b, 1))
+
+    def work(i0):
+        i1 = min(i0 + rows, a)
+        n = (i1 - i0) * b
+        dest = {k: arr[..., i0 * b : i1 * b] for k, arr in out.items()}
+        hom = surface.homogeneous_from_basis(bu[:, i0:i1], bv, 1, dim=4 if rational else 3)
+        _grid_block(hom.reshape(2, 2, -1, n), rational, sign, floor, d, dest)
+
+    run_blocks(work, range(0, a, rows), workers)
+    points = np.moveaxis(out["points"], 0, -1).reshape(a, b, 3)
+    normals = np.moveaxis(out["normals"], 0, -1).reshape(a, b, 3)
+    draft = out["draft"].reshape(a, b)
+    valid = out["valid"].reshape(a, b)
+    if not valid.all():
+        bad = np.nonzero(~valid)
+        normals[bad] = _limit_normals(surface, u[bad[0]], v[bad[1]], sign, floor)
+        draft[bad] = draft_angles(normals[bad], d)
+    area = out["jacobian"].reshape(a, b) * trapezoid_weights(u)[:, None] * trapezoid_weights(v)[None, :]
+    return DraftField(points, normals, draft, area, valid)
+
+
+def run_blocks(work, starts, workers: int | None) -> None:
+    """Run ``work(start)`` for every block start, on threads (numpy releases the GIL in its kernels)."""
+    starts = list(starts)
+    workers = workers or os.cpu_count() or 1
+    # the matrix products are small; BLAS threads on top of ours only contend
+    with _BLAS.limit(limits=1, user_api="blas"):
+        if workers > 1 and len(starts) > 1:
+            with ThreadPoolExecutor(workers) as pool:
+                list(pool.map(work, starts))
+        else:
+            for start in starts:
+                work(start)
+
+
+def draft_at(surface: NurbsSurface, u: np.ndarray, v: np.ndarray, pull, reversed: bool = False) -> np.ndarray:
+    """Draft angles in degrees at scattered parameter pairs (u[i], v[i]), shape (k,)."""
+    d = unit_pull(pull)
+    u, v = surface.clip_to_domain(np.ravel(u), np.ravel(v))
+    sign = -1.0 if reversed else 1.0
+    floor = area_floor(surface)
+    normals, _, ok = _normals_block(surface.derivatives_at(u, v, 1), sign, floor)
+    if not ok.all():
+        normals[~ok] = _limit_normals(surface, u[~ok], v[~ok], sign, floor)
+    return draft_angles(normals, d)
