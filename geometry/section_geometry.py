@@ -15,21 +15,21 @@ A and its derivatives, and the space curve's derivatives from the chain rule:
 with (a, b) = x'. Everything is exact from the surface's first to third partial
 derivatives; nothing is fitted to samples.
 
-Signed curvature (one documented convention per kind of curve):
+Signed curvature: one convention for every curve, the colour map's. The sign
+is that of the normal curvature of the face along the curve: positive where
+the face bends towards its unit normal N (face orientation applied), as k1,
+k2 and H are (see DEVELOPERS.md). Reversing a curve keeps k and negates dk/ds.
 
-- ``PLANE``: the curve's own curvature in its plane, signed about the plane's
-  normal n: ``k = (C' x C'') . n / |C'|^3`` (the signed curvature of a plane
-  curve, do Carmo 1976, sec. 1-5, with the plane oriented by n). Its side
-  vector is the in-plane normal ``n x T``: k > 0 where the curve turns
-  towards it, i.e. anticlockwise seen from the side n points to. The comb
-  tooth ``k (n x T)`` flips side at an inflection. This equals Meusnier's
-  form ``k_n / cos(angle between surface normal and n x T)`` (do Carmo sec.
-  3-2), which the tests check. The form used here needs no surface normal; it
-  fails only where the plane touches the surface (grad f = 0), where the
-  section itself is singular.
+- ``PLANE``: the magnitude is the curve's own curvature in its plane,
+  ``|(C' x C'') . n| / |C'|^3`` (do Carmo 1976, sec. 1-5); the side vector is
+  the in-plane normal ``n x T`` turned towards N, and k takes the sign of
+  ``(n x T) . N`` times the in-plane signed curvature. So ``k * sides`` is the
+  curve's curvature vector and ``k * (sides . N)`` is the normal curvature
+  (Meusnier, do Carmo sec. 3-2), which the tests check. ``(n x T) . N``
+  vanishes only where the plane touches the surface, where the section itself
+  is singular.
 - ``ISO_U``, ``ISO_V``, ``PCURVE`` (iso-parameter, boundary and trim curves): the normal curvature
-  ``k_n = C'' . N / |C'|^2 = II(x', x') / I(x', x')`` with N the face's unit
-  normal (face orientation applied), the side vector is N. This is how the
+  ``k_n = C'' . N / |C'|^2 = II(x', x') / I(x', x')``, side vector N. This is how the
   surface bends along the curve, the quantity whose sign change is an
   inflection of the surface in that direction; the curve's full curvature
   magnitude is also returned (``abs_curvature``).
@@ -173,14 +173,19 @@ def curve_geometry(
     along = _dot(c1, c2) / (speed * speed)
     c1xc2 = _cross(c1, c2)
     abs_curvature = np.sqrt(_dot(c1xc2, c1xc2)) / speed**3
+    n_raw = _cross(ders[1, 0], ders[0, 1])
+    area = _safe(np.sqrt(_dot(n_raw, n_raw)), 1e-300)
+    unit = n_raw / area
     if kind == PLANE:
-        curvature = np.einsum("ik,i->k", c1xc2, normal) / speed**3
-        rate = np.einsum("ik,i->k", _cross(c1, c3), normal) / speed**3 - 3.0 * curvature * along
+        in_plane = np.einsum("ik,i->k", c1xc2, normal) / speed**3
+        in_plane_rate = np.einsum("ik,i->k", _cross(c1, c3), normal) / speed**3 - 3.0 * in_plane * along
         side = _cross(np.broadcast_to(normal[:, None], c1.shape), tangent)
+        # turn the in-plane side towards the face normal: the colour map's sign
+        towards = np.where(_dot(side, unit) * face_sign < 0, -1.0, 1.0)
+        side = side * towards
+        curvature = in_plane * towards
+        rate = in_plane_rate * towards
     else:
-        n_raw = _cross(ders[1, 0], ders[0, 1])
-        area = _safe(np.sqrt(_dot(n_raw, n_raw)), 1e-300)
-        unit = n_raw / area
         su_t = ders[2, 0] * x1[0] + ders[1, 1] * x1[1]
         sv_t = ders[1, 1] * x1[0] + ders[0, 2] * x1[1]
         n_t = _cross(su_t, ders[0, 1]) + _cross(ders[1, 0], sv_t)

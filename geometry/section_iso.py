@@ -87,7 +87,7 @@ class IsoCurves:
                 if curve["points"].shape[0] < 2 or np.ptp(curve["points"], axis=0).max() < 1e-9 * self.size:
                     continue  # a collapsed edge (a pole of the surface)
                 closed = bool(np.linalg.norm(curve["points"][0] - curve["points"][-1]) < CLOSE_FRACTION * self.size)
-                curve = along_samples(curve, field_kind)
+                curve = along_samples(curve)
                 curve["pieces"] = np.zeros(curve["points"].shape[0], int)
                 curves.append(
                     self._finish(kind or field_kind, field_kind, curve, closed, exact, parameter=float(value))
@@ -195,11 +195,11 @@ class IsoCurves:
             motion = tuple(np.ascontiguousarray(spline(tt, k).T) for k in (1, 2, 3))
             return self._geometry(PCURVE, faces, self.evaluator.clip(faces, spline(tt)), motion=motion)
 
-        curve = along_samples(geometry(at), PCURVE)
+        curve = along_samples(geometry(at))
         curve["pieces"] = np.zeros(at.size, int)
         curve["spans"] = np.zeros(at.size, int)
 
         def probe(ia, ib, frac):
-            return signed(geometry(at[ia] + frac * (at[ib] - at[ia])), PCURVE, curve["orient"][ia])
+            return signed(geometry(at[ia] + frac * (at[ib] - at[ia])), curve["orient"][ia])
 
         return self._finish("trim", PCURVE, curve, closed, exact, parameter=float(index), probe=probe)

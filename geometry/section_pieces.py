@@ -10,7 +10,6 @@ from __future__ import annotations
 
 import numpy as np
 
-from .section_geometry import PLANE
 from .section_march import FIXED_U, FIXED_V
 
 # Knot lines crossed at a smaller sine (in parameter units scaled by the ranges) get no pair.
@@ -43,31 +42,27 @@ def arc_lengths(points: np.ndarray, abs_curvature: np.ndarray) -> np.ndarray:
     return np.concatenate([[0.0], np.cumsum(chord * (1.0 + (k * chord) ** 2 / 24.0))])
 
 
-def signed(geom: dict, kind: str, factor: np.ndarray | float) -> dict:
+def signed(geom: dict, factor: np.ndarray | float) -> dict:
     """Values for the traversal direction ``factor`` (+1 or -1 per sample) times the field's.
 
-    Reversing a curve negates its tangent; for a plane curve it negates k and
-    the side vector and keeps dk/ds, for a surface curve it keeps k and
-    negates dk/ds (see :mod:`geometry.section_geometry`).
+    Reversing a curve negates its tangent and dk/ds; k and the side vector
+    keep their sign, which comes from the face normal (see
+    :mod:`geometry.section_geometry`).
     """
     out = dict(geom)
     col = np.asarray(factor, float)[..., None] if np.ndim(factor) else factor
     out["tangents"] = geom["tangents"] * col
     out["orient"] = geom.get("orient", 1.0) * np.asarray(factor, float)
-    if kind == PLANE:
-        out["curvature"] = geom["curvature"] * factor
-        out["sides"] = geom["sides"] * col
-    else:
-        out["slope"] = geom["slope"] * factor
+    out["slope"] = geom["slope"] * factor
     return out
 
 
-def flip(geom: dict, kind: str) -> dict:
+def flip(geom: dict) -> dict:
     """The same samples traversed backwards."""
-    return signed({k: v[::-1] for k, v in geom.items()}, kind, -1.0)
+    return signed({k: v[::-1] for k, v in geom.items()}, -1.0)
 
 
-def along_samples(geom: dict, kind: str) -> dict:
+def along_samples(geom: dict) -> dict:
     """Field-oriented values of one piece turned to run in the order of its samples (sets ``orient``).
 
     The field's direction is continuous along a regular piece, so one sign
@@ -79,7 +74,7 @@ def along_samples(geom: dict, kind: str) -> dict:
         return {**geom, "orient": np.ones(pts.shape[0])}
     step = np.diff(pts, axis=0)
     along = float(np.sum(np.einsum("ij,ij->i", geom["tangents"][:-1] + geom["tangents"][1:], step)))
-    return signed({**geom, "orient": np.ones(pts.shape[0])}, kind, -1.0 if along < 0 else 1.0)
+    return signed({**geom, "orient": np.ones(pts.shape[0])}, -1.0 if along < 0 else 1.0)
 
 
 def resample(uv: np.ndarray, xyz: np.ndarray, closed: bool, spacing: float, min_points: int) -> np.ndarray:

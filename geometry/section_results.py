@@ -154,11 +154,11 @@ class SectionCurve:
     arc_length : ndarray of shape (n,)
         s at each point, from 0 to the curve's length.
     curvature : ndarray of shape (n,)
-        Signed curvature, exact from the surface derivatives. Plane sections:
-        in-plane curvature, positive where the curve turns towards ``sides``
-        (anticlockwise seen from the side the plane normal points to). Others:
-        normal curvature of the face along the curve, positive where the face
-        bends towards its normal (see :mod:`geometry.section_geometry`).
+        Signed curvature, exact from the surface derivatives, signed like the
+        colour map: positive where the face bends towards its normal (face
+        orientation applied). Plane sections: the curve's in-plane curvature
+        with that sign; other curves: the normal curvature of the face along
+        the curve (see :mod:`geometry.section_geometry`).
     slope : ndarray of shape (n,)
         dk/ds, exact (from third derivatives).
     abs_curvature : ndarray of shape (n,)
@@ -166,8 +166,9 @@ class SectionCurve:
     tangents : ndarray of shape (n, 3)
         Unit tangents in the direction of increasing s.
     sides : ndarray of shape (n, 3)
-        Unit vectors the signed curvature refers to: a comb tooth is
-        ``curvature * sides``.
+        Unit vectors the signed curvature refers to, on the side of the face
+        normal: ``curvature * sides`` is the curvature vector (towards the
+        centre of curvature).
     faces : ndarray of int, shape (n,)
     uv : ndarray of shape (n, 2)
         Face and parameters of each point.

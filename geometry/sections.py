@@ -15,10 +15,11 @@ A plane section is found in four steps:
    (:mod:`geometry.section_geometry`);
 4. pieces are joined across faces into chains: end points closer than the
    join tolerance, on faces the model's edge topology says are neighbours
-   (any faces when the model has no edges). Chains are oriented so that the
-   sign of curvature is fixed by the plane: closed chains run anticlockwise
+   (any faces when the model has no edges). Chains run one agreed way, so
+   arc length starts at a predictable end: closed chains run anticlockwise
    seen from the side the normal points to, open ones run along the plane's
-   first in-plane axis (:func:`in_plane_axes`).
+   first in-plane axis (:func:`in_plane_axes`). The sign of curvature does
+   not depend on it: it is the face normal's, as on the colour map.
 
 Inflections and extrema are then found by root finding on the exact curve
 (:mod:`geometry.section_features`). :class:`SectionEngine` keeps the grids
@@ -325,7 +326,7 @@ class SectionEngine(IsoCurves):
         geom = fill_singular(geom, bounds)
         geom["spans"] = np.concatenate([spans_of(pairs[a:b]) for a, b in zip(bounds[:-1], bounds[1:], strict=True)])
         return [
-            _Piece(int(faces[a]), along_samples({k: v[a:b] for k, v in geom.items()}, PLANE), uv[a:b], cycle)
+            _Piece(int(faces[a]), along_samples({k: v[a:b] for k, v in geom.items()}), uv[a:b], cycle)
             for a, b, cycle in zip(bounds[:-1], bounds[1:], queue["cycles"], strict=True)
         ]
 
@@ -428,7 +429,7 @@ class SectionEngine(IsoCurves):
         return [p for p, d in zip(pieces, drop, strict=True) if not d]
 
     def _plane_curve(self, chain, origin, normal, exact: bool) -> SectionCurve:
-        parts = [(flip(p.geom, PLANE) if rev else p.geom, rev) for p, rev in chain[0]]
+        parts = [(flip(p.geom) if rev else p.geom, rev) for p, rev in chain[0]]
         closed = chain[1]
         curve = {k: np.concatenate([g[k] for g, _ in parts]) for k in parts[0][0]}
         curve["pieces"] = np.concatenate([np.full(g["points"].shape[0], i) for i, (g, _) in enumerate(parts)])
@@ -442,7 +443,7 @@ class SectionEngine(IsoCurves):
             chord = pts[-1] - pts[0]
             backwards = chord @ e1 < 0 if abs(chord @ e1) > 1e-9 * self.size else chord @ e2 < 0
         if backwards:
-            curve = flip(curve, PLANE)
+            curve = flip(curve)
             curve["pieces"] = curve["pieces"].max() - curve["pieces"]
             curve["spans"] = curve["spans"].max() - curve["spans"]
         return self._finish(PLANE, PLANE, curve, closed, exact, plane=(origin, normal))
@@ -464,7 +465,7 @@ class SectionEngine(IsoCurves):
             uv = curve["uv"][ia] + t[:, None] * (curve["uv"][ib] - curve["uv"][ia])
             if field_kind == PLANE:
                 uv = self._project(faces, uv, np.full(faces.size, FREE), plane[0], normal)
-            return signed(self._geometry(field_kind, faces, uv, plane), field_kind, curve["orient"][ia])
+            return signed(self._geometry(field_kind, faces, uv, plane), curve["orient"][ia])
 
         probe = probe or between
         inflections, extrema, figures = analyse_features(curve, probe if exact else None, closed, self.size)

@@ -68,7 +68,8 @@ def test_two_faces_meeting_on_the_plane_give_one_circle(meeting, side):
     assert curve.closed
     assert_allclose(curve.points[:, 2], 1.0, atol=1e-12)
     assert_allclose(curve.length, 2 * np.pi * RADIUS, rtol=LENGTH_RTOL)
-    assert_allclose(curve.curvature, 1.0 / RADIUS, rtol=CURVATURE_RTOL)
+    # the cylinder's normal points outwards: the circle bends away from it, k < 0
+    assert_allclose(curve.curvature, -1.0 / RADIUS, rtol=CURVATURE_RTOL)
     assert len(curve.inflections) == 0 and len(curve.extrema) == 0
     assert np.all(np.diff(curve.arc_length) > 0)  # no zero-length steps or pieces
 
@@ -86,7 +87,7 @@ def test_steamer_section_on_the_grip_head_seam_is_one_clean_loop(steamer, side):
     names = {steamer.model.faces[i].name.split("_", 1)[0] for i in np.unique(curve.faces)}
     assert len(names) == 1 and len(np.unique(curve.faces)) == 4  # one ring of four faces: no twin pieces
     assert len(curve.inflections) == 0
-    assert np.all(curve.curvature > 0)  # G2 seams, convex section: one sign all round
+    assert np.all(curve.curvature < 0)  # G2 seams, convex section, outward normals: bends away all round
     assert np.all(np.diff(curve.arc_length) > 0)
     for piece in np.unique(curve.pieces):
         assert np.ptp(curve.arc_length[curve.pieces == piece]) > steamer.spacing  # no zero-length pieces

@@ -9,6 +9,10 @@ Sources (named beside each check):
 - a plane at angle theta to the axis of a cylinder of radius R cuts an ellipse of
   semi-axes R / cos(theta) and R (common practice);
 - circle of radius R: k = 1/R; graph z(x): k = z'' / (1 + z'^2)^(3/2) (do Carmo sec. 1-5).
+
+Signs follow DEVELOPERS.md: positive where the surface bends towards its normal. The
+factory shapes have outward normals (cylinder, sphere, torus: sections bend away, k < 0,
+except the torus's inner equator) and the cubic sweep's normal points up (+z).
 """
 
 from __future__ import annotations
@@ -57,8 +61,8 @@ def test_ellipse_curvature_everywhere_matches_closed_form(ellipse_cut):
     x, y = curve.points @ major, curve.points[:, 1]
     t = np.arctan2(y / b, x / a)
     expected = a * b / (a * a * np.sin(t) ** 2 + b * b * np.cos(t) ** 2) ** 1.5
-    # closed chains run anticlockwise seen from the side the normal points to: k > 0
-    assert_allclose(curve.curvature, expected, rtol=CURVATURE_RTOL)
+    # the outward normal: the section bends away from it, k < 0 (as the colour map's H)
+    assert_allclose(curve.curvature, -expected, rtol=CURVATURE_RTOL)
 
 
 def test_ellipse_curvature_extremes_and_no_inflection(ellipse_cut):
@@ -68,8 +72,9 @@ def test_ellipse_curvature_extremes_and_no_inflection(ellipse_cut):
     assert len(curve.extrema) == 4
     maxima = curve.extrema.curvature[curve.extrema.is_maximum]
     minima = curve.extrema.curvature[~curve.extrema.is_maximum]
-    assert_allclose(maxima, a / b**2, rtol=CURVATURE_RTOL)
-    assert_allclose(minima, b / a**2, rtol=CURVATURE_RTOL)
+    # k < 0 (outward normal): the flattest points are the maxima of the signed curvature
+    assert_allclose(maxima, -b / a**2, rtol=CURVATURE_RTOL)
+    assert_allclose(minima, -a / b**2, rtol=CURVATURE_RTOL)
     assert curve.figures.monotone_pieces == 4
     assert_allclose(curve.figures.max_abs_curvature, a / b**2, rtol=CURVATURE_RTOL)
 
@@ -83,7 +88,7 @@ def test_ellipse_slope_matches_closed_form(ellipse_cut):
     q = a * a * np.sin(t) ** 2 + b * b * np.cos(t) ** 2
     expected = -3.0 * a * b * (a * a - b * b) * np.sin(t) * np.cos(t) / q**2.5 / np.sqrt(q)
     scale = a / b**2 / (a * b)
-    assert_allclose(curve.slope, expected, rtol=1e-7, atol=1e-10 * scale)
+    assert_allclose(curve.slope, -expected, rtol=1e-7, atol=1e-10 * scale)  # k < 0, see above
 
 
 def test_ellipse_perimeter_against_elliptic_integral(ellipse_cut):
@@ -97,7 +102,7 @@ def test_sphere_through_centre_is_a_great_circle():
     normal = np.array([0.3, 0.2, 1.0])
     curve = plane_section(model_of(sphere(radius)), [0, 0, 0], normal).curves[0]
     assert curve.closed
-    assert_allclose(curve.curvature, 1.0 / radius, rtol=CURVATURE_RTOL)
+    assert_allclose(curve.curvature, -1.0 / radius, rtol=CURVATURE_RTOL)  # outward normal: H = -1/R
     assert len(curve.inflections) == 0 and len(curve.extrema) == 0
     assert curve.figures.monotone_pieces == 1
     assert_allclose(curve.length, 2 * np.pi * radius, rtol=LENGTH_RTOL)
@@ -108,10 +113,11 @@ def test_torus_equator_gives_two_circles():
     major, minor = 5.0, 1.5
     section = plane_section(model_of(torus(major, minor)), [0, 0, 0], [0, 0, 1])
     assert len(section.curves) == 2  # longest first
-    for curve, radius in zip(section.curves, (major + minor, major - minor), strict=True):
+    # outer equator bends away from the outward normal, the inner one towards it (it faces the axis)
+    for curve, radius, sign in zip(section.curves, (major + minor, major - minor), (-1.0, 1.0), strict=True):
         assert curve.closed
         assert_allclose(np.hypot(curve.points[:, 0], curve.points[:, 1]), radius, rtol=ON_SURFACE_TOL)
-        assert_allclose(curve.curvature, 1.0 / radius, rtol=CURVATURE_RTOL)
+        assert_allclose(curve.curvature, sign / radius, rtol=CURVATURE_RTOL)
         assert_allclose(curve.length, 2 * np.pi * radius, rtol=LENGTH_RTOL)
         assert len(curve.inflections) == 0
 
@@ -134,12 +140,15 @@ def test_cubic_sweep_has_one_inflection_at_zero():
 
 
 def test_cubic_sweep_curvature_is_the_graph_formula():
-    # do Carmo sec. 1-5 for a graph; seen from +y (the plane normal) the chain runs
-    # along +x (in_plane_axes), so the signed curvature is -z'' / (1 + z'^2)^(3/2).
+    # do Carmo sec. 1-5 for a graph; the face normal points up (+z), so the surface bends
+    # towards it where z'' > 0: k = z'' / (1 + z'^2)^(3/2), whichever way the plane's normal points.
     curve = plane_section(model_of(cubic_sweep()), [0, 0.5, 0], [0, 1, 0]).curves[0]
+    turned = plane_section(model_of(cubic_sweep()), [0, 0.5, 0], [0, -1, 0]).curves[0]
     x = curve.points[:, 0]
     assert np.all(np.diff(x) >= 0)
-    expected = -6.0 * x / (1.0 + (3.0 * x * x - 1.0) ** 2) ** 1.5
+    expected = 6.0 * x / (1.0 + (3.0 * x * x - 1.0) ** 2) ** 1.5
+    order = np.argsort(turned.points[:, 0])
+    assert_allclose(np.interp(x, turned.points[order, 0], turned.curvature[order]), expected, atol=1e-6)
     assert_allclose(curve.curvature, expected, rtol=CURVATURE_RTOL, atol=1e-12)
 
 
@@ -154,7 +163,8 @@ def _quarter_cylinder(p0, corner, p2, height=1.0) -> NurbsSurface:
 
 
 def _s_curve_faces(radius=2.0):
-    # arc B (centre (0, -R)) bends clockwise into (0, 0), arc A (centre (0, R)) anticlockwise out of it
+    # arc B (centre (0, -R)) bends clockwise into (0, 0), arc A (centre (0, R)) anticlockwise out of it;
+    # Su x Sv points to +x at (-R, -R) (towards B's centre) and to -y at (0, 0) (away from A's)
     b = _quarter_cylinder((-radius, -radius), (-radius, 0), (0, 0))
     a = _quarter_cylinder((0, 0), (radius, 0), (radius, radius))
     return b, a
@@ -173,11 +183,11 @@ def test_s_curve_joins_across_the_seam_with_an_inflection_there(with_edges):
     assert len(section.curves) == 1
     curve = section.curves[0]
     assert not curve.closed and set(curve.faces.tolist()) == {0, 1}
-    # runs along +x (the first in-plane axis): clockwise on B, then anticlockwise on A
+    # runs along +x (the first in-plane axis); B bends towards its normal, A away from it
     assert curve.points[0, 0] < curve.points[-1, 0]
     on_b = curve.faces == 0
-    assert_allclose(curve.curvature[on_b], -1.0 / radius, rtol=CURVATURE_RTOL)
-    assert_allclose(curve.curvature[~on_b], 1.0 / radius, rtol=CURVATURE_RTOL)
+    assert_allclose(curve.curvature[on_b], 1.0 / radius, rtol=CURVATURE_RTOL)
+    assert_allclose(curve.curvature[~on_b], -1.0 / radius, rtol=CURVATURE_RTOL)
     assert len(curve.inflections) == 1 and bool(curve.inflections.at_seam[0])
     assert_allclose(curve.inflections.points[0], [0, 0, 0.5], atol=1e-12)
     assert len(curve.extrema) == 0
@@ -205,16 +215,20 @@ def test_cylinder_in_four_faces_joins_into_one_circle():
     assert len(section.curves) == 1
     curve = section.curves[0]
     assert curve.closed and len(set(curve.faces.tolist())) == 4
-    assert_allclose(curve.curvature, 1.0 / radius, rtol=CURVATURE_RTOL)
+    assert_allclose(curve.curvature, -1.0 / radius, rtol=CURVATURE_RTOL)  # Su x Sv points outwards
     assert_allclose(curve.length, 2 * np.pi * radius, rtol=LENGTH_RTOL)
     assert len(curve.inflections) == 0 and len(curve.extrema) == 0
 
 
-def test_reversed_face_does_not_change_a_plane_section():
-    # plane-section curvature is signed by the plane, not by the face normal
+def test_reversed_face_flips_a_plane_section_like_the_colour_map():
+    # section curvature is signed by the face normal (face orientation applied), not by the plane
     one = plane_section(Model((Face(sphere(2.0)),)), [0, 0, 0.5], [0, 0, 1]).curves[0]
     two = plane_section(Model((Face(sphere(2.0), reversed=True),)), [0, 0, 0.5], [0, 0, 1]).curves[0]
-    assert_allclose(one.curvature, two.curvature, rtol=1e-12)
+    down = plane_section(Model((Face(sphere(2.0)),)), [0, 0, 0.5], [0, 0, -1]).curves[0]
+    assert np.all(one.curvature < 0) and np.all(two.curvature > 0)  # outward normal: H < 0; reversed: H > 0
+    assert_allclose(one.curvature, -two.curvature, rtol=1e-12)
+    assert_allclose(one.sides, -two.sides, atol=1e-12)
+    assert_allclose(down.curvature, one.curvature[: down.curvature.size], rtol=1e-12)
 
 
 def test_family_of_parallel_planes_through_a_sphere():
@@ -224,7 +238,7 @@ def test_family_of_parallel_planes_through_a_sphere():
     for section, z in zip(family, (-2.0, -1.0, 0.0, 1.0, 2.0), strict=True):
         assert_allclose(section.origin, [0, 0, z])
         (curve,) = section.curves
-        assert_allclose(curve.curvature, 1.0 / np.sqrt(radius**2 - z**2), rtol=CURVATURE_RTOL)
+        assert_allclose(curve.curvature, -1.0 / np.sqrt(radius**2 - z**2), rtol=CURVATURE_RTOL)
 
 
 def test_plane_missing_the_model_gives_no_curves():
@@ -287,8 +301,8 @@ def test_sections_through_the_poles_of_a_sphere(normal, point):
     (curve,) = plane_section(model_of(sphere(radius)), point, normal).curves
     circle = np.sqrt(radius**2 - d**2)
     assert curve.closed
-    # at the pole itself the values are limits extrapolated from nudged samples
-    assert_allclose(curve.curvature, 1.0 / circle, rtol=POLE_RTOL)
+    # at the pole itself the values are limits extrapolated from nudged samples; outward normal: k < 0
+    assert_allclose(curve.curvature, -1.0 / circle, rtol=POLE_RTOL)
     assert_allclose(curve.length, 2 * np.pi * circle, rtol=LENGTH_RTOL)
     assert len(curve.inflections) == 0 and len(curve.extrema) == 0
 
@@ -304,7 +318,7 @@ def test_random_planes_cut_a_sphere_in_circles(seed):
     (curve,) = plane_section(model_of(sphere(radius)), d * normal, normal).curves
     circle = np.sqrt(radius**2 - d**2)
     assert curve.closed
-    assert_allclose(curve.curvature, 1.0 / circle, rtol=POLE_RTOL)
+    assert_allclose(curve.curvature, -1.0 / circle, rtol=POLE_RTOL)
     assert_allclose(curve.length, 2 * np.pi * circle, rtol=LENGTH_RTOL)
     assert len(curve.inflections) == 0 and len(curve.extrema) == 0
 

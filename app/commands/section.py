@@ -74,6 +74,7 @@ def write_atomically(path: str, text: str) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
+    from geometry.conventions import CURVATURE_SIGN
     from geometry.io import read_model
     from geometry.sections import SectionEngine
 
@@ -89,8 +90,7 @@ def run(args: argparse.Namespace) -> int:
     out = {
         "file": model.source or args.file,
         "units": {"length": "mm", "curvature": "1/mm"},
-        "sign_convention": "curvature > 0 where the curve turns anticlockwise seen from the side the plane "
-        "normal points to; closed curves run anticlockwise",
+        "sign_convention": CURVATURE_SIGN,
         "planes": [{"point": s.origin.tolist(), "normal": s.normal.tolist()} for s in family],
         "curves": curves,
     }

@@ -11,47 +11,43 @@ import argparse
 import json
 import sys
 
-# Samples over the whole model for the summary (fewer than the window uses).
-SUMMARY_BUDGET = 100_000
-# Below this |k| (1/mm, a radius of 1000 km) a face counts as flat.
-FLAT_CURVATURE = 1e-9
-
 
 def add_arguments(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("file", help="STEP, IGES or geomdl JSON model")
     parser.add_argument("--json", action="store_true", help="print JSON instead of a table")
     parser.add_argument(
-        "--samples", type=int, default=SUMMARY_BUDGET, metavar="N", help="total samples (default %(default)s)"
+        "--samples",
+        type=int,
+        default=None,
+        metavar="N",
+        help="total samples (default: as many as batten check and the window use)",
     )
 
 
-def face_rows(model, budget: int) -> list[dict]:
-    """Per-face description and curvature ranges (1/mm) over the samples inside the trim."""
-    import numpy as np
+def face_rows(model, budget: int | None = None) -> list[dict]:
+    """Per-face description and curvature ranges (1/mm) over the samples inside the trim.
 
-    from geometry.differential import curvature_on_grid
-    from geometry.sampling import model_grids
+    The ranges are :func:`app.review.faces.summarise_faces`', the same as ``batten check``'s.
+    """
+    from app.review.faces import SAMPLE_BUDGET, summarise_faces
 
     rows = []
-    for index, (face, grid) in enumerate(zip(model.faces, model_grids(model, budget), strict=True)):
-        field = curvature_on_grid(face.surface, grid.u, grid.v, reversed=face.reversed, workers=1)
-        keep = grid.inside & np.isfinite(field.k1) & np.isfinite(field.k2)
+    for face in summarise_faces(model, budget or SAMPLE_BUDGET):
+        ranges = face.curvature
         row = {
-            "face": index,
+            "face": face.id,
             "name": face.name,
             "body": face.body,
-            "degree": [face.surface.degree_u, face.surface.degree_v],
-            "poles": list(face.surface.shape),
-            "rational": face.surface.is_rational,
+            "degree": list(face.degrees),
+            "poles": list(face.poles),
+            "rational": face.rational,
             "reversed": face.reversed,
-            "loops": len(face.loops),
-            "samples": int(keep.sum()),
+            "loops": face.loops,
+            "samples": 0 if ranges is None else ranges.samples,
         }
         for key in ("k1", "k2", "gaussian", "mean"):
-            values = getattr(field, key)[keep]
-            row[key] = [float(values.min()), float(values.max())] if values.size else None
-        top = field.max_abs[keep]
-        row["min_radius_mm"] = float(1.0 / top.max()) if top.size and top.max() > FLAT_CURVATURE else None
+            row[key] = None if ranges is None else list(getattr(ranges, key))
+        row["min_radius_mm"] = None if ranges is None else ranges.min_radius
         rows.append(row)
     return rows
 
@@ -61,6 +57,8 @@ def _pair(values) -> str:
 
 
 def _table(model, rows) -> str:
+    from geometry.conventions import CURVATURE_SIGN
+
     lines = [
         f"file     {model.source}",
         f"sha256   {model.sha256}",
@@ -78,7 +76,7 @@ def _table(model, rows) -> str:
             f"{_pair(r['poles']):>7} {r['loops']:>4} "
             f"{k1[0]:>11.4g} {k1[1]:>11.4g} {k2[0]:>11.4g} {k2[1]:>11.4g} {radius:>10}"
         )
-    lines += ["", "Curvatures in 1/mm (normal follows face orientation); ranges over samples, a review aid."]
+    lines += ["", f"Curvatures in 1/mm; {CURVATURE_SIGN}. Ranges over samples, a review aid."]
     lines += [f"warning: {w}" for w in model.warnings]
     return "\n".join(lines)
 
@@ -87,7 +85,7 @@ def run(args: argparse.Namespace) -> int:
     from geometry.errors import BattenError
     from geometry.io import read_model
 
-    if args.samples < 1000:
+    if args.samples is not None and args.samples < 1000:
         raise BattenError("--samples must be at least 1000")
     model = read_model(args.file)
     rows = face_rows(model, args.samples)

@@ -7,6 +7,7 @@ from PySide6.QtCore import QPointF, QRectF, Qt
 from PySide6.QtGui import QColor, QPainter, QPen, QPolygonF
 from PySide6.QtWidgets import QSizePolicy, QWidget
 
+from geometry.conventions import CURVATURE_SIGN_SHORT
 from geometry.section_results import SectionCurve
 
 MARGIN_LEFT, MARGIN_RIGHT, MARGIN_TOP, MARGIN_BOTTOM = 78, 12, 22, 34
@@ -15,7 +16,10 @@ TICKS = 6  # about this many labelled distances along the curve
 
 
 class CurvatureGraph(QWidget):
-    """Signed curvature k(s) of one curve, with its zero line, inflections and extrema."""
+    """Signed curvature k(s) of one curve, with its zero line, inflections and extrema.
+
+    The sign is the colour map's (:mod:`geometry.conventions`), stated in the plot.
+    """
 
     def __init__(self, parent=None):
         super().__init__(parent)
@@ -95,6 +99,8 @@ class CurvatureGraph(QWidget):
             QPointF(rect.center().x() - 110, self.height() - 4), "distance along the curve from its start, mm"
         )
         painter.drawText(QPointF(rect.left(), 14), self.title)
+        painter.setPen(QColor("#555555"))
+        painter.drawText(QPointF(rect.left() + 6, rect.top() + 14), CURVATURE_SIGN_SHORT)
         self._key(painter, rect, len(self.curve.points))
 
     def _distance_ticks(self, painter, to_x, rect, length) -> None:

@@ -487,7 +487,8 @@ class MainWindow(QMainWindow):
         QApplication.setOverrideCursor(Qt.CursorShape.WaitCursor)
         try:
             review = review_model(self.session.model, self.session.review_settings)
-            write_report(path, [review], [render_figures(self.session.model, review)])
+            figures = render_figures(self.session.model, review, self.session.display.stripes, self.session.section)
+            write_report(path, [review], [figures])
         except (BattenError, OSError) as exc:
             QMessageBox.critical(self, "Cannot write the report", str(exc))
         else:

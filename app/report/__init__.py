@@ -15,11 +15,11 @@ def write_report(path, reviews, figures=None, created=None):
     return _write(path, reviews, figures, created)
 
 
-def render_figures(model, review):
+def render_figures(model, review, stripes=None, section=None):
     """See :func:`app.report.figures.render_figures`."""
     from .figures import render_figures as _render
 
-    return _render(model, review)
+    return _render(model, review, stripes, section)
 
 
 __all__ = ["render_figures", "write_report"]

@@ -13,6 +13,7 @@ from collections.abc import Callable, Sequence
 from html import escape
 
 from app.review.result import ERROR, FAIL, PASS, UNREADABLE, FileReview, overall_verdict
+from geometry.conventions import CURVATURE_SIGN
 
 from .figures import Figure
 from .tables import (
@@ -51,6 +52,10 @@ SEAMS_NOTE = (
     '<p style="font-size: 8pt;">Largest values along each seam: gap between the faces, angle between their '
     "normals, and jump of the cross-seam normal curvature, absolute and relative to the larger of the two. "
     "class: the continuity reached under the profile's tolerances (G2, G1, G0, or broken).</p>"
+)
+SIGN_NOTE = (
+    f'<p style="font-size: 8pt;">Sign of every curvature in this report (maps, sections, graphs, combs, '
+    f"tables): {CURVATURE_SIGN}, exactly as in the window's colour map.</p>"
 )
 FIGURES_NOTE = (
     '<p style="font-size: 8pt;">pieces: monotone pieces of the curvature plot (a fair curve has few; Farin, '
@@ -223,8 +228,8 @@ def file_part(review: FileReview, figures: Sequence[Figure], image_src: Callable
     parts += ["<h3>Free edges</h3>", _table(*free_edge_rows(review), "no free edges")]
     parts += ["<h3>Sections: fairness figures</h3>", _table(*figure_rows(review), "no sections"), FIGURES_NOTE]
     parts += ["<h3>Inflections</h3>", _table(*inflection_rows(review), "no inflections found")]
-    parts += ["<h3>Curvature extrema</h3>", _table(*extrema_rows(review), "no curvature extrema found")]
-    parts += ["<h3>Faces and curvature ranges</h3>", _table(*face_rows(review), "no faces")]
+    parts += ["<h3>Curvature extrema</h3>", _table(*extrema_rows(review), "no curvature extrema found"), SIGN_NOTE]
+    parts += ["<h3>Faces and curvature ranges</h3>", _table(*face_rows(review), "no faces"), SIGN_NOTE]
     if review.warnings:
         parts.append(
             "<h3>Notes from reading and checking</h3><ul>"

@@ -1,8 +1,11 @@
-"""The report's pictures, rendered off-screen with pyvista (EGL: no display needed).
+"""The report's pictures, drawn off-screen by the window's own scene (EGL: no display needed).
 
-Every picture is a PNG (bytes) with a caption; numbered markers on the model
-match the numbers of the findings table, so a reader can go from a row of the
-table to the place on the surface.
+The faces, the curvature map with its legend, the reflection lines, the seams
+and the section combs are drawn by :class:`app.render.scene.Scene` from a
+:class:`app.state.Session` holding the checked model, with the window's
+settings (the window passes its own when it exports a report): what the
+reviewer saw on screen is what the board reads. Numbered markers on the model
+match the numbers of the findings table.
 """
 
 from __future__ import annotations
@@ -12,35 +15,18 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from app.render import colours
+from app.render.scene import Scene
 from app.review.result import FAIL, FileReview
+from app.state import Mode, Session
+from app.state.loading import sample_model, typical_curvature
+from app.state.results import Loaded, SeamView
+from app.state.settings import SectionSettings, StripeSettings
+from geometry.conventions import CURVATURE_SIGN
 from geometry.model import Model
-from geometry.reflection import eye_rays, reflection_angle
-
-from .colours import DIVERGING_STOPS, STRIPE_DARK, STRIPE_LIGHT, ramp
 
 IMAGE_SIZE = (1000, 700)
-# Curvature map range: this percentile of |H| over all samples, so one sharp
-# corner does not wash out the rest of the map.
-RANGE_PERCENTILE = 98.0
-# Reflection stripes: degrees of reflected-ray rotation per light/dark pair.
-STRIPE_PERIOD_DEG = 8.0
-# Comb teeth: the longest tooth is this fraction of the model size.
-COMB_LENGTH = 0.1
-# The colour bar stands at the right edge, without a title (the caption names the quantity and unit);
-# the curvature views zoom in less to leave it room.
-SCALAR_BAR = {
-    "title": "",
-    "n_labels": 5,
-    "fmt": "%.2e",
-    "color": "black",
-    "vertical": True,
-    "position_x": 0.87,
-    "position_y": 0.12,
-    "width": 0.08,
-    "height": 0.76,
-    "label_font_size": 14,
-}
-ZOOM, ZOOM_WITH_BAR = 1.3, 1.05
+ZOOM = 1.2
 VIEWS = (("iso", "isometric view"), ("top", "view from +z"), ("front", "view from -y"))
 
 
@@ -49,19 +35,6 @@ class Figure:
     name: str
     caption: str
     png: bytes
-
-
-def _plotter():
-    import pyvista as pv
-    from vtkmodules.vtkCommonCore import vtkLogger
-
-    # VTK logs a harmless note to stderr when it falls back from X to EGL; keep the progress lines readable.
-    vtkLogger.SetStderrVerbosity(vtkLogger.VERBOSITY_OFF)
-
-    plotter = pv.Plotter(off_screen=True, window_size=IMAGE_SIZE)
-    plotter.set_background("white")
-    plotter.enable_anti_aliasing("ssaa")
-    return plotter
 
 
 def _set_view(plotter, view: str, zoom: float = ZOOM) -> None:
@@ -79,19 +52,9 @@ def _png(plotter) -> bytes:
     from PIL import Image
 
     image = plotter.screenshot(return_img=True)
-    plotter.close()
     buf = io.BytesIO()
     Image.fromarray(image).save(buf, format="PNG", optimize=True)
     return buf.getvalue()
-
-
-def _lookup(values: np.ndarray, limits: tuple[float, float]):
-    import pyvista as pv
-
-    table = pv.LookupTable()
-    table.values = (np.asarray(values) * 255).astype(np.uint8)
-    table.scalar_range = limits
-    return table
 
 
 def _markers(review: FileReview) -> tuple[np.ndarray, list[str]]:
@@ -110,152 +73,133 @@ def _add_markers(plotter, review: FileReview) -> None:
         plotter.add_point_labels(
             points,
             labels,
+            name="finding-numbers",
             font_size=20,
-            point_color="#d01010",
+            point_color=colours.VERDICT["fail"],
             point_size=14,
             text_color="black",
-            shape_color="#ffe680",
+            shape_color=colours.MARK,
             shape_opacity=0.9,
             render_points_as_spheres=True,
             always_visible=True,
         )
 
 
-def _finish(plotter, review: FileReview, name: str, caption: str, view: str = "iso", zoom: float = ZOOM) -> Figure:
-    """Mark the findings, frame the view and take the picture."""
-    _add_markers(plotter, review)
-    _set_view(plotter, view, zoom)
-    return Figure(name, caption, _png(plotter))
+def _seam_views(review: FileReview) -> tuple[SeamView, ...]:
+    """The check's seams and free edges as the window colours them."""
+    return tuple(
+        SeamView(np.asarray(line.points, float), "free" if line.kind == "free_edge" else line.verdict)
+        for line in review.lines
+    )
 
 
-def _add_dots(plotter, points: np.ndarray, colour: str, size: int) -> None:
-    """Points of shape (k, 3) as round dots (nothing when k = 0)."""
-    import pyvista as pv
+def report_session(
+    model: Model, review: FileReview, stripes: StripeSettings | None = None, section: SectionSettings | None = None
+) -> Session:
+    """The session the report's pictures are drawn from: the window's samples, settings and combs.
 
-    if points.size:
-        plotter.add_mesh(pv.PolyData(points), color=colour, point_size=size, render_points_as_spheres=True)
+    Parameters
+    ----------
+    model : Model
+    review : FileReview
+        Its seam lines and section curves are shown.
+    stripes, section : optional
+        The window's stripe and section settings (comb gain and density);
+        default: the window's defaults.
+    """
+    session = Session()
+    samples = sample_model(model)
+    loaded = Loaded(model, samples, seams=_seam_views(review), curvature_scale=typical_curvature(samples))
+    session.adopt(loaded, None)
+    if stripes is not None:
+        session.set_stripes(count=stripes.count, width=stripes.width, direction=stripes.direction)
+    if section is not None:
+        session.set_section(comb_gain=section.comb_gain, comb_density=section.comb_density)
+    return session
 
 
-def curvature_views(mesh, review: FileReview) -> list[Figure]:
-    """Mean curvature from each of :data:`VIEWS`, on a diverging map centred on zero."""
-    mean = np.asarray(mesh.point_data["mean"])
-    finite = np.abs(mean[np.isfinite(mean)])
-    top = float(np.percentile(finite, RANGE_PERCENTILE)) if finite.size else 0.0
-    top = top if top > 0 else 1e-6
-    table = _lookup(ramp(DIVERGING_STOPS, 256), (-top, top))
+class _Pictures:
+    """One off-screen plotter and scene, photographed in several modes and views."""
+
+    def __init__(self, session: Session, review: FileReview):
+        import pyvista as pv
+        from vtkmodules.vtkCommonCore import vtkLogger
+
+        # VTK logs a harmless note to stderr when it falls back from X to EGL; keep the progress lines readable.
+        vtkLogger.SetStderrVerbosity(vtkLogger.VERBOSITY_OFF)
+        self.session, self.review = session, review
+        self.plotter = pv.Plotter(off_screen=True, window_size=IMAGE_SIZE)
+        self.plotter.enable_anti_aliasing("ssaa")
+        self.scene = Scene(self.plotter, session)
+        self.scene.rebuild()
+        self.sections = session.sections, session.section_places
+        session.show_sections((), ())
+        self.scene.update_sections()
+        _add_markers(self.plotter, review)
+
+    def show(self, mode: Mode, view: str, sections: bool = False) -> None:
+        session = self.session
+        session.show_sections(*(self.sections if sections else ((), ())))
+        self.scene.update_sections()
+        _set_view(self.plotter, view)
+        session.set_camera(self.scene.camera())
+        session.set_display(mode=mode)
+        self.scene.update_surface()
+
+    def take(self, name: str, caption: str) -> Figure:
+        return Figure(name, caption, _png(self.plotter))
+
+    def close(self) -> None:
+        self.plotter.close()
+
+
+def findings_view(pictures: _Pictures) -> Figure:
+    """Where the findings are: shaded model, seams by verdict, numbered markers."""
+    pictures.show(Mode.SHADED, "iso")
+    caption = (
+        "Seams within tolerance (green), seams over tolerance (red), free edges (amber), in the window's colours; "
+        "numbers match the findings table."
+    )
+    return pictures.take("findings", caption)
+
+
+def curvature_views(pictures: _Pictures) -> list[Figure]:
+    """Mean curvature from each of :data:`VIEWS`, with the window's map, range and legend."""
     figures = []
     for view, words in VIEWS:
-        plotter = _plotter()
-        plotter.add_mesh(
-            mesh,
-            scalars="mean",
-            cmap=table,
-            clim=(-top, top),
-            interpolate_before_map=True,
-            smooth_shading=True,
-            nan_color="#808080",
-            show_scalar_bar=False,
-        )
-        plotter.add_scalar_bar(**SCALAR_BAR)
+        pictures.show(Mode.CURVATURE, view)
+        low, high = pictures.session.colour_limits()
         caption = (
-            f"Mean curvature H (1/mm), {words}. Colour range +-{top:.3g} 1/mm ({RANGE_PERCENTILE:g}th percentile of "
-            "|H|; larger values show in the end colours). Numbered markers: findings over tolerance."
+            f"Mean curvature H (1/mm), {words}, as the window shows it: colour range {low:.3g} to {high:.3g} 1/mm "
+            f"(larger values show in the end colours); {CURVATURE_SIGN}. Numbered markers: findings over tolerance."
         )
-        figures.append(_finish(plotter, review, f"curvature-{view}", caption, view, ZOOM_WITH_BAR))
+        figures.append(pictures.take(f"curvature-{view}", caption))
     return figures
 
 
-def stripe_view(mesh, review: FileReview) -> Figure:
-    """Reflection lines of horizontal light lines seen from the isometric view."""
-    plotter = _plotter()
-    _set_view(plotter, "iso")
-    camera = plotter.camera
-    view_direction = np.subtract(camera.focal_point, camera.position)
-    rays = eye_rays(np.asarray(mesh.points), None, view_direction)
-    angle = reflection_angle(
-        np.asarray(mesh.point_data["normals"]), rays, np.array([1.0, 0.0, 0.0]), np.array([0.0, 0.0, 1.0])
-    )
-    stripes = angle / STRIPE_PERIOD_DEG
-    lo, hi = np.nanmin(stripes), np.nanmax(stripes)
-    lo, hi = np.floor(lo), np.ceil(hi) + (1 if np.ceil(hi) == np.floor(lo) else 0)
-    bands = int(2 * (hi - lo))
-    values = np.where((np.arange(bands) % 2 == 0)[:, None], STRIPE_LIGHT, STRIPE_DARK)
-    shaded = mesh.copy()
-    shaded.point_data["stripes"] = stripes
-    plotter.add_mesh(
-        shaded,
-        scalars="stripes",
-        cmap=_lookup(values, (lo, hi)),
-        clim=(lo, hi),
-        interpolate_before_map=True,
-        show_scalar_bar=False,
-        nan_color="#808080",
-        lighting=False,
-    )
+def stripe_view(pictures: _Pictures) -> Figure:
+    """Reflection lines seen from the isometric view, with the window's stripe settings."""
+    pictures.show(Mode.REFLECTION, "iso")
+    stripes = pictures.session.display.stripes
     caption = (
-        f"Reflection lines: parallel light lines along x, {STRIPE_PERIOD_DEG:g} degrees per stripe pair, "
-        "isometric view. Lines should run smooth and unbroken across seams; a break or kink shows a "
-        "tangent or curvature defect."
+        f"Reflection lines as the window draws them: light lines along {stripes.direction}, {stripes.count} per "
+        f"180 degrees of reflected-ray angle, light share {stripes.width:g}; isometric view. Lines should run "
+        "smooth and unbroken across seams; a break or kink shows a tangent or curvature defect."
     )
-    return _finish(plotter, review, "stripes", caption)
+    return pictures.take("stripes", caption)
 
 
-def comb_view(mesh, review: FileReview, model: Model) -> Figure | None:
-    """Curvature combs of every section curve on the grey model, inflections marked."""
-    import pyvista as pv
-
-    curves = [c for c in review.section_curves if c.points.shape[0] > 1]
-    if not curves:
+def comb_view(pictures: _Pictures) -> Figure | None:
+    """Curvature combs of every section curve, as the window draws them."""
+    if not pictures.sections[0]:
         return None
-    peak = max(float(np.nanmax(np.abs(c.curvature))) for c in curves)
-    scale = COMB_LENGTH * model.size / peak if peak > 0 else 0.0
-    plotter = _plotter()
-    plotter.add_mesh(mesh, color="#c8ccd0", smooth_shading=True, opacity=0.55)
-    for c in curves:
-        tips = c.points + (scale * c.curvature)[:, None] * c.side
-        plotter.add_mesh(pv.lines_from_points(c.points), color="#202020", line_width=2)
-        plotter.add_mesh(pv.lines_from_points(tips), color="#0b4fa8", line_width=3)
-        step = max(1, c.points.shape[0] // 80)
-        teeth = np.stack([c.points[::step], tips[::step]], axis=1).reshape(-1, 3)
-        plotter.add_mesh(pv.line_segments_from_points(teeth), color="#3d7fd6", line_width=1)
-        _add_dots(plotter, c.inflections, "#d01010", 14)
+    pictures.show(Mode.SHADED, "iso", sections=True)
     caption = (
-        "Curvature combs of the section family (teeth normal to each section curve, length proportional to "
-        "curvature; blue line: the comb's envelope). Red dots: inflections, where the comb changes side."
+        "Curvature combs of the check's sections, drawn as in the window: teeth on the convex side (away from the "
+        "centre of curvature), length proportional to |k|, with their envelope; pink dots: inflections, where the "
+        "comb changes side; blue dots: curvature extrema."
     )
-    return _finish(plotter, review, "combs", caption)
-
-
-def findings_view(mesh, review: FileReview, model: Model) -> Figure:
-    """Where the findings are: grey model, seams over tolerance in red, numbered markers."""
-    import pyvista as pv
-
-    plotter = _plotter()
-    plotter.add_mesh(
-        mesh,
-        scalars="face",
-        cmap=_lookup(
-            ramp(((0.0, (0.80, 0.83, 0.86)), (1.0, (0.62, 0.68, 0.74))), 64), (0, max(len(model.faces) - 1, 1))
-        ),
-        show_scalar_bar=False,
-        smooth_shading=True,
-    )
-    for line in review.lines:
-        if line.points.shape[0] < 2:
-            continue
-        bad = line.verdict == FAIL
-        colour = "#e08000" if line.kind == "free_edge" else "#d01010" if bad else "#208040"
-        plotter.add_mesh(
-            pv.lines_from_points(line.points), color=colour, line_width=7 if bad else 4, render_lines_as_tubes=True
-        )
-    _add_dots(
-        plotter, np.concatenate([np.zeros((0, 3)), *(c.inflections for c in review.section_curves)]), "#b000b0", 11
-    )
-    caption = (
-        "Faces (grey shades), seams within tolerance (green), seams over tolerance (red), free edges "
-        "(orange), inflections of the sections (purple dots); numbers match the findings table."
-    )
-    return _finish(plotter, review, "findings", caption)
+    return pictures.take("combs", caption)
 
 
 def _png_of(fig) -> bytes:
@@ -272,7 +216,11 @@ def _png_of(fig) -> bytes:
 def family_plot(review: FileReview, family: str, number: int) -> Figure | None:
     """Signed curvature against arc length for every curve of one section family (matplotlib, no display)."""
     members = {i for i, s in enumerate(review.sections) if s.get("family") == family}
-    curves = [c for c in review.section_curves if c.section in members and c.points.shape[0] > 1]
+    curves = [
+        (c, review.sections[plane].get("label", str(plane + 1)))
+        for c, (plane, _) in zip(review.section_curves, review.section_places, strict=True)
+        if plane in members and c.points.shape[0] > 1
+    ]
     if not curves:
         return None
     import matplotlib
@@ -285,44 +233,55 @@ def family_plot(review: FileReview, family: str, number: int) -> Figure | None:
     FigureCanvasAgg(fig)
     ax = fig.add_subplot()
     labelled = set()
-    for c in curves:
-        label = c.label if c.label not in labelled else None
-        labelled.add(c.label)
-        (line,) = ax.plot(c.arc_length, c.curvature, lw=1.3, label=label)
-        if c.inflections.size:
-            at = np.argmin(np.linalg.norm(c.points[None] - c.inflections[:, None], axis=2), axis=1)
-            ax.plot(c.arc_length[at], np.zeros(at.size), "o", color="#d01010", ms=5, zorder=5)
+    for c, label in curves:
+        ax.plot(c.arc_length, c.curvature, lw=1.3, label=label if label not in labelled else None)
+        labelled.add(label)
+        marks = c.inflections.arc_length
+        ax.plot(marks, np.zeros(marks.size), "o", color=colours.INFLECTION, ms=5, zorder=5)
     ax.axhline(0.0, color="0.4", lw=0.8)
     ax.set_xlabel("arc length s along the section (mm)")
-    ax.set_ylabel("signed curvature (1/mm)")
+    ax.set_ylabel("curvature k (1/mm)")
     ax.ticklabel_format(axis="y", style="sci", scilimits=(-2, 2))
     ax.grid(True, lw=0.3)
     ax.legend(fontsize=7, loc="upper left", bbox_to_anchor=(1.01, 1.0), borderaxespad=0.0)
     fig.tight_layout()
     caption = (
-        f"Section family '{family}': signed curvature along each curve (one colour per plane); red dots: "
-        "inflections. A fair curve shows few monotone pieces and no sign change it was not designed with."
+        f"Section family '{family}': curvature along each curve (one colour per plane), {CURVATURE_SIGN}; pink "
+        "dots: inflections. A fair curve shows few monotone pieces and no sign change it was not designed with."
     )
     return Figure(f"family-{number}", caption, _png_of(fig))
 
 
-def render_figures(model: Model, review: FileReview) -> tuple[Figure, ...]:
+def render_figures(
+    model: Model, review: FileReview, stripes: StripeSettings | None = None, section: SectionSettings | None = None
+) -> tuple[Figure, ...]:
     """Every picture of one file's report, in reading order.
+
+    Parameters
+    ----------
+    model : Model
+    review : FileReview
+    stripes, section : optional
+        The window's stripe and section settings (see :func:`report_session`).
 
     Returns
     -------
     tuple of Figure
         Empty when the model has no faces to show.
     """
-    from .scene import model_mesh
-
     if not model.faces:
         return ()
-    mesh = model_mesh(model)
-    if mesh.n_cells == 0:
+    session = report_session(model, review, stripes, section)
+    session.show_sections(review.section_curves, review.section_places)
+    pictures = _Pictures(session, review)
+    if pictures.scene.faces is None or pictures.scene.faces.mesh.n_cells == 0:
+        pictures.close()
         return ()
-    figures = [findings_view(mesh, review, model), *curvature_views(mesh, review), stripe_view(mesh, review)]
-    comb = comb_view(mesh, review, model)
+    try:
+        figures = [findings_view(pictures), *curvature_views(pictures), stripe_view(pictures)]
+        comb = comb_view(pictures)
+    finally:
+        pictures.close()
     if comb is not None:
         figures.append(comb)
     families = list(dict.fromkeys(s.get("family", "") for s in review.sections))

@@ -12,8 +12,9 @@ from dataclasses import dataclass
 import numpy as np
 
 from geometry import curvature_on_grid
-from geometry.model import Face, Model
-from geometry.sampling import model_grids
+from geometry.differential import CurvatureField
+from geometry.model import Model
+from geometry.sampling import FaceGrid, model_grids
 
 # Samples over the whole model for the curvature ranges (the sampler spreads them by size and bending).
 SAMPLE_BUDGET = 300_000
@@ -26,7 +27,8 @@ class CurvatureRange:
     """Extreme values of the curvature quantities over the samples of one face.
 
     All in 1/mm (``gaussian`` in 1/mm^2); ``min_radius`` in mm, ``None`` when
-    the face is flat everywhere.
+    the face is flat everywhere; ``tightest`` is the (i, j) grid sample where
+    ``max_abs`` is reached (not in the JSON).
     """
 
     k1: tuple[float, float]
@@ -36,6 +38,7 @@ class CurvatureRange:
     max_abs: float
     min_radius: float | None
     samples: int
+    tightest: tuple[int, int] = (0, 0)
 
     def to_dict(self) -> dict:
         return {
@@ -62,6 +65,7 @@ class FaceSummary:
     trimmed: bool
     reversed: bool
     curvature: CurvatureRange | None
+    loops: int = 0
 
     def to_dict(self) -> dict:
         return {
@@ -77,32 +81,43 @@ class FaceSummary:
         }
 
 
-def face_grids(model: Model, budget: int = SAMPLE_BUDGET) -> list[tuple[np.ndarray, np.ndarray, np.ndarray]]:
-    """Sample parameters of every face and which of them lie inside its trim.
+def face_fields(model: Model, budget: int = SAMPLE_BUDGET) -> list[tuple[FaceGrid, CurvatureField]]:
+    """Every face's trim-aware sample grid and its exact curvature field on it.
 
-    The trim-aware sampler :func:`geometry.sampling.model_grids` shares ``budget``
-    samples out over the faces.
+    The window samples its faces with the same call (:func:`app.state.loading.sample_model`),
+    so a face's ranges are the same wherever they are read.
+
+    Parameters
+    ----------
+    model : Model
+    budget : int
+        Samples :func:`geometry.sampling.model_grids` shares out over the faces.
 
     Returns
     -------
-    list of (u, v, inside)
-        Per face: ``u`` of shape (a,), ``v`` of shape (b,), ``inside`` bool of shape (a, b).
+    list of (FaceGrid, CurvatureField)
+        Per face; field arrays of shape (a, b) or (a, b, 3).
     """
-    return [(g.u, g.v, g.inside) for g in model_grids(model, budget)]
+    return [
+        (grid, curvature_on_grid(face.surface, grid.u, grid.v, reversed=face.reversed, workers=1))
+        for face, grid in zip(model.faces, model_grids(model, budget), strict=True)
+    ]
 
 
 def _span(values: np.ndarray) -> tuple[float, float]:
     return float(values.min()), float(values.max())
 
 
-def curvature_range(face: Face, u: np.ndarray, v: np.ndarray, inside: np.ndarray) -> CurvatureRange | None:
-    """Curvature extremes of a face over its inside samples.
+def curvature_range(field: CurvatureField, inside: np.ndarray) -> CurvatureRange | None:
+    """Curvature extremes of a face over its samples inside the trim with a regular tangent plane.
+
+    The one face-range function: ``batten summary``, ``batten check``, the
+    window's tightest-spot notes and the report all read it.
 
     Parameters
     ----------
-    face : Face
-    u : ndarray of shape (a,)
-    v : ndarray of shape (b,)
+    field : CurvatureField
+        Arrays of shape (a, b).
     inside : ndarray of bool, shape (a, b)
 
     Returns
@@ -110,11 +125,12 @@ def curvature_range(face: Face, u: np.ndarray, v: np.ndarray, inside: np.ndarray
     CurvatureRange or None
         ``None`` when no inside sample has a regular tangent plane.
     """
-    field = curvature_on_grid(face.surface, u, v, reversed=face.reversed, workers=1)
     keep = inside & field.valid & np.isfinite(field.k1) & np.isfinite(field.k2)
     if not keep.any():
         return None
-    max_abs = float(field.max_abs[keep].max())
+    size = np.where(keep, field.max_abs, -np.inf)
+    tightest = np.unravel_index(int(np.argmax(size)), size.shape)
+    max_abs = float(size[tightest])
     return CurvatureRange(
         k1=_span(field.k1[keep]),
         k2=_span(field.k2[keep]),
@@ -123,13 +139,14 @@ def curvature_range(face: Face, u: np.ndarray, v: np.ndarray, inside: np.ndarray
         max_abs=max_abs,
         min_radius=None if max_abs < FLAT_CURVATURE else 1.0 / max_abs,
         samples=int(keep.sum()),
+        tightest=(int(tightest[0]), int(tightest[1])),
     )
 
 
-def summarise_faces(model: Model) -> tuple[FaceSummary, ...]:
+def summarise_faces(model: Model, budget: int = SAMPLE_BUDGET) -> tuple[FaceSummary, ...]:
     """Description and curvature range of every face, in the model's order."""
     out = []
-    for index, (face, (u, v, inside)) in enumerate(zip(model.faces, face_grids(model), strict=True)):
+    for index, (face, (grid, field)) in enumerate(zip(model.faces, face_fields(model, budget), strict=True)):
         s = face.surface
         out.append(
             FaceSummary(
@@ -141,7 +158,8 @@ def summarise_faces(model: Model) -> tuple[FaceSummary, ...]:
                 rational=s.is_rational,
                 trimmed=face.is_trimmed,
                 reversed=face.reversed,
-                curvature=curvature_range(face, u, v, inside),
+                curvature=curvature_range(field, grid.inside),
+                loops=len(face.loops),
             )
         )
     return tuple(out)

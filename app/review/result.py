@@ -70,9 +70,10 @@ class FileReview:
     """Everything a check measured in one file.
 
     ``seams``, ``free_edges`` and ``sections`` hold the plain-dict forms that
-    the seam and section analyses give; ``section_curves`` keeps the sampled
-    section curves (points, signed curvature) for the figures and is left out
-    of the JSON.
+    the seam and section analyses give; ``section_curves`` keeps the exact
+    section curves (:class:`geometry.section_results.SectionCurve`) and
+    ``section_places`` their (plane, curve) indices, for the figures; both are
+    left out of the JSON.
     """
 
     source: str
@@ -91,6 +92,7 @@ class FileReview:
     warnings: tuple[str, ...] = ()
     model_size: float = 0.0
     section_curves: tuple = ()
+    section_places: tuple[tuple[int, int], ...] = ()
     lines: tuple = ()
 
     @property

@@ -75,10 +75,10 @@ def review_model(model: Model, settings: ReviewSettings = ReviewSettings(), prog
     progress(f"{name}: seams and free edges")
     seams, free_edges, lines = seams_and_free_edges(model, profile)
     planes = planes_for(items, model.bounds)
-    sections, curves = (), ()
+    sections, curves, places = (), (), ()
     if planes:
         progress(f"{name}: cutting {len(planes)} section plane(s)")
-        sections, curves = cut_sections(model, planes)
+        sections, curves, places = cut_sections(model, planes)
     found = findings.collect(seams, free_edges, sections, profile)
     return FileReview(
         source=model.source,
@@ -96,6 +96,7 @@ def review_model(model: Model, settings: ReviewSettings = ReviewSettings(), prog
         warnings=model.warnings,
         model_size=model.size,
         section_curves=curves,
+        section_places=places,
         lines=lines,
     )
 

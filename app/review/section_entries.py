@@ -1,12 +1,10 @@
-"""Plane sections of a model as the check's plain dicts, and their sampled curves for the pictures."""
+"""Plane sections of a model as the check's plain dicts, and their exact curves for the pictures."""
 
 from __future__ import annotations
 
 import numpy as np
 
 from geometry.model import Model
-
-from .curves import SectionCurve
 
 # Per-point arrays of a section curve: kept for the pictures, left out of the JSON.
 _CURVE_ARRAYS = ("points", "arc_length", "curvature")
@@ -30,31 +28,24 @@ def cut_sections(model: Model, planes):
     sections : tuple of dict
         One per plane: ``label``, ``family``, ``plane`` and ``curves`` (each
         curve's ``to_json()`` without its per-point arrays).
-    curves : tuple of SectionCurve
-        Sampled curves for the pictures.
+    curves : tuple of geometry.section_results.SectionCurve
+        The exact curves, for the pictures (the window draws the same type).
+    places : tuple of (plane, curve) pairs
+        Index of each curve's plane in ``sections`` and of the curve among
+        that plane's curves (both from 0), as the window numbers them.
     """
     # Imported here: scipy.spatial behind it costs ~0.3 s, and app.review is imported for `batten --help`.
     from geometry.sections import SectionEngine
 
     engine = SectionEngine(model)
-    entries, sampled = [], []
+    entries, sampled, places = [], [], []
     for index, plane in enumerate(planes):
         cut = engine.plane(np.asarray(plane.point), np.asarray(plane.normal))
         curves = []
-        for curve in cut.curves:
+        for number, curve in enumerate(cut.curves):
             curves.append(curve_entry(curve))
-            sampled.append(
-                SectionCurve(
-                    section=index,
-                    label=plane.label,
-                    points=curve.points,
-                    curvature=curve.curvature,
-                    arc_length=curve.arc_length,
-                    side=curve.sides,
-                    inflections=curve.inflections.points,
-                    extrema=curve.extrema.points,
-                )
-            )
+            sampled.append(curve)
+            places.append((index, number))
         entries.append(
             {
                 "label": plane.label,
@@ -63,4 +54,4 @@ def cut_sections(model: Model, planes):
                 "curves": curves,
             }
         )
-    return tuple(entries), tuple(sampled)
+    return tuple(entries), tuple(sampled), tuple(places)

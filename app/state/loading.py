@@ -12,6 +12,7 @@ from dataclasses import replace
 
 import numpy as np
 
+from app.review.faces import SAMPLE_BUDGET as FACE_SAMPLES
 from app.review.profile import ProfileInForce, load_profile
 from geometry.differential import curvature_on_grid
 from geometry.errors import BattenError, ReadError
@@ -23,8 +24,9 @@ from geometry.sections import SectionEngine
 from .results import FaceSamples, Loaded
 from .review_findings import review_seams
 
-# Total samples the display grids of a model get (geometry.sampling shares them out).
-SAMPLE_BUDGET = 300_000
+# Total samples the display grids of a model get (geometry.sampling shares them out): the
+# check's own, so the window's face ranges and the check's are computed on the same samples.
+SAMPLE_BUDGET = FACE_SAMPLES
 
 Progress = Callable[[float, str], None]
 
@@ -45,6 +47,26 @@ def typical_curvature(samples: tuple[FaceSamples, ...]) -> float:
     values = np.concatenate([s.field.max_abs[s.inside] for s in samples]) if samples else np.zeros(0)
     values = values[np.isfinite(values)]
     return float(np.percentile(values, 90)) if values.size else 0.0
+
+
+def sample_model(model: Model, progress: Progress = _no_progress) -> tuple[FaceSamples, ...]:
+    """Every face's curvature field on its display grid (the window's and the report's samples).
+
+    Raises
+    ------
+    ReadError
+        A face that cannot be evaluated, named.
+    """
+    progress(0.3, "choosing samples")
+    grids = model_grids(model, SAMPLE_BUDGET)
+    samples = []
+    for i, grid in enumerate(grids):
+        progress(0.3 + 0.4 * i / len(grids), f"curvature of face {i + 1} of {len(grids)}")
+        try:
+            samples.append(sample_face(model, i, grid))
+        except BattenError as exc:
+            raise ReadError(model.source or "model", f"face {i + 1} cannot be evaluated: {exc}") from exc
+    return tuple(samples)
 
 
 def prepare(
@@ -79,18 +101,9 @@ def prepare(
     name = model.source or str(path)
     if not model.faces:
         raise ReadError(name, "the model holds no faces")
-    progress(0.3, "choosing samples")
-    grids = model_grids(model, SAMPLE_BUDGET)
-    samples = []
-    for i, grid in enumerate(grids):
-        progress(0.3 + 0.4 * i / len(grids), f"curvature of face {i + 1} of {len(grids)}")
-        try:
-            samples.append(sample_face(model, i, grid))
-        except BattenError as exc:
-            raise ReadError(name, f"face {i + 1} cannot be evaluated: {exc}") from exc
+    samples = sample_model(model, progress)
     progress(0.7, "preparing sections")
     engine = SectionEngine(model)
-    samples = tuple(samples)
     loaded = Loaded(model, samples, curvature_scale=typical_curvature(samples), engine=engine, seams_measured=False)
     if seams:
         loaded = measure_seams(loaded, progress, profile)

@@ -18,6 +18,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from app.review import findings as review
+from app.review.faces import curvature_range
 from app.review.profile import ProfileInForce
 from app.review.seam_entries import seams_and_free_edges
 from app.review.section_entries import curve_entry
@@ -175,15 +176,19 @@ def section_notes(curves: tuple[SectionCurve, ...], where: tuple[tuple[int, int]
 
 
 def curvature_extremes(model: Model, samples: tuple[FaceSamples, ...]) -> list[Finding]:
-    """The tightest spot (largest max |k|) of each face, tightest face first."""
+    """The tightest spot (largest max |k|) of each face, tightest face first.
+
+    The radius is the face range's (:func:`app.review.faces.curvature_range`),
+    the one ``batten summary`` and ``batten check`` print.
+    """
     found = []
     for s in samples:
-        size = np.where(s.inside, s.field.max_abs, -np.inf)
-        if not np.isfinite(size).any() or size.max() <= 0:
+        ranges = curvature_range(s.field, s.inside)
+        if ranges is None or ranges.min_radius is None:
             continue
-        i, j = np.unravel_index(np.argmax(size), size.shape)
-        k = float(size[i, j])
-        title = f"{face_label(model, s.face)}: tightest radius {1 / k:.3g} mm"
+        i, j = ranges.tightest
+        k = ranges.max_abs
+        title = f"{face_label(model, s.face)}: tightest radius {ranges.min_radius:.3g} mm"
         detail = f"max |k| {k:.4g} 1/mm (k1 {s.field.k1[i, j]:.4g}, k2 {s.field.k2[i, j]:.4g})"
         extent = min(10.0 / k, float(np.ptp(s.field.points[s.inside], axis=0).max()) or 10.0)
         found.append((k, Finding("curvature extreme", title, "note", s.field.points[i, j], extent, detail)))

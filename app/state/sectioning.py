@@ -38,6 +38,33 @@ def sections_for(
     return tuple(c for c, _ in kept), tuple(where)
 
 
+# At comb gain 1 a tooth of the model's typical curvature is this share of the model size.
+COMB_REACH = 0.1
+
+
+def comb_scale(model_size: float, typical_curvature: float, gain: float) -> float:
+    """Tooth length per unit curvature (mm^2), for the window and the report alike.
+
+    Parameters
+    ----------
+    model_size : float
+        mm.
+    typical_curvature : float
+        The model's typical |k| (1/mm), see :func:`app.state.loading.typical_curvature`;
+        0 for a flat model (then 1 / size stands in).
+    gain : float
+        The user's multiplier (:attr:`SectionSettings.comb_gain`).
+    """
+    typical = typical_curvature or 1.0 / max(model_size, 1e-9)
+    return gain * COMB_REACH * model_size / typical
+
+
 def combs_for(curves: tuple[SectionCurve, ...], scale: float, spacing: float) -> tuple[CurvatureComb, ...]:
-    """Comb of each curve; teeth on the convex side (negative scale, see :func:`geometry.combs.curvature_comb`)."""
+    """Comb of each curve, teeth on the convex side (away from the centre of curvature).
+
+    The one place the comb side is chosen: the window and the report both draw
+    these. ``curve.curvature * curve.sides`` points to the centre of curvature
+    whatever the sign convention, so a negative scale puts the teeth outside
+    (see :func:`geometry.combs.curvature_comb`).
+    """
     return tuple(curvature_comb(c, -scale, spacing) for c in curves)

@@ -22,14 +22,12 @@ from .loading import Progress, measure_seams, prepare
 from .recent import RecentFiles
 from .results import FaceSamples, Finding, Loaded, measure_values
 from .review_findings import curvature_extremes, curve_label, face_label, judged_findings, section_notes
-from .sectioning import combs_for, sections_for
+from .sectioning import comb_scale, combs_for, sections_for
 from .settings import SIGNED_MEASURES, ColourRange, DisplaySettings, SectionSettings
 from .stripes import Camera, stripe_parameters
 
 # Robust automatic colour range: ignore this share of samples at each end.
 AUTO_PERCENTILE = 2.0
-# At comb gain 1 a tooth of the model's typical curvature is this share of the model size.
-COMB_REACH = 0.1
 KIND_ORDER = ("seam", "free edge", "inflection", "section extremum", "curvature extreme")
 VERDICT_ORDER = ("fail", "note", "pass")
 
@@ -231,8 +229,7 @@ class Session:
         """Tooth length per unit curvature (mm^2)."""
         if self.model is None:
             return 0.0
-        typical = self.loaded.curvature_scale or 1.0 / max(self.model.size, 1e-9)
-        return self.section.comb_gain * COMB_REACH * self.model.size / typical
+        return comb_scale(self.model.size, self.loaded.curvature_scale, self.section.comb_gain)
 
     @property
     def comb_spacing(self) -> float:
@@ -257,6 +254,20 @@ class Session:
         if not self.sections:
             return ""
         return curve_label(self.section_places[min(self.section.selected, len(self.sections) - 1)])
+
+    def show_sections(self, curves: tuple[SectionCurve, ...], places: tuple[tuple[int, int], ...]) -> None:
+        """Show curves cut elsewhere (a check's sections, for the report) with this session's combs.
+
+        Parameters
+        ----------
+        curves : tuple of SectionCurve
+        places : tuple of (plane, curve) pairs, one per curve (both from 0)
+        """
+        self.sections, self.section_places = tuple(curves), tuple(places)
+        self.combs = combs_for(self.sections, self.comb_scale, self.comb_spacing)
+        self.findings = self._collect_findings()
+        self.selection = None
+        self.events.emit("sections", "findings", "selection")
 
     def _recompute_sections(self, exact: bool = True) -> None:
         if self.loaded is None:
