@@ -17,14 +17,11 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from .vectors import unit
+
 # Below this |sin| between a direction and the light-line direction the stripe
 # parameter is undefined (the normal or ray runs along the lights).
 PARALLEL_SINE = 1e-9
-
-
-def _unit(vector: np.ndarray) -> np.ndarray:
-    vector = np.asarray(vector, dtype=float)
-    return vector / np.linalg.norm(vector)
 
 
 def light_frame(line_direction: np.ndarray, plane_normal: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
@@ -43,9 +40,9 @@ def light_frame(line_direction: np.ndarray, plane_normal: np.ndarray) -> tuple[n
         ``along`` the lines, ``across`` them in the plane, ``normal`` to the plane;
         right-handed (``across = normal x along``).
     """
-    along = _unit(line_direction)
+    along = unit(line_direction)
     normal = np.asarray(plane_normal, dtype=float)
-    normal = _unit(normal - np.dot(normal, along) * along)
+    normal = unit(normal - np.dot(normal, along) * along)
     across = np.cross(normal, along)
     return along, across, normal
 
@@ -111,7 +108,7 @@ def isophote_angle(normals: np.ndarray, light_direction: np.ndarray) -> np.ndarr
     isophotes continuous; a kink at the seam shows as a break.
     """
     normals = np.asarray(normals, float)
-    light = _unit(light_direction)
+    light = unit(light_direction)
     # atan2 of sine and cosine keeps full precision near 0 and 180 degrees, where arccos loses half the digits
     sine = np.linalg.norm(np.cross(normals, light), axis=-1)
     return np.degrees(np.arctan2(sine, normals @ light))
@@ -164,7 +161,7 @@ def highlight_distance(
     distance : ndarray of shape (...)
         ``|(B x n) . (A - P)| / |B x n|`` in mm; NaN where n is parallel to B.
     """
-    direction = _unit(line_direction)
+    direction = unit(line_direction)
     cross = np.cross(direction, np.asarray(normals, float))
     size = np.linalg.norm(cross, axis=-1)
     ok = size > PARALLEL_SINE
@@ -206,7 +203,7 @@ def eye_rays(points: np.ndarray, eye: np.ndarray | None, view_direction: np.ndar
     """
     points = np.asarray(points, float)
     if eye is None:
-        return np.broadcast_to(_unit(view_direction), points.shape)
+        return np.broadcast_to(unit(view_direction), points.shape)
     rays = points - np.asarray(eye, float)
     return rays / np.maximum(np.linalg.norm(rays, axis=-1, keepdims=True), 1e-300)
 

@@ -44,6 +44,8 @@ from __future__ import annotations
 
 import numpy as np
 
+from .vectors import cross, dot
+
 PLANE = "plane"
 ISO_U = "iso_u"  # u = const, parametrised by v
 ISO_V = "iso_v"  # v = const, parametrised by u
@@ -52,14 +54,6 @@ PCURVE = "pcurve"  # a given parameter-plane curve (a trim loop), its motion pas
 # Below this speed |C'| (mm per unit of the field's parameter, relative to the
 # model size) the curve's tangent is undefined: the plane touches the surface.
 SINGULAR_SPEED = 1e-14
-
-
-def _dot(a: np.ndarray, b: np.ndarray) -> np.ndarray:
-    return np.einsum("ik,ik->k", a, b)
-
-
-def _cross(a: np.ndarray, b: np.ndarray) -> np.ndarray:
-    return np.stack([a[1] * b[2] - a[2] * b[1], a[2] * b[0] - a[0] * b[2], a[0] * b[1] - a[1] * b[0]])
 
 
 def _safe(x: np.ndarray, floor: float) -> np.ndarray:
@@ -168,31 +162,31 @@ def curve_geometry(
     """
     x1, x2, x3 = motion if kind == PCURVE else uv_motion(kind, ders, normal)
     c1, c2, c3 = space_derivatives(ders, x1, x2, x3)
-    speed = _safe(np.sqrt(_dot(c1, c1)), SINGULAR_SPEED * length_scale)
+    speed = _safe(np.sqrt(dot(c1, c1, axis=0)), SINGULAR_SPEED * length_scale)
     tangent = c1 / speed
-    along = _dot(c1, c2) / (speed * speed)
-    c1xc2 = _cross(c1, c2)
-    abs_curvature = np.sqrt(_dot(c1xc2, c1xc2)) / speed**3
-    n_raw = _cross(ders[1, 0], ders[0, 1])
-    area = _safe(np.sqrt(_dot(n_raw, n_raw)), 1e-300)
+    along = dot(c1, c2, axis=0) / (speed * speed)
+    c1xc2 = cross(c1, c2, axis=0)
+    abs_curvature = np.sqrt(dot(c1xc2, c1xc2, axis=0)) / speed**3
+    n_raw = cross(ders[1, 0], ders[0, 1], axis=0)
+    area = _safe(np.sqrt(dot(n_raw, n_raw, axis=0)), 1e-300)
     unit = n_raw / area
     if kind == PLANE:
         in_plane = np.einsum("ik,i->k", c1xc2, normal) / speed**3
-        in_plane_rate = np.einsum("ik,i->k", _cross(c1, c3), normal) / speed**3 - 3.0 * in_plane * along
-        side = _cross(np.broadcast_to(normal[:, None], c1.shape), tangent)
+        in_plane_rate = np.einsum("ik,i->k", cross(c1, c3, axis=0), normal) / speed**3 - 3.0 * in_plane * along
+        side = cross(np.broadcast_to(normal[:, None], c1.shape), tangent, axis=0)
         # turn the in-plane side towards the face normal: the colour map's sign
-        towards = np.where(_dot(side, unit) * face_sign < 0, -1.0, 1.0)
+        towards = np.where(dot(side, unit, axis=0) * face_sign < 0, -1.0, 1.0)
         side = side * towards
         curvature = in_plane * towards
         rate = in_plane_rate * towards
     else:
         su_t = ders[2, 0] * x1[0] + ders[1, 1] * x1[1]
         sv_t = ders[1, 1] * x1[0] + ders[0, 2] * x1[1]
-        n_t = _cross(su_t, ders[0, 1]) + _cross(ders[1, 0], sv_t)
-        unit_t = (n_t - unit * _dot(n_t, unit)) / area
+        n_t = cross(su_t, ders[0, 1], axis=0) + cross(ders[1, 0], sv_t, axis=0)
+        unit_t = (n_t - unit * dot(n_t, unit, axis=0)) / area
         side = unit * face_sign
-        curvature = _dot(c2, side) / (speed * speed)
-        rate = (_dot(c3, side) + _dot(c2, unit_t * face_sign)) / (speed * speed) - 2.0 * curvature * along
+        curvature = dot(c2, side, axis=0) / (speed * speed)
+        rate = (dot(c3, side, axis=0) + dot(c2, unit_t * face_sign, axis=0)) / (speed * speed) - 2.0 * curvature * along
     uv_speed = _safe(np.hypot(x1[0], x1[1]), 1e-300)
     return {
         "points": ders[0, 0].T.copy(),

@@ -54,3 +54,20 @@ def test_a_broken_entry_is_rejected():
     }
     with pytest.raises(jsonschema.ValidationError):
         jsonschema.validate(doc, SCHEMA)
+
+
+def test_typed_findings_write_the_schema_1_0_fields():
+    # Finding's kind and verdict are enums now; the JSON they write must stay what schema 1.x
+    # documents (a change of meaning would have to raise SCHEMA_VERSION's major number)
+    from app.review.result import FAIL, PASS, Finding, Kind, Verdict
+
+    finding_schema = SCHEMA["$defs"]["finding"]
+    assert SCHEMA_VERSION.split(".")[0] == "1"
+    judged_kinds = (Kind.SEAM, Kind.FREE_EDGE, Kind.INFLECTION, Kind.CURVATURE)  # the window-only kind is not written
+    assert set(finding_schema["properties"]["kind"]["enum"]) == {str(k) for k in judged_kinds}
+    validator = jsonschema.Draft202012Validator({**finding_schema, "$defs": SCHEMA["$defs"]})
+    for kind in judged_kinds:
+        for verdict in (PASS, FAIL):
+            entry = json.loads(json.dumps(Finding(kind, "s", "m", 1.0, 2.0, "mm", verdict, (0.0, 1.0, 2.0)).to_dict()))
+            validator.validate(entry)
+            assert entry["kind"] == kind.value and entry["verdict"] == Verdict(verdict).value

@@ -281,11 +281,11 @@ def test_findings_name_faces_and_filter_section_extrema(qtbot, window):
     open_and_wait(qtbot, window, TOASTER)
     window.session.set_section(enabled=True, normal=(0.0, 1.0, 0.0))
     panel = window.findings_panel
-    panel.kind.setCurrentIndex(panel.kind.findData("section extremum"))
+    panel.kind.setCurrentIndex(panel.kind.findData("section_extremum"))
     shown = panel.tree.topLevelItemCount()
     assert shown == sum(len(c.extrema) for c in window.session.sections) > 0
     assert all(": curvature m" in panel.tree.topLevelItem(i).text(1) for i in range(shown))
-    panel.kind.setCurrentIndex(panel.kind.findData("free edge"))
+    panel.kind.setCurrentIndex(panel.kind.findData("free_edge"))
     assert panel.tree.topLevelItem(0).text(1).startswith("free edge of side_panel")  # the face's name in the file
 
 

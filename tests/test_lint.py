@@ -16,3 +16,12 @@ def test_ruff_check_is_clean():
         pytest.skip("ruff is not installed")
     out = subprocess.run([ruff, "check", "--quiet", str(ROOT)], capture_output=True, text=True, cwd=ROOT)
     assert out.returncode == 0, out.stdout + out.stderr
+
+
+def test_ruff_format_is_clean():
+    # ruff is pinned in pyproject.toml: formatting rules change between releases
+    ruff = shutil.which("ruff", path=str(Path(sys.executable).parent)) or shutil.which("ruff")
+    if ruff is None:
+        pytest.skip("ruff is not installed")
+    out = subprocess.run([ruff, "format", "--check", "--quiet", str(ROOT)], capture_output=True, text=True, cwd=ROOT)
+    assert out.returncode == 0, out.stdout + out.stderr

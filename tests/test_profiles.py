@@ -6,7 +6,7 @@ are of loading and validation, not of the values.
 
 import pytest
 
-from app.state.profiles import ProfileError, get_profile, load_profile, shipped_names, shipped_path
+from app.profiles import ProfileError, get_profile, read_profile, shipped_names, shipped_path
 from geometry.errors import BattenError
 from geometry.seam_tolerance import SeamTolerance
 
@@ -62,7 +62,7 @@ def test_bad_files_name_the_file_and_the_cause(tmp_path, text, words):
     path = tmp_path / "bad.toml"
     path.write_text(text)
     with pytest.raises(ProfileError) as err:
-        load_profile(path)
+        read_profile(path)
     assert str(path) in str(err.value)
     assert words in str(err.value)
     assert isinstance(err.value, BattenError)  # the command line turns it into exit status 2
@@ -127,7 +127,6 @@ def test_inflection_limit_is_inherited_and_can_be_lifted(tmp_path):
 def test_the_review_reads_the_inflection_limit_the_profile_gives():
     """app.review judges section curves by the key the profile echoes."""
     from app.review.findings import INFLECTION_LIMIT_KEY
-    from app.review.profile import load_profile as review_profile
 
-    assert review_profile("class-a").limit(INFLECTION_LIMIT_KEY) == 0
-    assert review_profile("technical").limit(INFLECTION_LIMIT_KEY) is None
+    assert get_profile("class-a").limit(INFLECTION_LIMIT_KEY) == 0
+    assert get_profile("technical").limit(INFLECTION_LIMIT_KEY) is None

@@ -10,6 +10,7 @@ from __future__ import annotations
 import numpy as np
 import pytest
 from numpy.testing import assert_allclose
+from shapes import quarter_cylinder
 
 from geometry import NurbsSurface, curvature_on_grid
 from geometry.reflection import (
@@ -31,17 +32,8 @@ def plane_face(size: float = 100.0) -> NurbsSurface:
     return NurbsSurface(1, 1, [0, 0, 1, 1], [0, 0, 1, 1], poles)
 
 
-def cylinder_quarter(radius: float, length: float) -> NurbsSurface:
-    """Quarter of the cylinder y^2 + z^2 = R^2 (axis x), from +y to +z, exact rational form."""
-    w = np.sqrt(0.5)
-    arc = np.array([[0, radius, 0], [0, radius, radius], [0, 0, radius]], float)
-    poles = np.stack([arc, arc + [length, 0, 0]], axis=1)  # (3, 2, 3): u along the arc, v along x
-    weights = np.array([[1, 1], [w, w], [1, 1]], float)
-    return NurbsSurface(2, 1, [0, 0, 0, 1, 1, 1], [0, 0, 1, 1], poles, weights)
-
-
 def outward_cylinder(radius=20.0, length=50.0):
-    surface = cylinder_quarter(radius, length)
+    surface = quarter_cylinder(radius, length)
     field = curvature_on_grid(surface, np.linspace(0, 1, 41), np.linspace(0, 1, 5), workers=1)
     radial = field.points * [0, 1, 1]
     if np.mean(np.sum(field.normals * radial, axis=-1)) < 0:

@@ -10,20 +10,16 @@ Euler's theorem, k(d) = k1 cos^2 + k2 sin^2 (do Carmo 1976, sec. 3-2).
 from __future__ import annotations
 
 import json
-import sys
 from pathlib import Path
 
 import numpy as np
 import pytest
 
 from geometry import curvature_at
+from sample_surfaces import products
 
 ROOT = Path(__file__).resolve().parents[1]
 SAMPLES_DIR = ROOT / "sample_surfaces"
-if str(ROOT) not in sys.path:
-    sys.path.insert(0, str(ROOT))
-
-from sample_surfaces import products  # noqa: E402
 
 MANIFEST = json.loads((SAMPLES_DIR / "manifest.json").read_text(encoding="utf-8"))
 BY_NAME = {s["name"]: s for s in MANIFEST["samples"]}

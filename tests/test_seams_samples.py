@@ -12,7 +12,7 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from app.state.profiles import get_profile
+from app.profiles import get_profile
 from geometry.io import read_model
 from geometry.seams import check_seams
 

@@ -17,7 +17,7 @@ from pathlib import Path
 import numpy as np
 import pytest
 from numpy.testing import assert_allclose
-from test_section_shapes import CIRCLE_KNOTS, CIRCLE_W, CIRCLE_XY, cylinder, model_of
+from shapes import CIRCLE_KNOTS, CIRCLE_W, CIRCLE_XY, cylinder, model_of
 
 from geometry.io import read_model
 from geometry.nurbs import NurbsSurface

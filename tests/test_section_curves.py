@@ -19,8 +19,8 @@ from geomdl import BSpline, operations
 from numpy.testing import assert_allclose
 from scipy.interpolate import BSpline as ScipyBSpline
 from scipy.optimize import brentq
+from shapes import cubic_sweep, model_of, sphere
 from surface_factories import random_geomdl_nurbs
-from test_section_shapes import cubic_sweep, model_of, sphere
 
 from geometry.combs import comb_scale, curvature_comb
 from geometry.interop import from_geomdl

@@ -21,7 +21,7 @@ import numpy as np
 import pytest
 from numpy.testing import assert_allclose
 from scipy.special import ellipe
-from test_section_shapes import S, cubic_sweep, cylinder, model_of, sphere, torus
+from shapes import S, cubic_sweep, cylinder, model_of, sphere, torus
 
 from geometry.errors import BattenError
 from geometry.model import Edge, EdgeUse, Face, Model

@@ -14,11 +14,11 @@ from pathlib import Path
 import numpy as np
 import pytest
 from numpy.testing import assert_allclose
+from shapes import quarter_cylinder
 
 from app.state import Measure, Mode, Session
 from app.state.demo import demo_model
 from app.state.settings import SectionSettings, StripeSettings
-from geometry import NurbsSurface
 from geometry.errors import BattenError
 from geometry.model import Face, Model
 
@@ -31,14 +31,6 @@ def session():
     s = Session()
     s.show_model(demo_model())
     return s
-
-
-def quarter_cylinder(radius: float) -> NurbsSurface:
-    """Exact rational quarter cylinder, axis x (The NURBS Book 2nd ed., sec. 7.3)."""
-    w = np.sqrt(0.5)
-    arc = np.array([[0, radius, 0], [0, radius, radius], [0, 0, radius]], float)
-    poles = np.stack([arc, arc + [40.0, 0, 0]], axis=1)
-    return NurbsSurface(2, 1, [0, 0, 0, 1, 1, 1], [0, 0, 1, 1], poles, np.array([[1, 1], [w, w], [1, 1]]))
 
 
 def test_show_model_announces_and_describes(session):
@@ -107,7 +99,7 @@ def test_signed_measures_get_a_range_centred_on_zero(session):
 def test_minimum_radius_of_a_cylinder_is_its_radius():
     radius = 12.5
     s = Session()
-    s.show_model(Model((Face(quarter_cylinder(radius)),)))
+    s.show_model(Model((Face(quarter_cylinder(radius, 40.0)),)))
     s.set_display(mode=Mode.CURVATURE, measure=Measure.MIN_RADIUS)
     values = s.measure_fields()[0][s.samples[0].inside]
     assert_allclose(values, radius, rtol=1e-9)
@@ -193,7 +185,7 @@ def test_findings_filter_and_select(session):
 
 
 def test_curvature_extreme_is_the_tightest_sample(session):
-    extreme = [f for f in session.findings if f.kind == "curvature extreme"]
+    extreme = [f for f in session.findings if f.kind == "curvature"]
     assert len(extreme) == 1  # the flange is flat: no extreme there
     panel = session.samples[0]
     assert_allclose(extreme[0].position, panel.field.points.reshape(-1, 3)[np.argmax(panel.field.max_abs)])
@@ -213,18 +205,18 @@ TOASTER = SAMPLES / "toaster_panel.stp"  # a raised bump: the curvature along a 
 
 
 def judged(findings) -> list[tuple[str, str]]:
-    """(kind, verdict) of the entries a profile judges (notes are not judged), sorted."""
-    kinds = {"free edge": "free_edge", "curvature extreme": "curvature"}
-    return sorted((kinds.get(f.kind, f.kind), f.verdict) for f in findings if f.verdict in ("pass", "fail"))
+    """(kind, verdict) of the entries a profile judges (notes are not judged), sorted: the window and the
+    check share the Kind and Verdict enums, so their entries compare directly."""
+    return sorted((f.kind, f.verdict) for f in findings if f.verdict in ("pass", "fail"))
 
 
 def test_faces_are_named_from_the_file_or_counted_from_zero(session):
     seam = next(f for f in session.findings if f.kind == "seam")
     assert seam.title.startswith("seam panel / flange: ")  # the demo's face names
     unnamed = Session()
-    unnamed.show_model(Model((Face(quarter_cylinder(12.5)),)))
+    unnamed.show_model(Model((Face(quarter_cylinder(12.5, 40.0)),)))
     assert unnamed.face_label(0) == "face 0"  # as `batten probe --face 0`
-    assert [f.title.split(":")[0] for f in unnamed.findings if f.kind == "curvature extreme"] == ["face 0"]
+    assert [f.title.split(":")[0] for f in unnamed.findings if f.kind == "curvature"] == ["face 0"]
 
 
 @pytest.mark.skipif(not TOASTER.is_file(), reason="samples not built")
@@ -232,7 +224,7 @@ def test_section_extrema_are_listed_as_their_own_kind():
     session = Session()
     session.open(str(TOASTER))
     session.set_section(enabled=True, normal=(0, 1, 0), count=2, spacing=10.0)
-    extrema = session.filtered_findings(kinds=("section extremum",))
+    extrema = session.filtered_findings(kinds=("section_extremum",))
     assert len(extrema) == sum(len(c.extrema) for c in session.sections) > 0
     assert_allclose(extrema[0][1].position, session.sections[0].extrema.points[0])
     assert extrema[0][1].title.startswith("section 1, curve 1: curvature m")
@@ -264,15 +256,14 @@ def judged_check(findings) -> list[tuple[str, str]]:
 
 
 def test_a_profile_limit_on_inflections_fails_the_curve_as_the_check_does(session, monkeypatch):
+    from dataclasses import replace
+
+    from app.profiles import get_profile
     from app.review import findings as review
-    from app.review import profile as review_profile
     from app.state import session as session_module
 
-    strict = review_profile.load_profile("class-a")
-    strict = review_profile.ProfileInForce(
-        strict.name, {**strict.values, review.INFLECTION_LIMIT_KEY: 0}, strict.source
-    )
-    monkeypatch.setattr(session_module, "load_profile", lambda name: strict)
+    strict = replace(get_profile("class-a"), section_inflections_max=0)
+    monkeypatch.setattr(session_module, "get_profile", lambda name: strict)
     session.set_profile("class-a")
     session.set_section(enabled=True, normal=(0, 1, 0), count=2, spacing=10.0)
     failing = [f for f in session.findings if f.kind == "inflection" and f.verdict == "fail"]
@@ -321,7 +312,7 @@ def test_choosing_a_curve_for_the_graph_recomputes_nothing(session):
 def test_display_grids_are_dense_enough_for_smooth_maps():
     # common practice: a few hundred samples per side of a single face; the sampler shares one budget
     s = Session()
-    s.show_model(Model((Face(quarter_cylinder(12.5)),)))
+    s.show_model(Model((Face(quarter_cylinder(12.5, 40.0)),)))
     a, b = s.samples[0].inside.shape
     assert min(a, b) >= 250 and a * b <= 300_000
 
@@ -353,9 +344,9 @@ def test_the_graphs_corners_are_the_panels_knot_lines_not_sparse_points():
 
 
 def test_seams_measured_under_an_old_profile_are_judged_again(session):
-    from app.state.loading import measure_seams
+    from app.state.loading import with_seams_judged
 
-    stale = measure_seams(session.loaded)  # as a worker thread still running under class-A would
+    stale = with_seams_judged(session.loaded)  # as a worker thread still running under class-A would
     session.set_profile("technical")
     session.adopt_seams(stale)
     assert session.loaded.seam_review.profile.name == "technical"

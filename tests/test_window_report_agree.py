@@ -24,7 +24,6 @@ from app.state import Mode, Session
 from app.state.settings import StripeSettings
 from app.state.stripes import Camera
 from geometry import curvature_at
-from geometry.io import read_model
 from geometry.sections import SectionEngine
 
 SAMPLES = Path(__file__).resolve().parents[1] / "sample_surfaces"
@@ -35,8 +34,8 @@ MEUSNIER_RTOL = 1e-6
 
 
 @pytest.fixture(scope="module")
-def toaster():
-    return read_model(SAMPLES / "toaster_panel.stp")
+def toaster(sample_model):
+    return sample_model("toaster_panel.stp")
 
 
 def _colour_map_normal_curvature(model, curve) -> tuple[np.ndarray, np.ndarray]:
@@ -63,8 +62,8 @@ def _colour_map_normal_curvature(model, curve) -> tuple[np.ndarray, np.ndarray]:
         ("hood_visor.stp", np.array([[1.0, 0.0, 0.0], [0.0, -1.0, 0.0], [0.3, 0.4, 0.866]])),
     ],
 )
-def test_section_sign_is_the_colour_maps_at_the_same_point(sample, normals):
-    model = read_model(SAMPLES / sample)
+def test_section_sign_is_the_colour_maps_at_the_same_point(sample_model, sample, normals):
+    model = sample_model(sample)
     engine = SectionEngine(model)
     centre = model.bounds.mean(axis=0)
     checked = 0
@@ -153,5 +152,5 @@ def test_summary_check_and_window_give_the_same_minimum_radius(toaster, window_a
     rows = face_rows(toaster)
     check = [f.curvature.min_radius if f.curvature else None for f in review.faces]
     assert [r["min_radius_mm"] for r in rows] == check
-    tightest = {f.title.split(": tightest radius ")[1] for f in window.findings if f.kind == "curvature extreme"}
+    tightest = {f.title.split(": tightest radius ")[1] for f in window.findings if f.kind == "curvature"}
     assert tightest == {f"{r:.3g} mm" for r in check if r is not None}

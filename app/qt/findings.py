@@ -6,19 +6,20 @@ from PySide6.QtCore import QSignalBlocker, Qt, Signal
 from PySide6.QtGui import QBrush, QColor
 from PySide6.QtWidgets import QComboBox, QHBoxLayout, QLabel, QTreeWidget, QTreeWidgetItem, QVBoxLayout, QWidget
 
+from app.profiles import shipped_names
+from app.render.colours import VERDICT
+from app.review.result import Kind
 from app.state import Session
-from app.state.profiles import shipped_names
 from app.state.session import KIND_ORDER, VERDICT_ORDER
 
-VERDICT_COLOURS = {"fail": "#c0281b", "pass": "#23803f", "note": "#44516e"}
 ANY = "any"
 FROM_FILE = "from file…"
 KIND_WORDS = {
-    "seam": "seams",
-    "free edge": "free edges",
-    "inflection": "inflections",
-    "section extremum": "curvature extrema of sections",
-    "curvature extreme": "tightest spot of each face",
+    Kind.SEAM: "seams",
+    Kind.FREE_EDGE: "free edges",
+    Kind.INFLECTION: "inflections",
+    Kind.SECTION_EXTREMUM: "curvature extrema of sections",
+    Kind.CURVATURE: "tightest spot of each face",
 }
 
 
@@ -73,11 +74,11 @@ class FindingsPanel(QWidget):
         self.kind = QComboBox()
         self.kind.addItem("all kinds", ANY)
         for kind in KIND_ORDER:
-            self.kind.addItem(KIND_WORDS.get(kind, kind), kind)
+            self.kind.addItem(KIND_WORDS[kind], str(kind))
         self.verdict = QComboBox()
         self.verdict.addItem("any verdict", ANY)
         for verdict in VERDICT_ORDER:
-            self.verdict.addItem(verdict, verdict)
+            self.verdict.addItem(str(verdict), str(verdict))
         self.tree = QTreeWidget()
         self.tree.setHeaderLabels(["Verdict", "Finding"])
         self.tree.setRootIsDecorated(False)
@@ -116,7 +117,7 @@ class FindingsPanel(QWidget):
             item = QTreeWidgetItem([finding.verdict, finding.title])
             item.setData(0, Qt.ItemDataRole.UserRole, index)
             item.setToolTip(1, finding.detail or finding.title)
-            item.setForeground(0, QBrush(QColor(VERDICT_COLOURS.get(finding.verdict, "#000000"))))
+            item.setForeground(0, QBrush(QColor(VERDICT.get(finding.verdict, VERDICT["note"]))))
             self.tree.addTopLevelItem(item)
         del blocker
         failing = sum(1 for f in self.session.findings if f.verdict == "fail")

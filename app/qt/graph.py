@@ -7,11 +7,11 @@ from PySide6.QtCore import QPointF, QRectF, Qt
 from PySide6.QtGui import QColor, QPainter, QPen, QPolygonF
 from PySide6.QtWidgets import QSizePolicy, QWidget
 
+from app.render.colours import COMB, EXTREMUM, INFLECTION
 from geometry.conventions import CURVATURE_SIGN_SHORT
 from geometry.section_results import SectionCurve
 
 MARGIN_LEFT, MARGIN_RIGHT, MARGIN_TOP, MARGIN_BOTTOM = 78, 12, 22, 34
-INFLECTION, EXTREMUM, LINE = "#ff00aa", "#00a0c0", "#6a3d9a"
 TICKS = 6  # about this many labelled distances along the curve
 
 
@@ -81,7 +81,7 @@ class CurvatureGraph(QWidget):
         xs, ys = self.polyline()
         # Qt takes points one object each; a curve has a few hundred
         polygon = QPolygonF([QPointF(x, y) for x, y in zip(xs.tolist(), ys.tolist(), strict=True)])
-        painter.setPen(QPen(QColor(LINE), 1.6))
+        painter.setPen(QPen(QColor(COMB), 1.6))
         painter.drawPolyline(polygon)
         marks = self.curve.inflections
         self._markers(painter, to_x, to_y, marks.arc_length, np.zeros(len(marks)), INFLECTION)

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from PySide6.QtCore import QObject, QThread, Signal, Slot
 
-from app.state.loading import measure_seams, prepare
+from app.state.loading import prepare, with_seams_judged
 from geometry.errors import BattenError
 
 
@@ -32,7 +32,7 @@ class LoadJob(QObject):
     def __init__(self, path: str, profile=None):
         super().__init__()
         self.path = path
-        self.profile = profile  # the session's ProfileInForce: the seams are judged by it
+        self.profile = profile  # the session's Profile: the seams are judged by it
 
     @Slot()
     def run(self) -> None:
@@ -40,7 +40,7 @@ class LoadJob(QObject):
         try:
             loaded = prepare(self.path, progress=report, seams=False)
             self.finished.emit(loaded)
-            self.seams_ready.emit(measure_seams(loaded, report, self.profile))
+            self.seams_ready.emit(with_seams_judged(loaded, report, self.profile))
         except BattenError as exc:
             self.failed.emit(str(exc))
         except Exception as exc:  # a bug of ours must not kill the window; say what happened

@@ -11,7 +11,7 @@ import numpy as np
 import pyvista as pv
 import vtk
 
-from app.state import Camera, Finding, Mode, Session
+from app.state import Camera, FindingEntry, Mode, Session
 from app.state.settings import MEASURE_UNITS, SIGNED_MEASURES, STRIPE_MODES
 
 from . import colours
@@ -214,7 +214,7 @@ class Scene:
         self._render()
 
     # -- findings --------------------------------------------------------
-    def mark(self, finding: Finding | None) -> None:
+    def mark(self, finding: FindingEntry | None) -> None:
         """Highlight one finding (its path and point), or clear the mark."""
         if finding is None:
             path, point = pv.PolyData(), pv.PolyData()
@@ -225,7 +225,7 @@ class Scene:
         self._show_lines("mark_point", point, color=colours.MARK, point_size=20, render_points_as_spheres=True)
         self._render()
 
-    def focus(self, finding: Finding) -> None:
+    def focus(self, finding: FindingEntry) -> None:
         """Turn the camera onto a finding, keeping the viewing direction."""
         cam = self.plotter.camera
         position, focal = np.array(cam.position), np.array(cam.focal_point)

@@ -12,6 +12,7 @@ from __future__ import annotations
 from collections.abc import Callable, Sequence
 from html import escape
 
+from app.render.colours import VERDICT
 from app.review.result import ERROR, FAIL, PASS, UNREADABLE, FileReview, overall_verdict
 from geometry.conventions import CURVATURE_SIGN
 
@@ -37,7 +38,8 @@ FIGURES_PER_PAGE = 2
 # The overview picture shares the chapter's first page with the verdict: a little smaller.
 OVERVIEW_WIDTH = 360
 
-_VERDICT_COLOURS = {PASS: "#1f7a3a", FAIL: "#b3261e", UNREADABLE: "#7a4b00", ERROR: "#5a5a5a"}
+# the window's verdict colours (one palette); the two "not checked" states have their own
+_VERDICT_COLOURS = {PASS: VERDICT["pass"], FAIL: VERDICT["fail"], UNREADABLE: "#7a4b00", ERROR: "#5a5a5a"}
 _VERDICT_WORDS = {
     PASS: "PASS: no finding over tolerance",
     FAIL: "FAIL: findings over tolerance",

@@ -3,7 +3,7 @@
 Used by ``batten check`` and by the window's "Export report" alike.
 """
 
-from .result import FAIL, PASS, SCHEMA_VERSION, UNREADABLE, FileReview, Finding, check_document
+from .result import FAIL, PASS, SCHEMA_VERSION, UNREADABLE, FileReview, Finding, Kind, Verdict, check_document
 from .runner import ReviewSettings, review_file, review_model
 from .spec import DEFAULT_SPEC, SpecError, parse_spec, plane_spec
 
@@ -13,8 +13,10 @@ __all__ = [
     "PASS",
     "SCHEMA_VERSION",
     "UNREADABLE",
+    "Verdict",
     "FileReview",
     "Finding",
+    "Kind",
     "ReviewSettings",
     "SpecError",
     "check_document",

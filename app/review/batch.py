@@ -172,15 +172,15 @@ def run_batch(options: BatchOptions) -> list[str]:
         Settings or output paths that are wrong for every file alike (checked
         before any work starts).
     """
+    from app.profiles import get_profile
     from app.report.atomic import write_atomically
     from app.report.writers import now_stamp
 
-    from .profile import load_profile
     from .spec import parse_spec
 
     _check_outputs(options)
     parse_spec(options.settings.sections)
-    load_profile(options.settings.profile)
+    get_profile(options.settings.profile)
     results = _run_all(options)
     reviews = [r for r, _ in results]
     created = now_stamp()

@@ -11,8 +11,9 @@ marked, not judged.
 
 from __future__ import annotations
 
-from .profile import ProfileInForce
-from .result import FAIL, PASS, Finding
+from app.profiles import Profile
+
+from .result import FAIL, PASS, Finding, Kind
 
 # seam measure -> (key of the worst value, unit, profile key of the limit, class it decides)
 SEAM_MEASURES = (
@@ -36,7 +37,7 @@ def worst_first(found: list[Finding]) -> tuple[Finding, ...]:
     return tuple(sorted(found, key=lambda f: (f.verdict != FAIL, -_ratio(f))))
 
 
-def seam_finding(seam: dict, profile: ProfileInForce) -> Finding:
+def seam_finding(seam: dict, profile: Profile) -> Finding:
     """The deciding measure of one seam (its ``as_dict`` form)."""
     required = "G0" if seam.get("crease") else str(profile.values.get("required", "G2"))
     candidates = []
@@ -46,13 +47,13 @@ def seam_finding(seam: dict, profile: ProfileInForce) -> Finding:
             continue
         where = (seam.get("worst") or {}).get(_WORST_KEYS[key], {}).get("xyz")
         candidates.append(
-            Finding("seam", "", measure, float(value), limit, unit, PASS, None if where is None else tuple(where))
+            Finding(Kind.SEAM, "", measure, float(value), limit, unit, PASS, None if where is None else tuple(where))
         )
-    best = max(candidates, key=_ratio) if candidates else Finding("seam", "", "continuity", 0.0, None, "", PASS)
+    best = max(candidates, key=_ratio) if candidates else Finding(Kind.SEAM, "", "continuity", 0.0, None, "", PASS)
     names = seam.get("face_names") or [str(f) for f in seam.get("faces", ())]
     subject = f"seam {seam.get('id', '?')}: {' / '.join(names)} ({seam.get('continuity', '?')}, needs {required})"
     return Finding(
-        "seam",
+        Kind.SEAM,
         subject,
         best.measure,
         best.value,
@@ -64,7 +65,7 @@ def seam_finding(seam: dict, profile: ProfileInForce) -> Finding:
     )
 
 
-def inflection_findings(sections, profile: ProfileInForce) -> list[Finding]:
+def inflection_findings(sections, profile: Profile) -> list[Finding]:
     limit = profile.limit(INFLECTION_LIMIT_KEY)
     if limit is None:
         return []
@@ -76,7 +77,7 @@ def inflection_findings(sections, profile: ProfileInForce) -> list[Finding]:
             verdict = FAIL if len(points) > limit else PASS
             found.append(
                 Finding(
-                    "inflection",
+                    Kind.INFLECTION,
                     f"section {section.get('label', si)}, curve {ci + 1}",
                     "inflections",
                     float(len(points)),
@@ -90,7 +91,7 @@ def inflection_findings(sections, profile: ProfileInForce) -> list[Finding]:
     return found
 
 
-def collect(seams, free_edges, sections, profile: ProfileInForce) -> tuple[Finding, ...]:
+def collect(seams, free_edges, sections, profile: Profile) -> tuple[Finding, ...]:
     """All findings of a review, those over tolerance first, worst (value / limit) first."""
     found = [seam_finding(s, profile) for s in seams]
     found += inflection_findings(sections, profile)

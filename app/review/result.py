@@ -8,13 +8,35 @@ The JSON layout is documented by ``app/report/check_schema.json``; bump
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from enum import StrEnum
 
 from .faces import FaceSummary
 
 SCHEMA_ID = "batten-check"
 SCHEMA_VERSION = "1.0"
 
-PASS, FAIL, UNREADABLE, ERROR = "pass", "fail", "unreadable", "error"
+
+class Verdict(StrEnum):
+    """What a finding says against its tolerance; NOTE: listed for the reviewer, not judged."""
+
+    PASS = "pass"
+    FAIL = "fail"
+    NOTE = "note"
+
+
+class Kind(StrEnum):
+    """What a finding is about (the JSON's ``kind``; the window lists the same kinds)."""
+
+    SEAM = "seam"
+    FREE_EDGE = "free_edge"
+    INFLECTION = "inflection"
+    SECTION_EXTREMUM = "section_extremum"  # a curvature extremum of a section curve
+    CURVATURE = "curvature"  # the tightest spot of a face
+
+
+PASS, FAIL = Verdict.PASS, Verdict.FAIL
+# A file's status when it could not be judged at all (never a finding's verdict).
+UNREADABLE, ERROR = "unreadable", "error"
 
 
 @dataclass(frozen=True)
@@ -23,8 +45,7 @@ class Finding:
 
     Attributes
     ----------
-    kind : str
-        ``"seam"``, ``"free_edge"``, ``"inflection"`` or ``"curvature"``.
+    kind : Kind
     subject : str
         What it is about, for people (``"faces 2-3"``, ``"x = 40, curve 1"``).
     measure : str
@@ -32,8 +53,7 @@ class Finding:
     value, limit : float
         Measured value and the profile's tolerance, in ``unit``.
     unit : str
-    verdict : str
-        :data:`PASS` or :data:`FAIL`.
+    verdict : Verdict
     where : tuple of float or None
         xyz (mm) of the worst place, when there is one.
     ref : dict
@@ -41,25 +61,25 @@ class Finding:
         ``{"section": 0, "curve": 1}``).
     """
 
-    kind: str
+    kind: Kind
     subject: str
     measure: str
     value: float
     limit: float | None
     unit: str
-    verdict: str
+    verdict: Verdict
     where: tuple[float, float, float] | None = None
     ref: dict = field(default_factory=dict)
 
     def to_dict(self) -> dict:
         return {
-            "kind": self.kind,
+            "kind": str(self.kind),
             "subject": self.subject,
             "measure": self.measure,
             "value": self.value,
             "limit": self.limit,
             "unit": self.unit,
-            "verdict": self.verdict,
+            "verdict": str(self.verdict),
             "where": None if self.where is None else list(self.where),
             "ref": dict(self.ref),
         }

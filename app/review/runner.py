@@ -12,13 +12,13 @@ from collections.abc import Callable
 from dataclasses import dataclass, replace
 from pathlib import Path
 
+from app.profiles import get_profile
 from geometry.errors import BattenError, ReadError
 from geometry.io import read_model
 from geometry.model import Model
 
 from . import findings
 from .faces import summarise_faces
-from .profile import load_profile
 from .result import UNREADABLE, FileReview
 from .seam_entries import seams_and_free_edges
 from .section_entries import cut_sections
@@ -68,7 +68,7 @@ def review_model(model: Model, settings: ReviewSettings = ReviewSettings(), prog
         When the settings are wrong (unknown profile, bad SPEC).
     """
     name = Path(model.source).name or "model"
-    profile = load_profile(settings.profile)
+    profile = get_profile(settings.profile)
     items = parse_spec(settings.sections)
     progress(f"{name}: curvature of {len(model.faces)} faces")
     faces = summarise_faces(model)

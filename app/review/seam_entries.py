@@ -6,9 +6,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from app.profiles import Profile
 from geometry.model import Model
-
-from .profile import ProfileInForce
 
 
 @dataclass(frozen=True, eq=False)
@@ -20,7 +19,7 @@ class Line:
     points: np.ndarray
 
 
-def seams_and_free_edges(model: Model, profile: ProfileInForce):
+def seams_and_free_edges(model: Model, profile: Profile):
     """Seams and free edges measured by :func:`geometry.seams.check_seams` under ``profile``.
 
     Returns
@@ -34,7 +33,7 @@ def seams_and_free_edges(model: Model, profile: ProfileInForce):
     # Imported here: scipy.spatial behind it costs ~0.3 s, and app.review is imported for `batten --help`.
     from geometry.seams import check_seams
 
-    report = check_seams(model, profile.source)
+    report = check_seams(model, profile.tolerance)
     names = [f.name or f"face {i}" for i, f in enumerate(model.faces)]
     seams = []
     lines = []

@@ -1,6 +1,6 @@
 """The session behind the window: model, settings, results, selection. No Qt here."""
 
-from .results import FaceSamples, Finding, Loaded, SeamView
+from .results import FaceSamples, FindingEntry, Loaded, SeamView
 from .session import Session
 from .settings import Measure, Mode, SectionSettings, StripeSettings
 from .stripes import Camera
@@ -8,7 +8,7 @@ from .stripes import Camera
 __all__ = [
     "Camera",
     "FaceSamples",
-    "Finding",
+    "FindingEntry",
     "Loaded",
     "Measure",
     "Mode",

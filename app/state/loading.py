@@ -12,8 +12,8 @@ from dataclasses import replace
 
 import numpy as np
 
+from app.profiles import Profile, get_profile
 from app.review.faces import SAMPLE_BUDGET as FACE_SAMPLES
-from app.review.profile import ProfileInForce, load_profile
 from geometry.differential import curvature_on_grid
 from geometry.errors import BattenError, ReadError
 from geometry.io import read_model
@@ -74,7 +74,7 @@ def prepare(
     model: Model | None = None,
     progress: Progress = _no_progress,
     seams: bool = True,
-    profile: ProfileInForce | None = None,
+    profile: Profile | None = None,
 ) -> Loaded:
     """Read (unless ``model`` is given), sample and analyse a model.
 
@@ -85,9 +85,9 @@ def prepare(
         An in-memory model (scripts, tests); ``path`` is then ignored.
     progress : callable(fraction, message)
     seams : bool
-        Measure the seams too; the window leaves them to :func:`measure_seams`
+        Measure the seams too; the window leaves them to :func:`with_seams_judged`
         afterwards, so the model shows before the slowest analysis ends.
-    profile : ProfileInForce, optional
+    profile : Profile, optional
         Tolerances the seams are judged against (default: the default profile).
 
     Raises
@@ -106,17 +106,17 @@ def prepare(
     engine = SectionEngine(model)
     loaded = Loaded(model, samples, curvature_scale=typical_curvature(samples), engine=engine, seams_measured=False)
     if seams:
-        loaded = measure_seams(loaded, progress, profile)
+        loaded = with_seams_judged(loaded, progress, profile)
     progress(1.0, "ready")
     return loaded
 
 
-def measure_seams(loaded: Loaded, progress: Progress = _no_progress, profile: ProfileInForce | None = None) -> Loaded:
+def with_seams_judged(loaded: Loaded, progress: Progress = _no_progress, profile: Profile | None = None) -> Loaded:
     """The same bundle with its seams and free edges measured against ``profile`` (default: the default profile).
 
     The measuring is the check's own (:func:`app.state.review_findings.review_seams`),
     so the window and ``batten check`` judge a seam alike.
     """
     progress(0.8, "measuring seams")
-    reviewed = review_seams(loaded.model, profile or load_profile(None))
+    reviewed = review_seams(loaded.model, profile or get_profile(None))
     return replace(loaded, seams=reviewed.views, seam_review=reviewed, seams_measured=True)

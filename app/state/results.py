@@ -6,6 +6,7 @@ from dataclasses import dataclass, field, fields
 
 import numpy as np
 
+from app.review.result import Kind, Verdict
 from geometry.differential import CurvatureField
 from geometry.model import Model
 from geometry.sections import SectionEngine
@@ -67,17 +68,15 @@ def measure_values(field: CurvatureField, measure: Measure) -> np.ndarray:
 
 
 @dataclass(frozen=True, eq=False)
-class Finding:
-    """One entry of the findings list.
+class FindingEntry:
+    """One entry of the window's findings list: a check's finding, or a note, placed on the model.
 
     Attributes
     ----------
-    kind : str
-        "seam", "free edge", "inflection" or "curvature extreme".
+    kind : app.review.Kind
     title : str
         One line for the list.
-    verdict : str
-        "fail", "pass" or "note".
+    verdict : app.review.Verdict
     position : ndarray of shape (3,)
         Where the camera goes.
     extent : float
@@ -88,9 +87,9 @@ class Finding:
         The seam or edge polyline, or the point alone.
     """
 
-    kind: str
+    kind: Kind
     title: str
-    verdict: str
+    verdict: Verdict
     position: np.ndarray
     extent: float = 10.0
     detail: str = ""

@@ -17,18 +17,16 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from app.profiles import Profile
 from app.review import findings as review
 from app.review.faces import curvature_range
-from app.review.profile import ProfileInForce
+from app.review.result import Kind, Verdict
 from app.review.seam_entries import seams_and_free_edges
 from app.review.section_entries import curve_entry
 from geometry.model import Model
 from geometry.section_results import SectionCurve
 
-from .results import FaceSamples, Finding, SeamView
-
-# Review kinds -> the window's kinds.
-KINDS = {"seam": "seam", "free_edge": "free edge", "inflection": "inflection", "curvature": "curvature extreme"}
+from .results import FaceSamples, FindingEntry, SeamView
 
 
 def face_label(model: Model, index: int) -> str:
@@ -43,7 +41,7 @@ class SeamReview:
 
     Attributes
     ----------
-    profile : ProfileInForce
+    profile : Profile
     seams, free_edges : tuple of dict
         As :func:`app.review.seam_entries.seams_and_free_edges` gives them.
     lines : tuple of app.review.seam_entries.Line
@@ -52,14 +50,14 @@ class SeamReview:
         The same lines, coloured by verdict in the view.
     """
 
-    profile: ProfileInForce
+    profile: Profile
     seams: tuple[dict, ...]
     free_edges: tuple[dict, ...]
     lines: tuple
     views: tuple[SeamView, ...]
 
 
-def review_seams(model: Model, profile: ProfileInForce) -> SeamReview:
+def review_seams(model: Model, profile: Profile) -> SeamReview:
     """Measure every seam and free edge of ``model`` under ``profile`` (as ``batten check`` does)."""
     seams, free, lines = seams_and_free_edges(model, profile)
     views = []
@@ -105,8 +103,8 @@ def judged_findings(
     seams: SeamReview | None,
     curves: tuple[SectionCurve, ...],
     where: tuple[tuple[int, int], ...],
-    profile: ProfileInForce,
-) -> list[Finding]:
+    profile: Profile,
+) -> list[FindingEntry]:
     """The check's own findings for what the window shows, as list entries.
 
     Parameters
@@ -117,17 +115,16 @@ def judged_findings(
     curves : tuple of SectionCurve
         The window's section curves.
     where : tuple of (plane, curve) pairs, one per curve
-    profile : ProfileInForce
+    profile : Profile
     """
     seam_dicts = seams.seams if seams is not None else ()
     free = seams.free_edges if seams is not None else ()
     flat = {pair: n for n, pair in enumerate(where)}
     found = []
     for f in review.collect(seam_dicts, free, section_entries(curves, where), profile):
-        kind = KINDS.get(f.kind, f.kind)
         position = None if f.where is None else np.asarray(f.where, float)
         detail = f"{_measured(f)}; profile {profile.name}"
-        if f.kind == "seam" and "seam" in f.ref:
+        if f.kind == Kind.SEAM and "seam" in f.ref:
             seam = seam_dicts[f.ref["seam"]]
             names = " / ".join(seam["face_names"])
             crease = ", designed crease" if seam.get("crease") else ""
@@ -137,7 +134,7 @@ def judged_findings(
             path = np.asarray(seams.lines[f.ref["seam"]].points, float)
             position = np.asarray(seam["worst_position"], float) if position is None else position
             extent = max(float(seam["length"]) / 4, 1.0)
-        elif f.kind == "inflection" and (f.ref.get("section"), f.ref.get("curve")) in flat:
+        elif f.kind == Kind.INFLECTION and (f.ref.get("section"), f.ref.get("curve")) in flat:
             curve = curves[flat[f.ref["section"], f.ref["curve"]]]
             count = int(f.value)
             title = f"{f.subject}: {count} inflection{'s' * (count != 1)}, limit {f.limit:g}"
@@ -147,16 +144,16 @@ def judged_findings(
         else:  # a kind this window does not know yet: show it as the check words it
             title, path, extent = f"{f.subject}: {_measured(f)}", np.zeros((0, 3)), 10.0
             position = np.zeros(3) if position is None else position
-        found.append(Finding(kind, title, f.verdict, position, extent, detail, path))
+        found.append(FindingEntry(f.kind, title, f.verdict, position, extent, detail, path))
     for edge, line in zip(free, seams.lines[len(seam_dicts) :] if seams else (), strict=True):
         points = np.asarray(line.points, float)
         title = f"free edge of {edge['face_name']}, {float(edge['length']):.1f} mm"
         extent = max(float(edge["length"]) / 4, 1.0)
-        found.append(Finding("free edge", title, "note", points[len(points) // 2], extent, "", points))
+        found.append(FindingEntry(Kind.FREE_EDGE, title, Verdict.NOTE, points[len(points) // 2], extent, "", points))
     return found
 
 
-def section_notes(curves: tuple[SectionCurve, ...], where: tuple[tuple[int, int], ...]) -> list[Finding]:
+def section_notes(curves: tuple[SectionCurve, ...], where: tuple[tuple[int, int], ...]) -> list[FindingEntry]:
     """Each inflection and each curvature extremum of the section curves, as notes to click."""
     found = []
     for curve, pair in zip(curves, where, strict=True):
@@ -165,17 +162,19 @@ def section_notes(curves: tuple[SectionCurve, ...], where: tuple[tuple[int, int]
         marks = curve.inflections
         for p, s, seam in zip(marks.points, marks.arc_length, marks.at_seam, strict=True):
             across = " (across a seam)" if seam else ""
-            found.append(Finding("inflection", f"{label}: inflection at s = {s:.1f} mm{across}", "note", p, extent))
+            found.append(
+                FindingEntry(Kind.INFLECTION, f"{label}: inflection at s = {s:.1f} mm{across}", Verdict.NOTE, p, extent)
+            )
         ext = curve.extrema
         for p, s, k, top in zip(ext.points, ext.arc_length, ext.curvature, ext.is_maximum, strict=True):
             radius = f", radius {1 / abs(k):.4g} mm" if k else ""
             title = f"{label}: curvature {'max' if top else 'min'} {k:.3g} at s = {s:.1f} mm"
             detail = f"curvature {'maximum' if top else 'minimum'} along {label}: {k:.5g} 1/mm{radius}, s = {s:.2f} mm"
-            found.append(Finding("section extremum", title, "note", p, extent, detail))
+            found.append(FindingEntry(Kind.SECTION_EXTREMUM, title, Verdict.NOTE, p, extent, detail))
     return found
 
 
-def curvature_extremes(model: Model, samples: tuple[FaceSamples, ...]) -> list[Finding]:
+def curvature_extremes(model: Model, samples: tuple[FaceSamples, ...]) -> list[FindingEntry]:
     """The tightest spot (largest max |k|) of each face, tightest face first.
 
     The radius is the face range's (:func:`app.review.faces.curvature_range`),
@@ -191,5 +190,5 @@ def curvature_extremes(model: Model, samples: tuple[FaceSamples, ...]) -> list[F
         title = f"{face_label(model, s.face)}: tightest radius {ranges.min_radius:.3g} mm"
         detail = f"max |k| {k:.4g} 1/mm (k1 {s.field.k1[i, j]:.4g}, k2 {s.field.k2[i, j]:.4g})"
         extent = min(10.0 / k, float(np.ptp(s.field.points[s.inside], axis=0).max()) or 10.0)
-        found.append((k, Finding("curvature extreme", title, "note", s.field.points[i, j], extent, detail)))
+        found.append((k, FindingEntry(Kind.CURVATURE, title, Verdict.NOTE, s.field.points[i, j], extent, detail)))
     return [f for _, f in sorted(found, key=lambda pair: -pair[0])]

@@ -13,14 +13,16 @@ from dataclasses import replace
 
 import numpy as np
 
-from app.review.profile import ProfileInForce, load_profile
+from app.profiles import Profile, get_profile
+from app.review import ReviewSettings, plane_spec
+from app.review.result import Kind, Verdict
 from geometry.model import Model
 from geometry.section_results import CurvatureComb, SectionCurve
 
 from .events import Notifier
-from .loading import Progress, measure_seams, prepare
+from .loading import Progress, prepare, with_seams_judged
 from .recent import RecentFiles
-from .results import FaceSamples, Finding, Loaded, measure_values
+from .results import FaceSamples, FindingEntry, Loaded, measure_values
 from .review_findings import curvature_extremes, curve_label, face_label, judged_findings, section_notes
 from .sectioning import comb_scale, combs_for, sections_for
 from .settings import SIGNED_MEASURES, ColourRange, DisplaySettings, SectionSettings
@@ -28,8 +30,8 @@ from .stripes import Camera, stripe_parameters
 
 # Robust automatic colour range: ignore this share of samples at each end.
 AUTO_PERCENTILE = 2.0
-KIND_ORDER = ("seam", "free edge", "inflection", "section extremum", "curvature extreme")
-VERDICT_ORDER = ("fail", "note", "pass")
+KIND_ORDER = (Kind.SEAM, Kind.FREE_EDGE, Kind.INFLECTION, Kind.SECTION_EXTREMUM, Kind.CURVATURE)
+VERDICT_ORDER = (Verdict.FAIL, Verdict.NOTE, Verdict.PASS)
 
 
 class Session:
@@ -51,7 +53,7 @@ class Session:
     def __init__(self, recent: RecentFiles | None = None, profile: str | None = None):
         self.events = Notifier()
         self.profile_choice: str | None = profile
-        self.profile: ProfileInForce = load_profile(profile)
+        self.profile: Profile = get_profile(profile)
         self.loaded: Loaded | None = None
         self.path: str | None = None
         self.display = DisplaySettings()
@@ -59,11 +61,11 @@ class Session:
         self.sections: tuple[SectionCurve, ...] = ()
         self.section_places: tuple[tuple[int, int], ...] = ()  # (plane, curve) of each section curve
         self.combs: tuple[CurvatureComb, ...] = ()
-        self.findings: tuple[Finding, ...] = ()
+        self.findings: tuple[FindingEntry, ...] = ()
         self.selection: int | None = None
         self.camera: Camera | None = None
         self.recent = recent or RecentFiles(None)
-        self._face_extremes: list[Finding] = []
+        self._face_extremes: list[FindingEntry] = []
 
     # -- what is loaded --------------------------------------------------
     @property
@@ -115,7 +117,7 @@ class Session:
             return  # another model was opened meanwhile
         review = loaded.seam_review
         if review is not None and review.profile.values != self.profile.values:
-            loaded = measure_seams(loaded, profile=self.profile)  # the user changed the profile meanwhile (rare)
+            loaded = with_seams_judged(loaded, profile=self.profile)  # the user changed the profile meanwhile (rare)
         self.loaded = loaded
         self.findings = self._collect_findings()
         self.selection = None
@@ -135,16 +137,16 @@ class Session:
         BattenError
             Unknown name or bad file; the profile in force stays as it was.
         """
-        profile = load_profile(name_or_path)
+        profile = get_profile(name_or_path)
         self.profile, self.profile_choice = profile, name_or_path
         if self.loaded is not None and remeasure:
-            self.loaded = measure_seams(self.loaded, profile=profile)
+            self.loaded = with_seams_judged(self.loaded, profile=profile)
         self.findings = self._collect_findings()
         self.selection = None
         self.events.emit("profile", "seams", "findings", "selection")
 
     @property
-    def review_settings(self):
+    def review_settings(self) -> ReviewSettings:
         """What ``batten check`` needs to say about this model what the window shows.
 
         Returns
@@ -153,8 +155,6 @@ class Session:
             The profile in force and the section planes on screen (``"none"``
             when the section tool is off).
         """
-        from app.review import ReviewSettings, plane_spec
-
         planes = self.section.planes() if self.section.enabled else []
         return ReviewSettings(profile=self.profile_choice, sections=plane_spec(planes))
 
@@ -279,7 +279,7 @@ class Session:
         self.selection = None
 
     # -- findings --------------------------------------------------------
-    def _collect_findings(self) -> tuple[Finding, ...]:
+    def _collect_findings(self) -> tuple[FindingEntry, ...]:
         if self.loaded is None:
             return ()
         model, places = self.loaded.model, self.section_places
@@ -291,7 +291,7 @@ class Session:
         found.sort(key=lambda f: (VERDICT_ORDER.index(f.verdict), KIND_ORDER.index(f.kind)))
         return tuple(found)
 
-    def filtered_findings(self, kinds=None, verdicts=None) -> list[tuple[int, Finding]]:
+    def filtered_findings(self, kinds=None, verdicts=None) -> list[tuple[int, FindingEntry]]:
         """(index, finding) pairs whose kind and verdict are among those given (None: any)."""
         return [
             (i, f)
@@ -306,7 +306,7 @@ class Session:
         self.events.emit("selection")
 
     @property
-    def selected_finding(self) -> Finding | None:
+    def selected_finding(self) -> FindingEntry | None:
         return None if self.selection is None else self.findings[self.selection]
 
     # -- status ----------------------------------------------------------

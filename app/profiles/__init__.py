@@ -1,4 +1,4 @@
-"""Seam tolerance profiles: named TOML files, shipped ones and the user's own.
+"""Tolerance profiles: named TOML files, shipped ones (in this folder) and the user's own.
 
 A profile file holds ``name``, ``title``, ``required`` (G0, G1 or G2), an
 optional ``base`` (the name of a shipped profile to start from), a
@@ -6,6 +6,8 @@ optional ``base`` (the name of a shipped profile to start from), a
 from. The shipped profiles live in ``app/profiles/``; every value in them is
 common practice, not a published standard. The geometry layer never sees the
 file: :attr:`Profile.tolerance` is the plain :class:`SeamTolerance` it takes.
+:class:`Profile` is the one profile type: the review judges with it, the
+window shows it and every result echoes :attr:`Profile.values`.
 
 Besides the seam values, ``[tolerance]`` may limit the inflections of each
 section curve: ``section_inflections_max`` (a whole number, 0 or more, or
@@ -66,6 +68,16 @@ class Profile:
     basis: MappingProxyType = field(default_factory=lambda: MappingProxyType({}))
     section_inflections_max: int | None = None
 
+    @property
+    def values(self) -> dict:
+        """Every value, JSON-ready (see :meth:`as_dict`)."""
+        return self.as_dict()
+
+    def limit(self, key: str, default: float | None = None) -> float | None:
+        """A tolerance by its key in :attr:`values` (None: no limit)."""
+        value = self.values.get(key, default)
+        return None if value is None else float(value)
+
     def as_dict(self) -> dict:
         """Plain data, echoed in every report and ``batten check`` result."""
         return {
@@ -119,7 +131,7 @@ def _count_limit(path: Path, key: str, value) -> int | None:
     return value
 
 
-def load_profile(path: str | Path, _depth: int = 0) -> Profile:
+def read_profile(path: str | Path, _depth: int = 0) -> Profile:
     """Read and check one profile file.
 
     Parameters
@@ -157,7 +169,7 @@ def load_profile(path: str | Path, _depth: int = 0) -> Profile:
             raise ProfileError(
                 str(path), f"base must name a shipped profile ({', '.join(_SHIPPED)}), got {base_name!r}"
             )
-        base = load_profile(shipped_path(base_name), _depth + 1)
+        base = read_profile(shipped_path(base_name), _depth + 1)
         values = {f.name: getattr(base.tolerance, f.name) for f in fields(SeamTolerance)}
         values[INFLECTIONS_KEY] = base.section_inflections_max
         basis = dict(base.basis)
@@ -219,8 +231,8 @@ def get_profile(name_or_path: str | Path | None = None) -> Profile:
     """
     key = DEFAULT_PROFILE if name_or_path is None else str(name_or_path)
     if key.lower() in _SHIPPED:  # names are case-blind: "class-A" is "class-a"
-        return load_profile(shipped_path(key.lower()))
+        return read_profile(shipped_path(key.lower()))
     path = Path(key)
     if path.suffix.lower() != ".toml" and not path.exists():
         raise ProfileError(key, f"not a profile name ({', '.join(_SHIPPED)}) nor a .toml file")
-    return load_profile(path)
+    return read_profile(path)
