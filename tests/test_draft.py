@@ -15,7 +15,7 @@ from __future__ import annotations
 import numpy as np
 import pytest
 from numpy.testing import assert_allclose
-from test_section_shapes import cylinder, sphere
+from shapes import cylinder, sphere
 
 from geometry.errors import BattenError
 from geometry.model import Face, Model

@@ -14,7 +14,7 @@ from __future__ import annotations
 
 import numpy as np
 import pytest
-from test_section_shapes import cylinder
+from shapes import cylinder
 
 from geometry.model import Face, Model
 from geometry.primitives import bilinear
