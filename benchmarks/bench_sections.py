@@ -18,7 +18,7 @@ import time
 
 import numpy as np
 
-from geometry.combs import comb_scale, curvature_comb
+from geometry.combs import curvature_comb, scale_for_longest_tooth
 from geometry.model import Face, Model
 from geometry.nurbs import NurbsSurface
 from geometry.sections import SectionEngine
@@ -60,7 +60,7 @@ def _cached(engine: SectionEngine, origins, normal, exact: bool) -> tuple[float,
     t0 = time.perf_counter()
     for origin in origins:
         section = engine.plane(origin, normal, exact=exact)
-        scale = comb_scale(section.curves, 20.0)
+        scale = scale_for_longest_tooth(section.curves, 20.0)
         combs = [curvature_comb(c, -scale) for c in section.curves]
         points += sum(c.roots.shape[0] for c in combs)
     return (time.perf_counter() - t0) * 1e3 / len(origins), points // len(origins)
@@ -70,7 +70,7 @@ def _uncached(model: Model, origins, normal) -> float:
     t0 = time.perf_counter()
     for origin in origins:
         section = SectionEngine(model).plane(origin, normal, exact=False)
-        scale = comb_scale(section.curves, 20.0)
+        scale = scale_for_longest_tooth(section.curves, 20.0)
         [curvature_comb(c, -scale) for c in section.curves]
     return (time.perf_counter() - t0) * 1e3 / len(origins)
 

@@ -54,7 +54,7 @@ def main(argv: list[str]) -> int:
 
     from app.render.scene import Scene
     from app.state import Camera, Measure, Mode, Session
-    from app.state.loading import measure_seams, prepare
+    from app.state.loading import prepare, with_seams_judged
     from geometry.io import read_model
 
     path = Path(argv[0]) if argv else largest_sample()
@@ -76,7 +76,7 @@ def main(argv: list[str]) -> int:
     samples = sum(int(s.inside.sum()) for s in session.samples)
     print(f"{len(model.faces)} faces, {samples} samples on faces")
     line("open to first coloured frame", open_ms, "reading the file alone", read_ms)
-    seams_ms, measured = timed(lambda: measure_seams(session.loaded))
+    seams_ms, measured = timed(lambda: with_seams_judged(session.loaded))
     session.adopt_seams(measured)
     print(f"{'   then seams measured (window stays usable)':<44} {seams_ms:9.1f} ms")
 

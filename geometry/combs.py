@@ -50,7 +50,7 @@ def curvature_comb(curve: SectionCurve, scale: float, spacing: float | None = No
     return CurvatureComb(roots, tips, at, k, float(scale), bool(curve.closed))
 
 
-def comb_scale(curves: Iterable[SectionCurve], longest_tooth: float) -> float:
+def scale_for_longest_tooth(curves: Iterable[SectionCurve], longest_tooth: float) -> float:
     """The scale at which the longest tooth over ``curves`` is ``longest_tooth`` mm (1.0 if all are straight)."""
     peak = max((float(np.max(np.abs(c.curvature))) for c in curves if c.curvature.size), default=0.0)
     return longest_tooth / peak if peak > 0 else 1.0

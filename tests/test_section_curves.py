@@ -22,7 +22,7 @@ from scipy.optimize import brentq
 from shapes import cubic_sweep, model_of, sphere
 from surface_factories import random_geomdl_nurbs
 
-from geometry.combs import comb_scale, curvature_comb
+from geometry.combs import curvature_comb, scale_for_longest_tooth
 from geometry.interop import from_geomdl
 from geometry.model import Face, Model
 from geometry.nurbs import NurbsSurface
@@ -170,7 +170,7 @@ def test_comb_at_a_spacing_and_flip_at_the_inflection():
     assert comb.arc_length[-1] == pytest.approx(curve.length)
     side = np.einsum("ij,j->i", comb.tips - comb.roots, [0, 0, 1.0])
     assert np.all(side[comb.roots[:, 0] < -0.1] < 0) and np.all(side[comb.roots[:, 0] > 0.1] > 0)
-    assert comb_scale([curve], 10.0) == pytest.approx(10.0 / np.max(np.abs(curve.curvature)))
+    assert scale_for_longest_tooth([curve], 10.0) == pytest.approx(10.0 / np.max(np.abs(curve.curvature)))
 
 
 def test_illinois_roots_against_brentq():
