@@ -11,6 +11,8 @@ from __future__ import annotations
 
 import argparse
 
+from app.commands import add_pull_argument
+
 EXIT_OK, EXIT_FINDINGS, EXIT_BAD_INPUT, EXIT_INTERNAL = 0, 1, 2, 3
 
 SPEC_HELP = (
@@ -49,16 +51,25 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
         metavar="N",
         help="files checked at once in separate processes (default: one per core)",
     )
+    add_pull_argument(
+        parser,
+        "pull direction of the mould for the draft and undercut checks, overriding the profile's 'pull'",
+    )
     parser.add_argument("--quiet", action="store_true", help="no progress lines on stderr")
 
 
 def run(args: argparse.Namespace) -> int:
     from app.review.batch import BatchOptions, run_batch
     from app.review.runner import ReviewSettings
+    from geometry.tooling import unit_pull
 
     options = BatchOptions(
         files=tuple(args.files),
-        settings=ReviewSettings(profile=args.profile, sections=args.sections),
+        settings=ReviewSettings(
+            profile=args.profile,
+            sections=args.sections,
+            pull=None if args.pull is None else tuple(unit_pull(args.pull).tolist()),
+        ),
         report=args.report,
         json=args.json,
         jobs=args.jobs,

@@ -18,6 +18,7 @@ listed and marked, not judged.
 
 from __future__ import annotations
 
+import math
 import tomllib
 from dataclasses import dataclass, field, fields
 from importlib import resources
@@ -29,12 +30,18 @@ from geometry.seam_tolerance import CLASSES, SeamTolerance
 
 DEFAULT_PROFILE = "class-a"
 _SHIPPED = {"class-a": "class_a.toml", "technical": "technical.toml"}
-_TOP_KEYS = {"name", "title", "required", "base", "tolerance", "basis"}
+_TOP_KEYS = {"name", "title", "required", "base", "tolerance", "basis", "tooling"}
 _NUMBERS = ("position_mm", "tangent_deg", "curvature_relative", "flat_curvature_per_mm", "crease_deg")
 # Inflections allowed per section curve (the key app.review.findings reads); "none": no limit.
 INFLECTIONS_KEY = "section_inflections_max"
 _NO_LIMIT = "none"
 _KEYS = (*_NUMBERS, INFLECTIONS_KEY)
+# [tooling]: the release checks (geometry.tooling); "none" skips one.
+PULL_KEY, DRAFT_KEY, CUTTER_KEY = "pull", "draft_min_deg", "cutter_radius_mm"
+TOOLING_KEYS = (PULL_KEY, DRAFT_KEY, CUTTER_KEY)
+# Without a [tooling] table: no pull (no draft or undercut check: the pull belongs to each part),
+# 1 degree of draft and a 1 mm ball-end cutter, the conservative ends of common practice.
+TOOLING_DEFAULTS = MappingProxyType({PULL_KEY: None, DRAFT_KEY: 1.0, CUTTER_KEY: 1.0})
 
 
 class ProfileError(ReadError):
@@ -59,6 +66,9 @@ class Profile:
         Where each value comes from (e.g. "common practice, no published source").
     section_inflections_max : int or None
         Most inflections a section curve may have; None: no limit (listed, not judged).
+    tooling : mapping
+        ``pull`` (three floats or None: no draft or undercut check), ``draft_min_deg``
+        and ``cutter_radius_mm`` (None: that check is skipped).
     """
 
     name: str
@@ -67,6 +77,7 @@ class Profile:
     tolerance: SeamTolerance
     basis: MappingProxyType = field(default_factory=lambda: MappingProxyType({}))
     section_inflections_max: int | None = None
+    tooling: MappingProxyType = field(default_factory=lambda: TOOLING_DEFAULTS)
 
     @property
     def values(self) -> dict:
@@ -86,6 +97,7 @@ class Profile:
             "path": self.path,
             **self.tolerance.as_dict(),
             INFLECTIONS_KEY: self.section_inflections_max,
+            **{k: (list(v) if isinstance(v, tuple) else v) for k, v in self.tooling.items()},
             "basis": dict(self.basis),
         }
 
@@ -131,6 +143,39 @@ def _count_limit(path: Path, key: str, value) -> int | None:
     return value
 
 
+def _tooling_value(path: Path, key: str, value):
+    """One [tooling] value: "none", a positive number, or for ``pull`` three numbers, not all zero."""
+    if isinstance(value, str) and value.strip().lower() == _NO_LIMIT:
+        return None
+    if key == PULL_KEY:
+        ok = isinstance(value, list) and len(value) == 3
+        ok = ok and all(isinstance(c, int | float) and not isinstance(c, bool) for c in value)
+        if not ok or not all(math.isfinite(c) for c in value) or not any(value):
+            raise ProfileError(
+                str(path), f'[tooling] pull must be three numbers, not all zero, or "none", got {value!r}'
+            )
+        return tuple(float(c) for c in value)
+    if isinstance(value, bool) or not isinstance(value, int | float) or not math.isfinite(value) or value <= 0:
+        raise ProfileError(str(path), f'[tooling] {key} must be a positive number or "none", got {value!r}')
+    if key == DRAFT_KEY and value >= 90:
+        raise ProfileError(str(path), f"[tooling] {key} must be below 90 degrees, got {value!r}")
+    return float(value)
+
+
+def _tooling(path: Path, table, base, basis: dict) -> MappingProxyType:
+    if not isinstance(table, dict):
+        raise ProfileError(str(path), "[tooling] must be a table")
+    unknown = sorted(set(table) - set(TOOLING_KEYS))
+    if unknown:
+        expected = ", ".join(TOOLING_KEYS)
+        raise ProfileError(str(path), f"unknown [tooling] key(s) {', '.join(unknown)}; expected {expected}")
+    values = dict(base)
+    for key, value in table.items():
+        values[key] = _tooling_value(path, key, value)
+        basis.setdefault(key, f"set in {path.name}")
+    return MappingProxyType(values)
+
+
 def read_profile(path: str | Path, _depth: int = 0) -> Profile:
     """Read and check one profile file.
 
@@ -163,6 +208,7 @@ def read_profile(path: str | Path, _depth: int = 0) -> Profile:
         raise ProfileError(str(path), f"unknown [tolerance] key(s) {', '.join(unknown)}; expected {', '.join(_KEYS)}")
     values: dict = {}
     basis: dict = {}
+    tooling_base = TOOLING_DEFAULTS
     base_name = data.get("base")
     if base_name is not None:
         if base_name not in _SHIPPED or _depth > 0:
@@ -173,6 +219,7 @@ def read_profile(path: str | Path, _depth: int = 0) -> Profile:
         values = {f.name: getattr(base.tolerance, f.name) for f in fields(SeamTolerance)}
         values[INFLECTIONS_KEY] = base.section_inflections_max
         basis = dict(base.basis)
+        tooling_base = base.tooling
     for key in _NUMBERS:
         if key in tol_table:
             values[key] = _number(path, key, tol_table[key], allow_none=key == "crease_deg")
@@ -195,6 +242,7 @@ def read_profile(path: str | Path, _depth: int = 0) -> Profile:
         basis["required"] = str(basis_table.get("required", f"set in {path.name}"))
     for key, text in basis_table.items():
         basis.setdefault(key, str(text))
+    tooling = _tooling(path, data.get("tooling", {}), tooling_base, basis)
     crease = values.get("crease_deg")
     if crease is not None and crease > 180:
         raise ProfileError(str(path), f"[tolerance] crease_deg must be at most 180, got {crease!r}")
@@ -208,7 +256,7 @@ def read_profile(path: str | Path, _depth: int = 0) -> Profile:
         crease_deg=crease,
         source=str(path),
     )
-    return Profile(name, title, str(path), tolerance, MappingProxyType(basis), values.get(INFLECTIONS_KEY))
+    return Profile(name, title, str(path), tolerance, MappingProxyType(basis), values.get(INFLECTIONS_KEY), tooling)
 
 
 def get_profile(name_or_path: str | Path | None = None) -> Profile:

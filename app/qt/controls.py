@@ -22,6 +22,8 @@ from PySide6.QtWidgets import (
 from app.state import Measure, Mode, Session
 from app.state.review_findings import curve_label
 from app.state.settings import AXES, STRIPE_MODES
+from app.state.tooling import SUGGESTIONS
+from geometry.errors import BattenError
 
 
 def _blocked(*widgets):
@@ -60,6 +62,12 @@ class DisplayPanel(QWidget):
         for axis in AXES:
             self.stripe_direction.addItem(f"along {axis}", axis)
         self.seams = QCheckBox("seam lines")
+        self.pull = [_spin(-1e3, 1e3, 0.1, 4) for _ in range(3)]
+        self.apply_pull = QPushButton("Set pull")
+        self.suggest = QComboBox()
+        self.suggest.addItem("pick a pull...", None)
+        for how in SUGGESTIONS:
+            self.suggest.addItem(how, how)
 
         surface = QGroupBox("Surface")
         form = QFormLayout(surface)
@@ -74,9 +82,16 @@ class DisplayPanel(QWidget):
         sform.addRow("Count", self.stripe_count)
         sform.addRow("Light share", self.stripe_width)
         sform.addRow("Lines", self.stripe_direction)
+        draft = QGroupBox("Draft (pull direction)")
+        dform = QFormLayout(draft)
+        for axis, box in zip("xyz", self.pull, strict=True):
+            dform.addRow(f"Pull {axis}", box)
+        dform.addRow(self.apply_pull)
+        dform.addRow(self.suggest)
         layout = QVBoxLayout(self)
         layout.addWidget(surface)
         layout.addWidget(stripes)
+        layout.addWidget(draft)
         layout.addStretch(1)
 
         self.mode.currentIndexChanged.connect(lambda: session.set_display(mode=self.mode.currentData()))
@@ -90,9 +105,25 @@ class DisplayPanel(QWidget):
             lambda: session.set_stripes(direction=self.stripe_direction.currentData())
         )
         self.seams.toggled.connect(lambda on: session.set_display(show_seams=bool(on)))
+        self.apply_pull.clicked.connect(self._pull_typed)
+        self.suggest.currentIndexChanged.connect(self._pull_suggested)
         session.subscribe("display", self.refresh)
+        session.subscribe("tooling", self.refresh)
         session.subscribe("model", self.refresh)
         self.refresh()
+
+    def _pull_typed(self, *_):
+        try:
+            self.session.set_pull([box.value() for box in self.pull])
+        except BattenError:
+            self.refresh()  # a zero vector: show the pull in force again
+
+    def _pull_suggested(self, *_):
+        how = self.suggest.currentData()
+        if how is not None:
+            self.session.suggest_pull(how)
+        with QSignalBlocker(self.suggest):
+            self.suggest.setCurrentIndex(0)
 
     def _range_changed(self, *_):
         if self.auto_range.isChecked():
@@ -112,8 +143,11 @@ class DisplayPanel(QWidget):
             self.stripe_width,
             self.stripe_direction,
             self.seams,
+            *self.pull,
         )
         blockers = _blocked(*widgets)
+        for box, value in zip(self.pull, self.session.pull, strict=True):
+            box.setValue(value)
         self.mode.setCurrentIndex(self.mode.findData(d.mode))
         self.measure.setCurrentIndex(self.measure.findData(d.measure))
         self.auto_range.setChecked(d.colour_range.auto)

@@ -1,4 +1,4 @@
-"""The findings list (seams, free edges, inflections, curvature extrema) and the profile that judges them."""
+"""The findings list (seams, free edges, inflections, curvature extrema, tooling) and the profile that judges them."""
 
 from __future__ import annotations
 
@@ -20,6 +20,9 @@ KIND_WORDS = {
     Kind.INFLECTION: "inflections",
     Kind.SECTION_EXTREMUM: "curvature extrema of sections",
     Kind.CURVATURE: "tightest spot of each face",
+    Kind.DRAFT: "faces short of draft",
+    Kind.UNDERCUT: "undercut regions",
+    Kind.CUTTER_REACH: "out of the cutter's reach",
 }
 
 

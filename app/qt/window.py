@@ -98,6 +98,7 @@ class MainWindow(QMainWindow):
         s.subscribe("section", self._section_settings_changed)
         s.subscribe("selection", self._selection_changed)
         s.subscribe("seams", lambda _: self.scene.update_seams())
+        s.subscribe("tooling", lambda _: self.scene.update_surface())
         s.subscribe("profile", lambda _: self._update_status())
         s.subscribe("curve", lambda _: self._show_graph())
         s.subscribe("recent", self._fill_recent)

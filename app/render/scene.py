@@ -19,6 +19,7 @@ from .combs import comb_envelopes, comb_teeth, marker_points, polylines, section
 from .meshes import FaceMesh, face_mesh
 from .seams import seam_lines
 from .stripes import stripe_range, stripe_table
+from .tooling import LEGEND_TITLE, add_tooling
 
 # How far the camera stands from a focused finding, in finding extents.
 FOCUS_DISTANCE = 4.0
@@ -105,6 +106,8 @@ class Scene:
             return
         if self.surface_actor is not None:
             self.plotter.remove_actor(self.surface_actor, render=False)
+        for name in [n for n in self.actors if n.startswith("tooling ")]:
+            self.plotter.remove_actor(self.actors.pop(name), render=False)
         self._remove_legend()
         # a shallow copy per mode (arrays shared), so one mode's arrays never reach another's mapper
         mesh = self.surface = self.faces.mesh.copy(deep=False)
@@ -126,6 +129,14 @@ class Scene:
                 scalar_bar_args=LEGEND | {"title": self.legend},
                 **common,
             )
+            self.plotter.scalar_bars[self.legend].SetVisibility(True)
+        elif mode == Mode.DRAFT and self.session.tooling is not None:
+            # the draft view draws the check's own grids (one analysis for window, check and report)
+            added = add_tooling(self.plotter, self.session.tooling, self.session.model.bounds, LEGEND)
+            self.surface_actor = added.pop("faces")
+            self.surface = self.surface_actor.mapper.dataset
+            self.actors.update({f"tooling {name}": actor for name, actor in added.items()})
+            self.legend = LEGEND_TITLE
             self.plotter.scalar_bars[self.legend].SetVisibility(True)
         elif mode in STRIPE_MODES:
             self.update_stripes(render=False)
@@ -241,8 +252,8 @@ class Scene:
     # -- picking ---------------------------------------------------------
     def pick(self, x: int, y: int) -> tuple[int, int, int] | None:
         """(face, i, j) of the grid sample nearest the surface under display pixel (x, y)."""
-        if self.faces is None or self.surface_actor is None:
-            return None
+        if self.faces is None or self.surface_actor is None or self.session.display.mode == Mode.DRAFT:
+            return None  # the draft view draws its own grids, which the curvature probe does not index
         if self._locator is None:
             self._locator = vtk.vtkStaticCellLocator()
             self._locator.SetDataSet(self.faces.mesh)

@@ -25,6 +25,9 @@ from .tables import (
     free_edge_rows,
     inflection_rows,
     seam_rows,
+    tooling_facts,
+    tooling_rows,
+    undercut_rows,
 )
 
 REVIEW_AID = (
@@ -63,6 +66,14 @@ FIGURES_NOTE = (
     '<p style="font-size: 8pt;">pieces: monotone pieces of the curvature plot (a fair curve has few; Farin, '
     "<i>Curves and Surfaces for CAGD</i>, 5th ed., sec. 23.1). int (dk/ds)^2 ds: curvature variation along the "
     "curve, 1/mm^3 (after Moreton and Sequin's minimum variation idea).</p>"
+)
+TOOLING_NOTE = (
+    '<p style="font-size: 8pt;">draft: asin(n . pull) with the outward normal, signed (positive: the face '
+    "leaves with the mould half moving along +pull); short: area with |draft| below the limit. undercut: "
+    "area whose straight path out along its release direction meets the part again. radius: tightest concave "
+    "bend (1 / largest positive principal curvature); no reach: area a ball-end cutter of the profile's radius "
+    "cannot finish. Sharp inside creases are not curvature and are not judged here. The limits are common "
+    "practice; your organisation's tooling standard decides.</p>"
 )
 # Column widths (percent) of the tables whose text columns would otherwise wrap mid-word.
 WIDTHS = {
@@ -232,6 +243,10 @@ def file_part(review: FileReview, figures: Sequence[Figure], image_src: Callable
     parts += ["<h3>Inflections</h3>", _table(*inflection_rows(review), "no inflections found")]
     parts += ["<h3>Curvature extrema</h3>", _table(*extrema_rows(review), "no curvature extrema found"), SIGN_NOTE]
     parts += ["<h3>Faces and curvature ranges</h3>", _table(*face_rows(review), "no faces"), SIGN_NOTE]
+    if review.tooling:
+        parts += ["<h3>Release to tooling</h3>", _kv(tooling_facts(review)), "<p></p>"]
+        parts += [_table(*tooling_rows(review), "no faces"), TOOLING_NOTE]
+        parts += ["<h3>Undercut regions</h3>", _table(*undercut_rows(review), "none found")]
     if review.warnings:
         parts.append(
             "<h3>Notes from reading and checking</h3><ul>"

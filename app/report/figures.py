@@ -17,6 +17,7 @@ import numpy as np
 
 from app.render import colours
 from app.render.scene import Scene
+from app.render.tooling import OUT_OF_REACH_NAME, UNDERCUT_NAME, draft_span
 from app.review.result import FAIL, FileReview
 from app.state import Mode, Session
 from app.state.loading import sample_model, typical_curvature
@@ -24,6 +25,7 @@ from app.state.results import Loaded, SeamView
 from app.state.settings import SectionSettings, StripeSettings
 from geometry.conventions import CURVATURE_SIGN
 from geometry.model import Model
+from geometry.tooling import analyse_tooling
 
 IMAGE_SIZE = (1000, 700)
 ZOOM = 1.2
@@ -202,6 +204,26 @@ def comb_view(pictures: _Pictures) -> Figure | None:
     return pictures.take("combs", caption)
 
 
+def draft_view(pictures: _Pictures, model: Model) -> Figure | None:
+    """The check's draft, undercut and cutter reach in the window's draft view; None without a pull."""
+    tooling = pictures.review.tooling
+    if not tooling or tooling.get("pull") is None:
+        return None
+    # the check's own analysis again (same grids, same limits): the picture shows what the tables say
+    analysis = analyse_tooling(model, tooling["pull"], tooling["draft_min_deg"], tooling["cutter_radius_mm"])
+    pictures.session.show_tooling(analysis)
+    pictures.show(Mode.DRAFT, "iso")
+    limit, span = draft_span(analysis)
+    pull = ", ".join(f"{c:.3g}" for c in tooling["pull"])
+    caption = (
+        f"Draft against the pull ({pull}) (green arrow) as the window shows it, degrees, from -{span:g} to {span:g}: "
+        f"blue faces leave along +pull, green along -pull; pale to red: below the {limit:g} degree limit. Black "
+        f"lines: zero draft (where a parting line can run). Overlays: undercut ({UNDERCUT_NAME}), out of the "
+        f"cutter's reach ({OUT_OF_REACH_NAME}). Numbers: findings over tolerance."
+    )
+    return pictures.take("draft", caption)
+
+
 def _png_of(fig) -> bytes:
     """PNG bytes of a matplotlib figure, without a resolution tag (Qt would rescale a tagged image)."""
     from PIL import Image
@@ -280,6 +302,9 @@ def render_figures(
     try:
         figures = [findings_view(pictures), *curvature_views(pictures), stripe_view(pictures)]
         comb = comb_view(pictures)
+        draft = draft_view(pictures, model)
+        if draft is not None:
+            figures.append(draft)
     finally:
         pictures.close()
     if comb is not None:

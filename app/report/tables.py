@@ -188,3 +188,69 @@ def face_rows(review: FileReview):
             )
         )
     return header, rows
+
+
+def _area(value) -> str:
+    return "-" if value is None else f"{num(value)} mm^2"
+
+
+def tooling_facts(review: FileReview) -> list[tuple[str, str]]:
+    """The tooling settings and totals of a file, as (label, text) pairs (empty when not checked)."""
+    t = review.tooling
+    if not t:
+        return []
+    pull = "none (no draft or undercut check)" if t["pull"] is None else f"{xyz(t['pull'])} (from {t['pull_source']})"
+    limit = "not judged" if t["draft_min_deg"] is None else f"{num(t['draft_min_deg'])} deg"
+    cutter = "not judged" if t["cutter_radius_mm"] is None else f"{num(t['cutter_radius_mm'])} mm ball end"
+    radius = t["concave_radius_mm"]
+    return [
+        ("pull direction", pull),
+        ("least draft", limit),
+        (
+            "area short of draft",
+            "-" if t["insufficient_area_mm2"] is None else f"{num(t['insufficient_area_mm2'])} mm^2",
+        ),
+        ("undercut area", "-" if t["undercut_area_mm2"] is None else f"{num(t['undercut_area_mm2'])} mm^2"),
+        ("cutter", cutter),
+        ("tightest concave radius", "nothing concave" if radius is None else f"{num(radius)} mm"),
+    ]
+
+
+def tooling_rows(review: FileReview):
+    """Per face: draft range, least draft, area short of draft, undercut area, concave radius, area out of reach."""
+    header = [
+        "face",
+        "area mm^2",
+        "draft deg",
+        "least |draft|",
+        "short mm^2",
+        "undercut mm^2",
+        "radius mm",
+        "no reach mm^2",
+    ]
+    rows = []
+    for f in (review.tooling or {}).get("faces", ()):
+        span = f["draft_range_deg"]
+        rows.append(
+            (
+                f"{f['face']} {f['name']}".strip(),
+                num(f["area_mm2"]),
+                "-" if span is None else f"{num(span[0])} .. {num(span[1])}",
+                num(f["least_draft_deg"]),
+                num(f["insufficient_area_mm2"]),
+                num(f["undercut_area_mm2"]),
+                num(f["concave_radius_mm"]),
+                num(f["out_of_reach_area_mm2"]),
+            )
+        )
+    return header, rows
+
+
+def undercut_rows(review: FileReview):
+    header = ["region", "face", "area mm^2", "centre (mm)"]
+    regions = (review.tooling or {}).get("undercuts", ())
+    rows = [
+        (str(i + 1), f"{r['face']} {r['name']}".strip(), num(r["area_mm2"]), xyz(r["centre"]))
+        for i, r in enumerate(regions)
+    ]
+    return header, rows

@@ -27,6 +27,8 @@ INFLECTION_LIMIT_KEY = "section_inflections_max"
 
 
 def _ratio(f: Finding) -> float:
+    if f.kind == Kind.CUTTER_REACH:  # a radius: the smaller, the worse
+        return f.limit / f.value if f.value > 0 else float("inf")
     if f.limit:
         return f.value / f.limit
     return float("inf") if f.value > 0 else 0.0

@@ -13,7 +13,7 @@ from enum import StrEnum
 from .faces import FaceSummary
 
 SCHEMA_ID = "batten-check"
-SCHEMA_VERSION = "1.0"
+SCHEMA_VERSION = "1.1"  # 1.1: tooling (draft, undercut, cutter reach)
 
 
 class Verdict(StrEnum):
@@ -32,6 +32,9 @@ class Kind(StrEnum):
     INFLECTION = "inflection"
     SECTION_EXTREMUM = "section_extremum"  # a curvature extremum of a section curve
     CURVATURE = "curvature"  # the tightest spot of a face
+    DRAFT = "draft"  # a face's least draft against the profile's minimum
+    UNDERCUT = "undercut"  # a region whose release path meets the part
+    CUTTER_REACH = "cutter_reach"  # a face's tightest concave radius against the cutter
 
 
 PASS, FAIL = Verdict.PASS, Verdict.FAIL
@@ -114,6 +117,7 @@ class FileReview:
     section_curves: tuple = ()
     section_places: tuple[tuple[int, int], ...] = ()
     lines: tuple = ()
+    tooling: dict | None = None
 
     @property
     def verdict(self) -> str:
@@ -156,6 +160,7 @@ class FileReview:
             "free_edges": list(self.free_edges),
             "sections": list(self.sections),
             "warnings": list(self.warnings),
+            "tooling": self.tooling,
             "summary": self.summary(),
         }
 

@@ -23,6 +23,7 @@ from .result import UNREADABLE, FileReview
 from .seam_entries import seams_and_free_edges
 from .section_entries import cut_sections
 from .spec import DEFAULT_SPEC, parse_spec, planes_for
+from .tooling_entries import pull_in_force, run_tooling, tooling_entry, tooling_findings
 
 Progress = Callable[[str], None]
 
@@ -38,10 +39,13 @@ class ReviewSettings:
         the default profile.
     sections : str
         A SPEC (see :mod:`app.review.spec`).
+    pull : tuple of 3 float or None
+        Pull direction for the tooling checks, overriding the profile's.
     """
 
     profile: str | None = None
     sections: str = DEFAULT_SPEC
+    pull: tuple[float, float, float] | None = None
 
 
 def _quiet(_: str) -> None:
@@ -79,7 +83,11 @@ def review_model(model: Model, settings: ReviewSettings = ReviewSettings(), prog
     if planes:
         progress(f"{name}: cutting {len(planes)} section plane(s)")
         sections, curves, places = cut_sections(model, planes)
-    found = findings.collect(seams, free_edges, sections, profile)
+    pull, pull_source = pull_in_force(profile, settings.pull)
+    if pull is not None or profile.limit("cutter_radius_mm") is not None:
+        progress(f"{name}: tooling checks" + (f" (pull {', '.join(f'{c:g}' for c in pull)})" if pull else ""))
+    tooling = tooling_entry(model, run_tooling(model, profile, settings.pull), pull_source)
+    found = findings.worst_first([*findings.collect(seams, free_edges, sections, profile), *tooling_findings(tooling)])
     return FileReview(
         source=model.source,
         status="checked",
@@ -98,6 +106,7 @@ def review_model(model: Model, settings: ReviewSettings = ReviewSettings(), prog
         section_curves=curves,
         section_places=places,
         lines=lines,
+        tooling=tooling,
     )
 
 

@@ -18,6 +18,7 @@ TOPICS = (
     "camera",
     "profile",
     "curve",
+    "tooling",
 )
 
 

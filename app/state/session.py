@@ -16,8 +16,10 @@ import numpy as np
 from app.profiles import Profile, get_profile
 from app.review import ReviewSettings, plane_spec
 from app.review.result import Kind, Verdict
+from app.review.tooling_entries import run_tooling
 from geometry.model import Model
 from geometry.section_results import CurvatureComb, SectionCurve
+from geometry.tooling import unit_pull
 
 from .events import Notifier
 from .loading import Progress, prepare, with_seams_judged
@@ -25,12 +27,22 @@ from .recent import RecentFiles
 from .results import FaceSamples, FindingEntry, Loaded, measure_values
 from .review_findings import curvature_extremes, curve_label, face_label, judged_findings, section_notes
 from .sectioning import comb_scale, combs_for, sections_for
-from .settings import SIGNED_MEASURES, ColourRange, DisplaySettings, SectionSettings
+from .settings import SIGNED_MEASURES, ColourRange, DisplaySettings, Mode, SectionSettings
 from .stripes import Camera, stripe_parameters
+from .tooling import starting_pull, suggested_pull, tooling_list
 
 # Robust automatic colour range: ignore this share of samples at each end.
 AUTO_PERCENTILE = 2.0
-KIND_ORDER = (Kind.SEAM, Kind.FREE_EDGE, Kind.INFLECTION, Kind.SECTION_EXTREMUM, Kind.CURVATURE)
+KIND_ORDER = (
+    Kind.SEAM,
+    Kind.FREE_EDGE,
+    Kind.INFLECTION,
+    Kind.SECTION_EXTREMUM,
+    Kind.CURVATURE,
+    Kind.DRAFT,
+    Kind.UNDERCUT,
+    Kind.CUTTER_REACH,
+)
 VERDICT_ORDER = (Verdict.FAIL, Verdict.NOTE, Verdict.PASS)
 
 
@@ -56,6 +68,9 @@ class Session:
         self.profile: Profile = get_profile(profile)
         self.loaded: Loaded | None = None
         self.path: str | None = None
+        # the tooling view: computed when the draft mode is on, for this pull
+        self.pull: tuple[float, float, float] = starting_pull(self.profile)
+        self.tooling = None
         self.display = DisplaySettings()
         self.section = SectionSettings()
         self.sections: tuple[SectionCurve, ...] = ()
@@ -108,6 +123,7 @@ class Session:
         self.selection = None
         if path is not None:
             self.recent.add(path)
+        self._recompute_tooling()
         self._recompute_sections()
         self.events.emit("model", "section", "sections", "findings", "selection", "recent")
 
@@ -139,11 +155,14 @@ class Session:
         """
         profile = get_profile(name_or_path)
         self.profile, self.profile_choice = profile, name_or_path
+        if profile.values.get("pull"):
+            self.pull = starting_pull(profile)
         if self.loaded is not None and remeasure:
             self.loaded = with_seams_judged(self.loaded, profile=profile)
+        self._recompute_tooling()
         self.findings = self._collect_findings()
         self.selection = None
-        self.events.emit("profile", "seams", "findings", "selection")
+        self.events.emit("profile", "seams", "tooling", "findings", "selection")
 
     @property
     def review_settings(self) -> ReviewSettings:
@@ -152,11 +171,14 @@ class Session:
         Returns
         -------
         app.review.ReviewSettings
-            The profile in force and the section planes on screen (``"none"``
-            when the section tool is off).
+            The profile in force, the section planes on screen (``"none"``
+            when the section tool is off) and the draft view's pull (None when
+            the draft view is not computed).
         """
         planes = self.section.planes() if self.section.enabled else []
-        return ReviewSettings(profile=self.profile_choice, sections=plane_spec(planes))
+        # the tooling checks go in when the draft view is computed, for the pull it shows
+        pull = self.pull if self.tooling is not None else None
+        return ReviewSettings(profile=self.profile_choice, sections=plane_spec(planes), pull=pull)
 
     def forget_recent(self, path: str) -> None:
         self.recent.remove(path)
@@ -166,7 +188,47 @@ class Session:
     def set_display(self, **changes) -> None:
         """Replace display fields (mode, measure, show_seams)."""
         self.display = replace(self.display, **changes)
+        if self.display.mode == Mode.DRAFT and self.tooling is None and self.loaded is not None:
+            self._recompute_tooling()
+            self.findings = self._collect_findings()
+            self.selection = None
+            self.events.emit("display", "tooling", "findings", "selection")
+            return
         self.events.emit("display")
+
+    # -- tooling ---------------------------------------------------------
+    def set_pull(self, pull) -> None:
+        """Set the pull direction of the draft view (any length but zero).
+
+        Raises
+        ------
+        BattenError
+            A zero or non-finite vector; the pull in force stays.
+        """
+        self.pull = tuple(float(c) for c in unit_pull(pull))
+        self._recompute_tooling(force=True)
+        self.findings = self._collect_findings()
+        self.selection = None
+        self.events.emit("tooling", "findings", "selection")
+
+    def suggest_pull(self, how: str) -> None:
+        """Set the pull to the model's thinnest axis or to the axis with the least area out of draft."""
+        if self.loaded is not None:
+            self.set_pull(suggested_pull(self.loaded.model, how, self.profile.limit("draft_min_deg")))
+
+    def show_tooling(self, analysis) -> None:
+        """Show an already computed tooling analysis (the report's pictures show the check's own)."""
+        self.pull = tuple(float(c) for c in analysis.pull)
+        self.tooling = analysis
+        self.findings = self._collect_findings()
+        self.selection = None
+        self.events.emit("tooling", "findings", "selection")
+
+    def _recompute_tooling(self, force: bool = False) -> None:
+        """Draft, undercuts and cutter reach for the pull on screen (only while the draft view is on)."""
+        self.tooling = None
+        if self.loaded is not None and (force or self.display.mode == Mode.DRAFT):
+            self.tooling = run_tooling(self.loaded.model, self.profile, self.pull)
 
     def set_stripes(self, **changes) -> None:
         """Replace stripe fields (count, width, direction)."""
@@ -287,6 +349,7 @@ class Session:
         found = judged_findings(model, seams, self.sections, places, self.profile)
         found.extend(section_notes(self.sections, places))
         found.extend(self._face_extremes)
+        found.extend(tooling_list(self.loaded.model, self.tooling, self.profile))
         # failing first, then by kind; a stable sort keeps each source's own order within
         found.sort(key=lambda f: (VERDICT_ORDER.index(f.verdict), KIND_ORDER.index(f.kind)))
         return tuple(found)

@@ -21,6 +21,7 @@ class Mode(StrEnum):
     REFLECTION = "reflection lines"
     HIGHLIGHT = "highlight lines"
     ISOPHOTE = "isophotes"
+    DRAFT = "draft"
 
 
 STRIPE_MODES = (Mode.REFLECTION, Mode.HIGHLIGHT, Mode.ISOPHOTE)

@@ -35,6 +35,8 @@ ZERO_SNAP = 1e-12
 NEWTON_ITERATIONS = 12
 # Newton stops when |n . d| (the sine of the draft) is below this.
 SINE_TOLERANCE = 1e-12
+# Curve points whose |n . d| stays above this after Newton are dropped (not on the curve).
+KEEP_SINE = 1e-9
 # A Newton step moves at most this fraction of a face's parameter range.
 MAX_STEP_FRACTION = 0.05
 
@@ -148,10 +150,18 @@ class ZeroDraftTracer:
         uv, residual = self._refine(faces, np.concatenate(uvs), np.concatenate(fixed), d)
         points = self.evaluator.derivatives(faces, uv, 0)[0, 0].T
         bounds = np.searchsorted(owner, np.arange(len(closed) + 1))
-        out = [
-            ZeroDraftCurve(int(faces[a]), points[a:b], uv[a:b], ring, float(residual[a:b].max()))
-            for a, b, ring in zip(bounds[:-1], bounds[1:], closed, strict=True)
-        ]
+        out = []
+        for a, b, ring in zip(bounds[:-1], bounds[1:], closed, strict=True):
+            # where Newton could not reach the curve (a pole, a fold of the normal field) the point is
+            # dropped rather than shown off the curve; a piece that loses points no longer closes
+            keep = np.flatnonzero(residual[a:b] <= KEEP_SINE) + a
+            whole = keep.size == b - a
+            for run in np.split(keep, np.flatnonzero(np.diff(keep) > 1) + 1):
+                if run.size >= 2:
+                    piece = ZeroDraftCurve(
+                        int(faces[a]), points[run], uv[run], ring and whole, float(residual[run].max())
+                    )
+                    out.append(piece)
         return tuple(sorted(out, key=lambda c: -c.length))
 
     def _refine(self, faces: np.ndarray, uv: np.ndarray, fixed: np.ndarray, d: np.ndarray):
