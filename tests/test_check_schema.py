@@ -63,7 +63,16 @@ def test_typed_findings_write_the_schema_1_0_fields():
 
     finding_schema = SCHEMA["$defs"]["finding"]
     assert SCHEMA_VERSION.split(".")[0] == "1"
-    judged_kinds = (Kind.SEAM, Kind.FREE_EDGE, Kind.INFLECTION, Kind.CURVATURE)  # the window-only kind is not written
+    # the window-only kind is not written; schema 1.1 added the tooling kinds
+    judged_kinds = (
+        Kind.SEAM,
+        Kind.FREE_EDGE,
+        Kind.INFLECTION,
+        Kind.CURVATURE,
+        Kind.DRAFT,
+        Kind.UNDERCUT,
+        Kind.CUTTER_REACH,
+    )
     assert set(finding_schema["properties"]["kind"]["enum"]) == {str(k) for k in judged_kinds}
     validator = jsonschema.Draft202012Validator({**finding_schema, "$defs": SCHEMA["$defs"]})
     for kind in judged_kinds:

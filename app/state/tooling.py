@@ -16,7 +16,7 @@ from geometry.model import Model
 from geometry.sampling import model_grids
 from geometry.tooling import ToolingAnalysis, draft_on_grid, least_out_of_draft, principal_axes, unit_pull
 
-from .results import Finding
+from .results import FindingEntry
 
 # Pull the window starts with when the profile names none: the model's z axis (common practice:
 # parts are modelled with the mould opening along z).
@@ -32,7 +32,7 @@ def starting_pull(profile: Profile) -> tuple[float, float, float]:
     return tuple(float(c) for c in unit_pull(pull if pull else DEFAULT_PULL))
 
 
-def tooling_list(model: Model, analysis: ToolingAnalysis | None, profile: Profile) -> list[Finding]:
+def tooling_list(model: Model, analysis: ToolingAnalysis | None, profile: Profile) -> list[FindingEntry]:
     """The check's tooling findings as list entries (failing ones and the undercut regions)."""
     if analysis is None:
         return []
@@ -45,7 +45,7 @@ def tooling_list(model: Model, analysis: ToolingAnalysis | None, profile: Profil
         position = np.zeros(3) if f.where is None else np.asarray(f.where, float)
         value = f"{f.value:.4g} {f.unit}" + ("" if f.limit is None else f", limit {f.limit:g} {f.unit}")
         detail = f"{f.measure} {value}; profile {profile.name}"
-        found.append(Finding(f.kind, f.subject, f.verdict, position, extent, detail, position))
+        found.append(FindingEntry(f.kind, f.subject, f.verdict, position, extent, detail, position))
     return found
 
 
