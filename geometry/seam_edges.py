@@ -1,0 +1,355 @@
+"""Seams along the file's shared edges, measured at the edge, all seams at once.
+
+A seam of the file's topology is measured where the kernel says the faces meet:
+on the 3-D edge. The edge comes as a polyline (sampled by arc length with its
+chords within a small fraction of the position tolerance, see
+:mod:`geometry.io.occt_curves`) with each face's p-curve at the same
+parameters. At an arc-length fraction ``tau`` of a seam:
+
+1. ``X`` is the edge point there, and the p-curves give starting parameters on
+   both faces;
+2. ``X`` is projected onto both surfaces (point inversion, Newton's method);
+3. where the edge lies off its surfaces (a file whose edge and trims disagree),
+   the two feet are moved to the closest pair of points of the two surfaces by
+   alternating projections (von Neumann, 1950; each foot projected onto the
+   other surface), so the gap is between the surfaces, not between the edge and
+   them;
+4. the measures of :mod:`geometry.seam_measures` follow from the derivatives
+   at the two feet: gap ``|S_a - S_b|``, angle between the normals, normal
+   curvature across the seam on each side and its jump, and the iso-curve
+   jumps where both sides are iso-parameter lines.
+
+Everything is vectorised over every sample of every seam: each stage makes one
+call per face (:meth:`NurbsSurface.derivatives_at`,
+:func:`geometry.probe.closest_parameters`) with all that face's points,
+whichever seams they belong to.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from .adjacency import SeamPair
+from .model import Model
+from .probe import closest_parameters
+from .seam_boundary import BoundaryCurve
+from .seam_measures import DEGENERATE_SPEED, INWARD_OFFSET, ISO_ALIGNED_DEG, ORIENTATION_VOTES, _iso_curvature
+
+# Alternating projections: at most this many rounds, each while the gap still
+# shrinks by more than this fraction (converged, or a real gap between the faces).
+ALTERNATIONS = 6
+ALTERNATION_RTOL = 1e-3
+# A gap below this (mm) needs no alternation: the feet already coincide.
+ALTERNATE_ABOVE_MM = 1e-9
+# |Su x Sv| relative to |Su| |Sv| below this: no tangent plane (a pole).
+DEGENERATE_SINE = 1e-10
+
+
+def measurable_at_edge(pair: SeamPair) -> bool:
+    """A topology seam whose edge polyline and both p-curves share their samples."""
+    n = pair.points.shape[0]
+    return pair.edge >= 0 and n >= 2 and pair.uv_a.shape[0] == n and pair.targets_b[0].shape[0] == n
+
+
+def _dot(a: np.ndarray, b: np.ndarray) -> np.ndarray:
+    return np.einsum("ij,ij->i", a, b)
+
+
+def _unit(a: np.ndarray) -> np.ndarray:
+    return a / np.maximum(np.linalg.norm(a, axis=-1, keepdims=True), 1e-300)
+
+
+def _by_face(faces: np.ndarray):
+    """(face, indices) for each face present, indices into ``faces``."""
+    order = np.argsort(faces, kind="stable")
+    values, starts = np.unique(faces[order], return_index=True)
+    return zip(values.tolist(), np.split(order, starts[1:]), strict=True)
+
+
+def _cross_normal_curvature(d: np.ndarray, normal: np.ndarray, across: np.ndarray) -> np.ndarray:
+    """Normal curvature of a surface in the tangent direction ``across``, shape (k,).
+
+    Notes
+    -----
+    ``across = a Su + b Sv`` with ``(a, b)`` from the first fundamental form
+    ``[[E, F], [F, G]] (a, b) = (across . Su, across . Sv)``; then
+    ``k_n = II(across) / I(across) = (a^2 Suu + 2 a b Suv + b^2 Svv) . n / |across|^2``
+    (do Carmo, 1976, sec. 3-2, the normal curvature as the ratio of the
+    fundamental forms).
+    """
+    su, sv = d[1, 0], d[0, 1]
+    e, f, g = _dot(su, su), _dot(su, sv), _dot(sv, sv)
+    det = e * g - f * f
+    pu, pv = _dot(across, su), _dot(across, sv)
+    safe = np.where(det > 0, det, 1.0)
+    a = (g * pu - f * pv) / safe
+    b = (e * pv - f * pu) / safe
+    second = _dot(d[2, 0], normal) * a * a + 2.0 * _dot(d[1, 1], normal) * a * b + _dot(d[0, 2], normal) * b * b
+    return np.where(det > 0, second / np.maximum(_dot(across, across), 1e-300), np.nan)
+
+
+class EdgeSeams:
+    """The measures of many topology seams at arc-length fractions.
+
+    Parameters
+    ----------
+    model : Model
+    pairs : sequence of SeamPair
+        Each with :func:`measurable_at_edge` true.
+    flat_curvature : float
+        Floor (1/mm) of the denominator of the relative curvature jump.
+    """
+
+    def __init__(self, model: Model, pairs, flat_curvature: float):
+        self.model = model
+        self.pairs = list(pairs)
+        self.flat_curvature = float(flat_curvature)
+        counts = np.array([p.points.shape[0] for p in self.pairs])
+        self.start = np.concatenate([[0], np.cumsum(counts)[:-1]]).astype(int)
+        self.count = counts
+        self.points = np.concatenate([p.points for p in self.pairs])
+        self.uv_a = np.concatenate([p.uv_a for p in self.pairs])
+        self.uv_b = np.concatenate([p.targets_b[0] for p in self.pairs])
+        owner = np.repeat(np.arange(len(self.pairs)), counts)
+        chord = np.linalg.norm(np.diff(self.points, axis=0), axis=1)
+        chord[self.start[1:] - 1] = 0.0  # no chord between one seam's end and the next one's start
+        arc = np.concatenate([[0.0], np.cumsum(chord)])
+        self.arc = arc - arc[self.start][owner]
+        self.length = self.arc[self.start + counts - 1]
+        # Vertex tangents by central differences of the polyline (one-sided at the ends).
+        ahead = np.minimum(np.arange(owner.size) + 1, (self.start + counts - 1)[owner])
+        behind = np.maximum(np.arange(owner.size) - 1, self.start[owner])
+        self.tangents = _unit(self.points[ahead] - self.points[behind])
+        # A monotone key to find each sample's segment with one searchsorted.
+        self.stride = float(self.length.max(initial=0.0)) * 2.0 + 1.0
+        self.key = owner * self.stride + self.arc
+        self.face_a = np.array([p.face_a for p in self.pairs], dtype=int)
+        self.face_b = np.array([p.face_b for p in self.pairs], dtype=int)
+        self.sign_a = np.array([model.faces[f].sign for f in self.face_a])
+        self.sign_b = np.array([model.faces[f].sign for f in self.face_b])
+        self.iso_a = np.array([_iso(p.uv_a) for p in self.pairs], dtype=int)
+        self.iso_b = np.array([_iso(p.targets_b[0]) for p in self.pairs], dtype=int)
+        self.has_iso = (self.iso_a >= 0) & (self.iso_b >= 0)
+        self.cross_a = np.ones(len(self.pairs))
+        self.cross_b = np.ones(len(self.pairs))
+        if self.has_iso.any():
+            self._orient_iso()
+        self.orientation = np.ones(len(self.pairs))
+        self.orientation = self._orientation()
+
+    # -- where the samples are --------------------------------------------
+    def _locate(self, seam: np.ndarray, tau: np.ndarray):
+        arc = np.clip(tau, 0.0, 1.0) * self.length[seam]
+        i = np.searchsorted(self.key, seam * self.stride + arc, side="right") - 1
+        i = np.clip(i, self.start[seam], self.start[seam] + self.count[seam] - 2)
+        span = self.arc[i + 1] - self.arc[i]
+        frac = np.clip(np.where(span > 0, (arc - self.arc[i]) / np.where(span > 0, span, 1.0), 0.0), 0.0, 1.0)
+        return i, frac[:, None], arc
+
+    def _along(self, seam: np.ndarray, tau: np.ndarray) -> dict[str, np.ndarray]:
+        i, f, arc = self._locate(seam, tau)
+
+        def lerp(a):
+            return a[i] + f * (a[i + 1] - a[i])
+
+        return {
+            "edge": lerp(self.points),
+            "tangent": _unit(lerp(self.tangents)),
+            "uv_a": lerp(self.uv_a),
+            "uv_b": lerp(self.uv_b),
+            "slope_a": self.uv_a[i + 1] - self.uv_a[i],
+            "slope_b": self.uv_b[i + 1] - self.uv_b[i],
+            "arc": arc,
+        }
+
+    # -- batched surface work ---------------------------------------------
+    def _project(self, faces: np.ndarray, points: np.ndarray, uv: np.ndarray) -> np.ndarray:
+        """Closest surface parameters of ``points`` on their ``faces``, from ``uv``; shape (k, 2)."""
+        out = np.empty_like(uv)
+        for face, idx in _by_face(faces):
+            surface = self.model.faces[face].surface
+            u, v = closest_parameters(surface, points[idx], uv[idx, 0], uv[idx, 1])
+            out[idx, 0], out[idx, 1] = u, v
+        return out
+
+    def _derivatives(self, faces: np.ndarray, uv: np.ndarray, order: np.ndarray) -> np.ndarray:
+        """Derivatives up to order 3 (zero beyond each sample's ``order``), shape (4, 4, k, 3)."""
+        out = np.zeros((4, 4, faces.size, 3))
+        for face, idx in _by_face(faces):
+            top = int(order[idx].max())
+            d = self.model.faces[face].surface.derivatives_at(uv[idx, 0], uv[idx, 1], top)
+            out[: top + 1, : top + 1, idx] = d
+        return out
+
+    def _inside(self, faces: np.ndarray, uv: np.ndarray) -> np.ndarray:
+        out = np.zeros(faces.size, dtype=bool)
+        for face, idx in _by_face(faces):
+            out[idx] = self.model.faces[face].inside(uv[idx, 0], uv[idx, 1])
+        return out
+
+    def _feet(self, seam: np.ndarray, at: dict) -> tuple[np.ndarray, np.ndarray]:
+        """Parameters of the two feet (see the module notes, steps 2 and 3), shape (k, 2) each."""
+        fa, fb = self.face_a[seam], self.face_b[seam]
+        both = np.concatenate([fa, fb])
+        uv = self._project(both, np.concatenate([at["edge"], at["edge"]]), np.concatenate([at["uv_a"], at["uv_b"]]))
+        uv_a, uv_b = uv[: seam.size], uv[seam.size :]
+        pa, pb = self._points(fa, uv_a), self._points(fb, uv_b)
+        gap = np.linalg.norm(pa - pb, axis=1)
+        active = np.flatnonzero(gap > ALTERNATE_ABOVE_MM)
+        for _ in range(ALTERNATIONS):
+            if active.size == 0:
+                break
+            m = active.size
+            uv = self._project(
+                np.concatenate([fa[active], fb[active]]),
+                np.concatenate([pb[active], pa[active]]),
+                np.concatenate([uv_a[active], uv_b[active]]),
+            )
+            new_pa = self._points(fa[active], uv[:m])
+            new_pb = self._points(fb[active], uv[m:])
+            new_gap = np.linalg.norm(new_pa - new_pb, axis=1)
+            better = new_gap < gap[active]
+            take = active[better]
+            uv_a[take], uv_b[take] = uv[:m][better], uv[m:][better]
+            pa[take], pb[take] = new_pa[better], new_pb[better]
+            shrink = gap[active] - new_gap
+            gap[take] = new_gap[better]
+            active = active[better & (shrink > ALTERNATION_RTOL * gap[active]) & (new_gap > ALTERNATE_ABOVE_MM)]
+        return uv_a, uv_b
+
+    def _points(self, faces: np.ndarray, uv: np.ndarray) -> np.ndarray:
+        out = np.empty((faces.size, 3))
+        for face, idx in _by_face(faces):
+            out[idx] = self.model.faces[face].surface.points_at(uv[idx, 0], uv[idx, 1])
+        return out
+
+    # -- orientation ------------------------------------------------------
+    def _inward_turn(self, faces, uv, slope, d, normal, tangent) -> np.ndarray:
+        """Sign of (n x T) . inward across the boundary: +1, -1, or 0 when undecided."""
+        spans = np.array([[np.subtract(*self.model.faces[f].surface.domain[k])[()] for k in (0, 1)] for f in faces])
+        spans = np.abs(spans)
+        perp = np.stack([-slope[:, 1], slope[:, 0]], axis=1)
+        perp = perp / np.maximum(np.linalg.norm(perp / spans, axis=1, keepdims=True), 1e-300) * INWARD_OFFSET
+        plus, minus = self._inside(faces, uv + perp), self._inside(faces, uv - perp)
+        side = np.where(plus & ~minus, 1.0, np.where(minus & ~plus, -1.0, 0.0))
+        inward = side[:, None] * (d[1, 0] * perp[:, :1] + d[0, 1] * perp[:, 1:])
+        return np.sign(_dot(np.cross(normal, tangent), inward))
+
+    def _orientation(self) -> np.ndarray:
+        """+1 where the faces run along their edge in opposite directions (consistent), else -1."""
+        n = len(self.pairs)
+        seam = np.repeat(np.arange(n), ORIENTATION_VOTES)
+        tau = np.tile(np.linspace(0.05, 0.95, ORIENTATION_VOTES), n)
+        at = self._along(seam, tau)
+        uv_a, uv_b = self._feet(seam, at)
+        ones = np.ones(seam.size, dtype=int)
+        da = self._derivatives(self.face_a[seam], uv_a, ones)
+        db = self._derivatives(self.face_b[seam], uv_b, ones)
+        n_a = self._normal(da, self.sign_a[seam])
+        n_b = self._normal(db, self.sign_b[seam])
+        turn_a = self._inward_turn(self.face_a[seam], uv_a, at["slope_a"], da, n_a, at["tangent"])
+        turn_b = self._inward_turn(self.face_b[seam], uv_b, at["slope_b"], db, n_b, at["tangent"])
+        votes = np.nan_to_num(turn_a * turn_b)  # -1: opposite traversal (consistent), +1: same (flipped)
+        total = np.bincount(seam, votes, minlength=n)
+        decided = np.bincount(seam, votes != 0, minlength=n) > 0
+        agree = np.bincount(seam, np.nan_to_num(_dot(n_a, n_b)), minlength=n)
+        return np.where(decided, np.where(total <= 0, 1.0, -1.0), np.where(agree >= 0, 1.0, -1.0))
+
+    def _orient_iso(self) -> None:
+        """Signs orienting the cross iso-curves from a to b (see :func:`geometry.seam_measures._cross_sign`)."""
+        seams = np.flatnonzero(self.has_iso)
+        for side, faces, uvs, axes, into in (
+            ("a", self.face_a, self.uv_a, self.iso_a, False),
+            ("b", self.face_b, self.uv_b, self.iso_b, True),
+        ):
+            middle = uvs[self.start[seams] + self.count[seams] // 2]
+            steps = np.zeros((seams.size, 2))
+            for j, s in enumerate(seams):
+                (u0, u1), (v0, v1) = self.model.faces[faces[s]].surface.domain
+                steps[j, axes[s]] = INWARD_OFFSET * (u1 - u0, v1 - v0)[axes[s]]
+            goes_in = self._inside(faces[seams], middle + steps)
+            signs = np.where(goes_in == into, 1.0, -1.0)
+            (self.cross_a if side == "a" else self.cross_b)[seams] = signs
+
+    @staticmethod
+    def _normal(d: np.ndarray, sign: np.ndarray) -> np.ndarray:
+        cross = np.cross(d[1, 0], d[0, 1])
+        size = np.linalg.norm(cross, axis=1)
+        flat = size <= DEGENERATE_SINE * np.linalg.norm(d[1, 0], axis=1) * np.linalg.norm(d[0, 1], axis=1)
+        normal = cross / np.where(flat, 1.0, size)[:, None] * sign[:, None]
+        normal[flat] = np.nan
+        return normal
+
+    # -- the measures -----------------------------------------------------
+    def evaluate(self, seam: np.ndarray, tau: np.ndarray) -> dict[str, np.ndarray]:
+        """Every measure at arc-length fractions ``tau`` of seams ``seam``.
+
+        Parameters
+        ----------
+        seam : ndarray of int, shape (k,)
+            Index into the pairs.
+        tau : ndarray of shape (k,)
+
+        Returns
+        -------
+        dict
+            As :meth:`geometry.seam_measures.SeamGeometry.evaluate`: ``gap``,
+            ``angle``, ``curvature_a``, ``curvature_b``, ``curvature_jump``,
+            ``curvature_jump_rel``, ``iso_curvature_jump``,
+            ``curvature_derivative_jump`` of shape (k,); ``points`` (k, 3) on
+            side a; ``uv_a``, ``uv_b`` (k, 2).
+        """
+        seam = np.asarray(seam, int)
+        tau = np.clip(np.asarray(tau, float), 0.0, 1.0)
+        at = self._along(seam, tau)
+        uv_a, uv_b = self._feet(seam, at)
+        order = np.where(self.has_iso[seam], 3, 2)
+        da = self._derivatives(self.face_a[seam], uv_a, order)
+        db = self._derivatives(self.face_b[seam], uv_b, order)
+        n_a = self._normal(da, self.sign_a[seam])
+        n_b = self._normal(db, self.sign_b[seam] * self.orientation[seam])
+        angle = np.degrees(np.arctan2(np.linalg.norm(np.cross(n_a, n_b), axis=1), _dot(n_a, n_b)))
+        tangent = at["tangent"]
+        k_a = _cross_normal_curvature(da, n_a, _unit(np.cross(n_a, tangent)))
+        k_b = _cross_normal_curvature(db, n_b, _unit(np.cross(n_b, tangent)))
+        jump = np.abs(k_a - k_b)
+        scale = np.maximum(np.maximum(np.abs(k_a), np.abs(k_b)), self.flat_curvature)
+        iso_jump, third_jump = self._iso_jumps(seam, da, db)
+        return {
+            "gap": np.linalg.norm(da[0, 0] - db[0, 0], axis=1),
+            "angle": angle,
+            "curvature_a": k_a,
+            "curvature_b": k_b,
+            "curvature_jump": jump,
+            "curvature_jump_rel": jump / scale,
+            "iso_curvature_jump": iso_jump,
+            "curvature_derivative_jump": third_jump,
+            "points": da[0, 0],
+            "uv_a": uv_a,
+            "uv_b": uv_b,
+        }
+
+    def _iso_jumps(self, seam: np.ndarray, da: np.ndarray, db: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        iso_jump = np.full(seam.size, np.nan)
+        third_jump = np.full(seam.size, np.nan)
+        idx = np.flatnonzero(self.has_iso[seam])
+        if idx.size == 0:
+            return iso_jump, third_jump
+        s = seam[idx]
+        t_a, kappa_a, third_a = _iso_curvature(da[:, :, idx], self.iso_a[s])
+        t_b, kappa_b, third_b = _iso_curvature(db[:, :, idx], self.iso_b[s])
+        aligned = np.linalg.norm(np.cross(t_a, t_b), axis=1) <= np.sin(np.radians(ISO_ALIGNED_DEG))
+        # C_sss changes sign with the direction of travel; C_ss does not
+        third_a = third_a * self.cross_a[s][:, None]
+        third_b = third_b * self.cross_b[s][:, None]
+        iso_jump[idx] = np.where(aligned, np.linalg.norm(kappa_a - kappa_b, axis=1), np.nan)
+        third_jump[idx] = np.where(aligned, np.linalg.norm(third_a - third_b, axis=1), np.nan)
+        return iso_jump, third_jump
+
+
+def _iso(uv: np.ndarray) -> int:
+    direction = BoundaryCurve(0, uv).iso_direction
+    return -1 if direction is None else direction
+
+
+__all__ = ["DEGENERATE_SPEED", "EdgeSeams", "measurable_at_edge"]
