@@ -202,11 +202,23 @@ def _tiny(model: Model) -> float:
 
 
 def _open_curves(model: Model, face: int, uv: np.ndarray) -> list[BoundaryCurve]:
+    """A free edge of the file as open boundary curves (a closed one cut in two, so it has ends).
+
+    An edge closed in 3-D but not in (u, v), the end circle of a periodic face,
+    runs once round the face: it is cut in the middle, never closed by a chord
+    back across the parameter domain (that chord would run round the face again).
+    """
     surface = model.faces[face].surface
     pts = surface.points_at(uv[:, 0], uv[:, 1])
-    if uv.shape[0] > 2 and np.linalg.norm(pts[0] - pts[-1]) <= 1e-9 * max(model.size, 1.0):
+    closed_3d = uv.shape[0] > 2 and np.linalg.norm(pts[0] - pts[-1]) <= 1e-9 * max(model.size, 1.0)
+    if not closed_3d:
+        return [BoundaryCurve(face, uv)]
+    (u0, u1), (v0, v1) = surface.domain
+    closed_uv = np.all(np.abs(uv[0] - uv[-1]) <= 1e-9 * np.array([u1 - u0, v1 - v0]))
+    if closed_uv:
         return [BoundaryCurve(face, piece) for piece in split_closed(uv[:-1], pts[:-1])]
-    return [BoundaryCurve(face, uv)]
+    middle = uv.shape[0] // 2
+    return [BoundaryCurve(face, uv[: middle + 1]), BoundaryCurve(face, uv[middle:])]
 
 
 @dataclass
