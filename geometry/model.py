@@ -245,16 +245,6 @@ class Model:
             "skipped": [s.as_dict() for s in self.skipped],
         }
 
-    def face_account_line(self) -> str:
-        """One line for people: ``52 faces in the file: 50 analysed, 2 skipped (...)``."""
-        line = f"{self.faces_in_file} faces in the file: {len(self.faces)} analysed, {len(self.skipped)} skipped"
-        if self.skipped:
-            reasons = {}
-            for s in self.skipped:
-                reasons[s.reason] = reasons.get(s.reason, 0) + 1
-            line += " (" + "; ".join(f"{n} x {r}" if n > 1 else r for r, n in reasons.items()) + ")"
-        return line
-
     @property
     def bounds(self) -> np.ndarray:
         """Axis-aligned box of the control nets, shape (2, 3): min and max corner.
