@@ -17,7 +17,7 @@ from test_io_support import plate_with_hole, sphere, write_step
 from app.cli import EXIT_BAD_INPUT, main
 from geometry.errors import BattenError
 from geometry.io import read_model
-from geometry.io.occt_curves import CHORD_DEFLECTION_MM
+from geometry.io.occt_curves import EDGE_CHORD_MM
 from geometry.model import Face, Model
 from geometry.nurbs import NurbsSurface
 from geometry.probe import closest_parameters, probe_point, probe_uv
@@ -101,9 +101,9 @@ def test_nearest_point_snaps_to_the_trim_of_a_lone_face(tmp_path):
     top = max((f for f in plate.faces if len(f.loops) == 2), key=lambda f: f.surface.poles[0, 0, 2])
     res = probe_point(Model((top,)), np.array([20.0, 23.0, 10.5]))
     assert res.on_trim_boundary and res.inside
-    # Exact: the rim point (20, 25, 10); the trim polyline is within CHORD_DEFLECTION_MM of it.
-    np.testing.assert_allclose(res.point, [20.0, 25.0, 10.0], atol=CHORD_DEFLECTION_MM)
-    assert res.distance == pytest.approx(np.hypot(2.0, 0.5), abs=CHORD_DEFLECTION_MM)
+    # Exact: the rim point (20, 25, 10); the trim polyline is within EDGE_CHORD_MM of it.
+    np.testing.assert_allclose(res.point, [20.0, 25.0, 10.0], atol=EDGE_CHORD_MM)
+    assert res.distance == pytest.approx(np.hypot(2.0, 0.5), abs=EDGE_CHORD_MM)
 
 
 def test_cli_probe_at_and_uv(tmp_path, capsys):
