@@ -10,10 +10,11 @@ parameters. At an arc-length fraction ``tau`` of a seam:
    both faces;
 2. ``X`` is projected onto both surfaces (point inversion, Newton's method);
 3. where the edge lies off its surfaces (a file whose edge and trims disagree),
-   the two feet are moved to the closest pair of points of the two surfaces by
-   alternating projections (von Neumann, 1950; each foot projected onto the
-   other surface), so the gap is between the surfaces, not between the edge and
-   them;
+   the two feet are moved to the closest pair of points of the two surfaces:
+   both are projected onto the point where their tangent planes meet (Newton's
+   step for a surface intersection) or, for near-parallel surfaces, onto their
+   midpoint (averaged alternating projections), until the gap stops shrinking;
+   so the gap is between the surfaces, not between the edge and them;
 4. the measures of :mod:`geometry.seam_measures` follow from the derivatives
    at the two feet: gap ``|S_a - S_b|``, angle between the normals, normal
    curvature across the seam on each side and its jump, and the iso-curve
@@ -38,6 +39,10 @@ from .seam_measures import DEGENERATE_SPEED, INWARD_OFFSET, ISO_ALIGNED_DEG, ORI
 # shrinks by more than this fraction (converged, or a real gap between the faces).
 ALTERNATIONS = 6
 ALTERNATION_RTOL = 1e-2
+# Normals closer than this sine are near parallel: no tangent-plane step.
+CROSSING_SINE = 1e-3
+# A tangent-plane step longer than this many gaps is not taken.
+MAX_STEP_GAPS = 1e3
 # A gap below this (mm) needs no alternation: far below any position tolerance.
 ALTERNATE_ABOVE_MM = 1e-6
 # Point inversion: at most this many Newton steps; converged when a step moves
@@ -236,22 +241,55 @@ class EdgeSeams:
             if active.size == 0:
                 break
             m = active.size
+            target = self._common_point(fa[active], uv_a[active], pa[active], fb[active], uv_b[active], pb[active])
             uv = self._project(
                 np.concatenate([fa[active], fb[active]]),
-                np.concatenate([pb[active], pa[active]]),
+                np.concatenate([target, target]),
                 np.concatenate([uv_a[active], uv_b[active]]),
             )
             new_pa = self._points(fa[active], uv[:m])
             new_pb = self._points(fb[active], uv[m:])
             new_gap = np.linalg.norm(new_pa - new_pb, axis=1)
             better = new_gap < gap[active]
+            shrink = gap[active] - new_gap
+            enough = shrink > ALTERNATION_RTOL * gap[active]
             take = active[better]
             uv_a[take], uv_b[take] = uv[:m][better], uv[m:][better]
             pa[take], pb[take] = new_pa[better], new_pb[better]
-            shrink = gap[active] - new_gap
             gap[take] = new_gap[better]
-            active = active[better & (shrink > ALTERNATION_RTOL * gap[active]) & (new_gap > ALTERNATE_ABOVE_MM)]
+            active = active[better & enough & (new_gap > ALTERNATE_ABOVE_MM)]
         return uv_a, uv_b
+
+    def _common_point(self, fa, uv_a, pa, fb, uv_b, pb) -> np.ndarray:
+        """Where the two tangent planes at the feet meet, nearest the feet's midpoint, shape (k, 3).
+
+        Notes
+        -----
+        The point ``X = M + alpha n_a + beta n_b`` (M the midpoint of the feet)
+        on both tangent planes, ``n_a . (X - P_a) = 0`` and ``n_b . (X - P_b) = 0``:
+        the Newton step for a point of the intersection of two surfaces
+        (Barnhill and Kersey, CAGD 7, 1990, sec. 3; cited from memory), which
+        converges quadratically where the surfaces cross. Where they are near
+        parallel (or apart, not crossing) the step is the midpoint itself, and
+        projecting it onto both surfaces is an averaged alternating projection.
+        """
+        ones = np.ones(fa.size, dtype=int)
+        da, db = self._derivatives(fa, uv_a, ones), self._derivatives(fb, uv_b, ones)
+        na = np.nan_to_num(self._normal(da, np.ones(fa.size)))
+        nb = np.nan_to_num(self._normal(db, np.ones(fb.size)))
+        middle = 0.5 * (pa + pb)
+        c = _dot(na, nb)
+        det = 1.0 - c * c
+        ra, rb = -_dot(na, middle - pa), -_dot(nb, middle - pb)
+        crossing = det > CROSSING_SINE**2
+        safe = np.where(crossing, det, 1.0)
+        alpha = np.where(crossing, (ra - c * rb) / safe, 0.0)
+        beta = np.where(crossing, (rb - c * ra) / safe, 0.0)
+        step = alpha[:, None] * na + beta[:, None] * nb
+        # A step far beyond the gap is a crossing far off (or none): stay at the midpoint.
+        far = np.linalg.norm(step, axis=1) > MAX_STEP_GAPS * np.linalg.norm(pa - pb, axis=1)
+        step[far] = 0.0
+        return middle + step
 
     def _points(self, faces: np.ndarray, uv: np.ndarray) -> np.ndarray:
         out = np.empty((faces.size, 3))

@@ -174,3 +174,17 @@ def test_trim_off_its_edge_is_measured_at_the_edge_and_reported():
 def test_trim_within_the_position_tolerance_is_not_reported():
     report = check_seams(_planes_with_a_shifted_trim(0.002), geometry=False)
     assert report.warnings == ()
+
+
+@pytest.mark.parametrize("exterior", [3.0, 16.77, 60.0])
+def test_edge_lying_off_both_surfaces_still_gives_the_gap_between_them(exterior):
+    # Two planes crossing along the y axis (exact: they meet there, gap 0); the
+    # file's 3-D edge lies 0.2 mm off that line, off both planes.
+    model = dihedral(exterior)
+    t = np.linspace(0.0, 1.0, 17)
+    edge = np.stack([0.15 + 0 * t, 5.0 * t, 0.13 + 0 * t], 1)
+    uses = (EdgeUse(0, np.stack([np.ones_like(t), t], 1)), EdgeUse(1, np.stack([np.zeros_like(t), t], 1)))
+    report = check_seams(Model(model.faces, (Edge(edge, uses),)), geometry=False)
+    (seam,) = report.seams
+    assert seam.worst["gap"].value < ROUNDING_MM
+    assert abs(seam.worst["angle"].value - exterior) < 1e-9
