@@ -125,10 +125,7 @@ class EdgeSeams:
         arc = np.concatenate([[0.0], np.cumsum(chord)])
         self.arc = arc - arc[self.start][owner]
         self.length = self.arc[self.start + counts - 1]
-        # Vertex tangents by central differences of the polyline (one-sided at the ends).
-        ahead = np.minimum(np.arange(owner.size) + 1, (self.start + counts - 1)[owner])
-        behind = np.maximum(np.arange(owner.size) - 1, self.start[owner])
-        self.tangents = _unit(self.points[ahead] - self.points[behind])
+        self.tangents = _vertex_tangents(self.points, self.arc, owner, self.start, counts)
         # A monotone key to find each sample's segment with one searchsorted.
         self.stride = float(self.length.max(initial=0.0)) * 2.0 + 1.0
         self.key = owner * self.stride + self.arc
@@ -161,8 +158,18 @@ class EdgeSeams:
         def lerp(a):
             return a[i] + f * (a[i + 1] - a[i])
 
+        # Cubic Hermite between the vertices (tangents of unit speed in arc
+        # length): the chords' sag, h^2 k / 8, drops to the order of h^4.
+        h = (self.arc[i + 1] - self.arc[i])[:, None]
+        f2, f3 = f * f, f * f * f
+        edge = (
+            (2 * f3 - 3 * f2 + 1) * self.points[i]
+            + (f3 - 2 * f2 + f) * h * self.tangents[i]
+            + (-2 * f3 + 3 * f2) * self.points[i + 1]
+            + (f3 - f2) * h * self.tangents[i + 1]
+        )
         return {
-            "edge": lerp(self.points),
+            "edge": edge,
             "tangent": _unit(lerp(self.tangents)),
             "uv_a": lerp(self.uv_a),
             "uv_b": lerp(self.uv_b),
@@ -233,6 +240,11 @@ class EdgeSeams:
         fa, fb = self.face_a[seam], self.face_b[seam]
         both = np.concatenate([fa, fb])
         uv = self._project(both, np.concatenate([at["edge"], at["edge"]]), np.concatenate([at["uv_a"], at["uv_b"]]))
+        # Then each foot onto the other surface: where one face ends exactly on
+        # the edge (its foot clamped to its boundary), the other foot comes to
+        # that same edge point, whatever the polyline's own small error.
+        pa, pb = self._points(both[: seam.size], uv[: seam.size]), self._points(both[seam.size :], uv[seam.size :])
+        uv = self._project(both, np.concatenate([pb, pa]), uv)
         uv_a, uv_b = uv[: seam.size], uv[seam.size :]
         pa, pb = self._points(fa, uv_a), self._points(fb, uv_b)
         gap = np.linalg.norm(pa - pb, axis=1)
@@ -419,6 +431,41 @@ class EdgeSeams:
         iso_jump[idx] = np.where(aligned, np.linalg.norm(kappa_a - kappa_b, axis=1), np.nan)
         third_jump[idx] = np.where(aligned, np.linalg.norm(third_a - third_b, axis=1), np.nan)
         return iso_jump, third_jump
+
+
+def _vertex_tangents(points, arc, owner, start, counts) -> np.ndarray:
+    """Unit tangents at the vertices of polylines, shape (n, 3).
+
+    Notes
+    -----
+    Derivative of the parabola through each vertex and its two neighbours
+    (second order in the spacing, on uneven spacing too): the three-point
+    difference formulas of numerical differentiation (Burden and Faires,
+    Numerical Analysis, 9th ed., sec. 4.1), central inside, one-sided at the
+    ends. A polyline of two points gets its chord.
+    """
+    n = points.shape[0]
+    first, last = start[owner], (start + counts - 1)[owner]
+    i = np.arange(n)
+    # the three points used: centred inside, the first three or last three at the ends
+    mid = np.clip(i, first + 1, last - 1)
+    two = counts[owner] < 3
+    lo, hi = np.where(two, first, mid - 1), np.where(two, last, mid + 1)
+    mid = np.where(two, first, mid)
+    s0, s1, s2 = arc[lo], arc[mid], arc[hi]
+    x = arc[i]
+    h01, h02, h12 = s1 - s0, s2 - s0, s2 - s1
+    two |= ~(h01 * h02 * h12 > 0)  # repeated points: fall back to the chord of the neighbours
+    lo, hi = np.where(two, np.maximum(i - 1, first), lo), np.where(two, np.minimum(i + 1, last), hi)
+    h02 = np.where(two, arc[hi] - arc[lo], h02)
+    safe = np.where(two, 1.0, h01 * h02 * h12)
+    # d/dx of the Lagrange basis through s0, s1, s2, at x
+    w0 = np.where(two, -1.0 / np.maximum(h02, 1e-300), ((x - s1) + (x - s2)) * h12 / safe)
+    w1 = np.where(two, 0.0, -((x - s0) + (x - s2)) * h02 / safe)
+    w2 = np.where(two, 1.0 / np.maximum(h02, 1e-300), ((x - s0) + (x - s1)) * h01 / safe)
+    derivative = w0[:, None] * points[lo] + w1[:, None] * points[mid] + w2[:, None] * points[hi]
+    chord = points[np.minimum(i + 1, last)] - points[np.maximum(i - 1, first)]
+    return _unit(np.where(np.isfinite(derivative).all(axis=1, keepdims=True), derivative, chord))
 
 
 def _iso(uv: np.ndarray) -> int:
