@@ -20,6 +20,7 @@ The folder stays outside the repository; every test skips when it is absent.
 
 from __future__ import annotations
 
+import os
 from functools import cache
 from pathlib import Path
 
@@ -33,8 +34,10 @@ from geometry.seams import check_seams
 
 CORPUS = Path(__file__).resolve().parents[1] / ".." / "shared" / "corpus"
 FILES = sorted(p.name for p in CORPUS.glob("*") if p.suffix.lower() in (".stp", ".step", ".igs", ".iges"))
-# The large assembly: its seams take most of the module's time.
+# The large assembly (about 840 faces): reading and measuring it takes longer than the whole
+# module's budget until the compiled core measures scattered points; BATTEN_CORPUS_HEAVY=1 runs it.
 HEAVY = {"pm2-rotor-assembly.stp"}
+RUN_HEAVY = bool(os.environ.get("BATTEN_CORPUS_HEAVY"))
 
 CURVATURE_RTOL = 1e-7
 CURVATURE_FLOOR = 1e-6  # 1/mm
@@ -47,7 +50,8 @@ pytestmark = pytest.mark.skipif(not FILES, reason="../shared/corpus is absent")
 
 
 def _params(names):
-    return [pytest.param(n, marks=pytest.mark.slow) if n in HEAVY else n for n in names]
+    heavy = [pytest.mark.slow, pytest.mark.skipif(not RUN_HEAVY, reason="set BATTEN_CORPUS_HEAVY=1")]
+    return [pytest.param(n, marks=heavy) if n in HEAVY else n for n in names]
 
 
 @cache
@@ -129,7 +133,7 @@ def _shared_edge_count(name) -> int:
     return shared
 
 
-@pytest.mark.parametrize("name", FILES)
+@pytest.mark.parametrize("name", _params(FILES))
 def test_every_face_is_accounted_for(name):
     model = _model(name)
     _, faces = _ocp_faces(name)
@@ -163,7 +167,7 @@ def _ocp_curvatures(face, points):
     return np.array(out).reshape(-1, 3)
 
 
-@pytest.mark.parametrize("name", FILES)
+@pytest.mark.parametrize("name", _params(FILES))
 def test_curvature_matches_ocp_inside_the_trims(name):
     model = _model(name)
     ocp_faces = _kept_faces(name)
