@@ -34,6 +34,7 @@ from .adjacency import SeamPair
 from .model import Model
 from .seam_boundary import BoundaryCurve
 from .seam_measures import DEGENERATE_SPEED, INWARD_OFFSET, ISO_ALIGNED_DEG, ORIENTATION_VOTES, _iso_curvature
+from .vectors import dot, unit
 
 # Alternating projections: at most this many rounds, each while the gap still
 # shrinks by more than this fraction (converged, or a real gap between the faces).
@@ -59,14 +60,6 @@ def measurable_at_edge(pair: SeamPair) -> bool:
     return pair.edge >= 0 and n >= 2 and pair.uv_a.shape[0] == n and pair.targets_b[0].shape[0] == n
 
 
-def _dot(a: np.ndarray, b: np.ndarray) -> np.ndarray:
-    return np.einsum("ij,ij->i", a, b)
-
-
-def _unit(a: np.ndarray) -> np.ndarray:
-    return a / np.maximum(np.linalg.norm(a, axis=-1, keepdims=True), 1e-300)
-
-
 def _by_face(faces: np.ndarray):
     """(face, indices) for each face present, indices into ``faces``."""
     order = np.argsort(faces, kind="stable")
@@ -86,14 +79,14 @@ def _cross_normal_curvature(d: np.ndarray, normal: np.ndarray, across: np.ndarra
     fundamental forms).
     """
     su, sv = d[1, 0], d[0, 1]
-    e, f, g = _dot(su, su), _dot(su, sv), _dot(sv, sv)
+    e, f, g = dot(su, su), dot(su, sv), dot(sv, sv)
     det = e * g - f * f
-    pu, pv = _dot(across, su), _dot(across, sv)
+    pu, pv = dot(across, su), dot(across, sv)
     safe = np.where(det > 0, det, 1.0)
     a = (g * pu - f * pv) / safe
     b = (e * pv - f * pu) / safe
-    second = _dot(d[2, 0], normal) * a * a + 2.0 * _dot(d[1, 1], normal) * a * b + _dot(d[0, 2], normal) * b * b
-    return np.where(det > 0, second / np.maximum(_dot(across, across), 1e-300), np.nan)
+    second = dot(d[2, 0], normal) * a * a + 2.0 * dot(d[1, 1], normal) * a * b + dot(d[0, 2], normal) * b * b
+    return np.where(det > 0, second / np.maximum(dot(across, across), 1e-300), np.nan)
 
 
 class EdgeSeams:
@@ -170,7 +163,7 @@ class EdgeSeams:
         )
         return {
             "edge": edge,
-            "tangent": _unit(lerp(self.tangents)),
+            "tangent": unit(lerp(self.tangents)),
             "uv_a": lerp(self.uv_a),
             "uv_b": lerp(self.uv_b),
             "slope_a": self.uv_a[i + 1] - self.uv_a[i],
@@ -198,10 +191,10 @@ class EdgeSeams:
             d = self._derivatives(faces[active], uv[active], np.full(active.size, 2))
             r = d[0, 0] - points[active]
             su, sv = d[1, 0], d[0, 1]
-            f, g = _dot(su, r), _dot(sv, r)
-            a = _dot(su, su) + _dot(r, d[2, 0])
-            b = _dot(su, sv) + _dot(r, d[1, 1])
-            c = _dot(sv, sv) + _dot(r, d[0, 2])
+            f, g = dot(su, r), dot(sv, r)
+            a = dot(su, su) + dot(r, d[2, 0])
+            b = dot(su, sv) + dot(r, d[1, 1])
+            c = dot(sv, sv) + dot(r, d[0, 2])
             det = a * c - b * b
             ok = np.abs(det) > 1e-300
             safe = np.where(ok, det, 1.0)
@@ -290,9 +283,9 @@ class EdgeSeams:
         na = np.nan_to_num(self._normal(da, np.ones(fa.size)))
         nb = np.nan_to_num(self._normal(db, np.ones(fb.size)))
         middle = 0.5 * (pa + pb)
-        c = _dot(na, nb)
+        c = dot(na, nb)
         det = 1.0 - c * c
-        ra, rb = -_dot(na, middle - pa), -_dot(nb, middle - pb)
+        ra, rb = -dot(na, middle - pa), -dot(nb, middle - pb)
         crossing = det > CROSSING_SINE**2
         safe = np.where(crossing, det, 1.0)
         alpha = np.where(crossing, (ra - c * rb) / safe, 0.0)
@@ -319,7 +312,7 @@ class EdgeSeams:
         plus, minus = self._inside(faces, uv + perp), self._inside(faces, uv - perp)
         side = np.where(plus & ~minus, 1.0, np.where(minus & ~plus, -1.0, 0.0))
         inward = side[:, None] * (d[1, 0] * perp[:, :1] + d[0, 1] * perp[:, 1:])
-        return np.sign(_dot(np.cross(normal, tangent), inward))
+        return np.sign(dot(np.cross(normal, tangent), inward))
 
     def _orientation(self) -> np.ndarray:
         """+1 where the faces run along their edge in opposite directions (consistent), else -1."""
@@ -338,7 +331,7 @@ class EdgeSeams:
         votes = np.nan_to_num(turn_a * turn_b)  # -1: opposite traversal (consistent), +1: same (flipped)
         total = np.bincount(seam, votes, minlength=n)
         decided = np.bincount(seam, votes != 0, minlength=n) > 0
-        agree = np.bincount(seam, np.nan_to_num(_dot(n_a, n_b)), minlength=n)
+        agree = np.bincount(seam, np.nan_to_num(dot(n_a, n_b)), minlength=n)
         return np.where(decided, np.where(total <= 0, 1.0, -1.0), np.where(agree >= 0, 1.0, -1.0))
 
     def _orient_iso(self) -> None:
@@ -394,10 +387,10 @@ class EdgeSeams:
         db = self._derivatives(self.face_b[seam], uv_b, order)
         n_a = self._normal(da, self.sign_a[seam])
         n_b = self._normal(db, self.sign_b[seam] * self.orientation[seam])
-        angle = np.degrees(np.arctan2(np.linalg.norm(np.cross(n_a, n_b), axis=1), _dot(n_a, n_b)))
+        angle = np.degrees(np.arctan2(np.linalg.norm(np.cross(n_a, n_b), axis=1), dot(n_a, n_b)))
         tangent = at["tangent"]
-        k_a = _cross_normal_curvature(da, n_a, _unit(np.cross(n_a, tangent)))
-        k_b = _cross_normal_curvature(db, n_b, _unit(np.cross(n_b, tangent)))
+        k_a = _cross_normal_curvature(da, n_a, unit(np.cross(n_a, tangent)))
+        k_b = _cross_normal_curvature(db, n_b, unit(np.cross(n_b, tangent)))
         jump = np.abs(k_a - k_b)
         scale = np.maximum(np.maximum(np.abs(k_a), np.abs(k_b)), self.flat_curvature)
         iso_jump, third_jump = self._iso_jumps(seam, da, db)
@@ -465,7 +458,7 @@ def _vertex_tangents(points, arc, owner, start, counts) -> np.ndarray:
     w2 = np.where(two, 1.0 / np.maximum(h02, 1e-300), ((x - s0) + (x - s1)) * h01 / safe)
     derivative = w0[:, None] * points[lo] + w1[:, None] * points[mid] + w2[:, None] * points[hi]
     chord = points[np.minimum(i + 1, last)] - points[np.maximum(i - 1, first)]
-    return _unit(np.where(np.isfinite(derivative).all(axis=1, keepdims=True), derivative, chord))
+    return unit(np.where(np.isfinite(derivative).all(axis=1, keepdims=True), derivative, chord))
 
 
 def _iso(uv: np.ndarray) -> int:

@@ -13,11 +13,11 @@ from __future__ import annotations
 import numpy as np
 import pytest
 from numpy.testing import assert_allclose
-from test_seams_shapes import dihedral, plane_on_cylinder, tilting_join
 
 from geometry.model import Edge, EdgeUse, Model
 from geometry.seam_tolerance import SeamTolerance
 from geometry.seams import check_seams
+from tests.test_seams_shapes import dihedral, plane_on_cylinder, tilting_join
 
 TOL = SeamTolerance(name="test", crease_deg=None)
 ANGLE_DEG = 1e-7

@@ -11,12 +11,12 @@ from __future__ import annotations
 import numpy as np
 import pytest
 from numpy.testing import assert_allclose
-from test_seams_shapes import dihedral, plane
 
 from geometry import NurbsSurface
 from geometry.model import Edge, EdgeUse, Face, Model
 from geometry.seam_tolerance import CREASE_BAND_DEG, SeamTolerance, classify
 from geometry.seams import check_seams
+from tests.test_seams_shapes import dihedral, plane
 
 ROUNDING_MM = 1e-9
 SADDLE_A = 40.0  # z = x y / a
