@@ -45,6 +45,9 @@ MIN_RUN_SAMPLES = 3
 # Sample spacing along boundaries, as a fraction of the search distance.
 SPACING_FRACTION = 0.5
 MIN_CURVE_SAMPLES, MAX_CURVE_SAMPLES = 9, 4097
+# A boundary sample this close (relative to the domain) to a side of the
+# domain lies on that side (for a closed face meeting itself).
+CLOSURE_RTOL = 1e-6
 # How far (relative to the model size) a closest point may lie past a free end.
 END_SLACK = 1e-9
 
@@ -67,6 +70,10 @@ class SeamPair:
         The seam as a 3-D polyline (for display), mm.
     source : str
         ``"topology"`` (a shared edge of the file) or ``"geometry"`` (matched).
+    edge : int
+        Index of the shared edge in :attr:`Model.edges` (topology), else -1.
+        For a topology seam ``uv_a``, ``targets_b[0]`` and ``points`` are the
+        edge's samples, point for point.
     """
 
     face_a: int
@@ -75,6 +82,7 @@ class SeamPair:
     targets_b: tuple[np.ndarray, ...]
     points: np.ndarray
     source: str
+    edge: int = -1
 
     def __post_init__(self):
         object.__setattr__(self, "uv_a", _frozen(self.uv_a, (2,)))
@@ -84,6 +92,12 @@ class SeamPair:
     @property
     def faces(self) -> tuple[int, int]:
         return (self.face_a, self.face_b)
+
+    def cut(self, model: Model, tau0: float, tau1: float) -> SeamPair:
+        """The part of the seam between arc-length fractions ``tau0 < tau1`` of side a."""
+        uv = sub_polyline(self.uv_a, *_fraction_to_t(model, self.face_a, self.uv_a, tau0, tau1))
+        points = model.faces[self.face_a].surface.points_at(uv[:, 0], uv[:, 1])
+        return SeamPair(self.face_a, uv, self.face_b, self.targets_b, points, self.source)
 
 
 @dataclass(frozen=True, eq=False)
@@ -160,7 +174,7 @@ def find_seams(
     free_curves: list[BoundaryCurve] = []
     used_faces: set[int] = set()
     if topology:
-        for edge in model.edges:
+        for index, edge in enumerate(model.edges):
             if edge.length <= _tiny(model):
                 continue  # a collapsed edge (a pole): neither seam nor free
             uses = [u for u in edge.uses if u.uv.shape[0] >= 2]
@@ -168,7 +182,7 @@ def find_seams(
             first = uses[0] if uses else None
             partners = [u for u in uses[1:] if first is not None and u.face != first.face]
             for use in partners:
-                seams.append(SeamPair(first.face, first.uv, use.face, (use.uv,), edge.points, "topology"))
+                seams.append(SeamPair(first.face, first.uv, use.face, (use.uv,), edge.points, "topology", index))
             if len(uses) == 1:
                 free_curves.extend(_open_curves(model, first.face, first.uv))
     for index, face in enumerate(model.faces):
@@ -188,11 +202,23 @@ def _tiny(model: Model) -> float:
 
 
 def _open_curves(model: Model, face: int, uv: np.ndarray) -> list[BoundaryCurve]:
+    """A free edge of the file as open boundary curves (a closed one cut in two, so it has ends).
+
+    An edge closed in 3-D but not in (u, v), the end circle of a periodic face,
+    runs once round the face: it is cut in the middle, never closed by a chord
+    back across the parameter domain (that chord would run round the face again).
+    """
     surface = model.faces[face].surface
     pts = surface.points_at(uv[:, 0], uv[:, 1])
-    if uv.shape[0] > 2 and np.linalg.norm(pts[0] - pts[-1]) <= 1e-9 * max(model.size, 1.0):
+    closed_3d = uv.shape[0] > 2 and np.linalg.norm(pts[0] - pts[-1]) <= 1e-9 * max(model.size, 1.0)
+    if not closed_3d:
+        return [BoundaryCurve(face, uv)]
+    (u0, u1), (v0, v1) = surface.domain
+    closed_uv = np.all(np.abs(uv[0] - uv[-1]) <= 1e-9 * np.array([u1 - u0, v1 - v0]))
+    if closed_uv:
         return [BoundaryCurve(face, piece) for piece in split_closed(uv[:-1], pts[:-1])]
-    return [BoundaryCurve(face, uv)]
+    middle = uv.shape[0] // 2
+    return [BoundaryCurve(face, uv[: middle + 1]), BoundaryCurve(face, uv[middle:])]
 
 
 @dataclass
@@ -203,6 +229,7 @@ class _Samples:
     t: np.ndarray  # (N,) curve parameter
     first: np.ndarray  # (N,) bool: first sample of its curve
     last: np.ndarray  # (N,) bool
+    uv: np.ndarray  # (N, 2) on its face
 
 
 def _sample(model: Model, curves: list[BoundaryCurve], spacing: float) -> _Samples:
@@ -219,7 +246,7 @@ def _sample(model: Model, curves: list[BoundaryCurve], spacing: float) -> _Sampl
         ends = np.zeros(m, dtype=bool)
         first, last = ends.copy(), ends.copy()
         first[0], last[-1] = True, True
-        parts.append((pts, tangent, np.full(m, i), t, first, last))
+        parts.append((pts, tangent, np.full(m, i), t, first, last, uv))
     return _Samples(*(np.concatenate(col) for col in zip(*parts, strict=True)))
 
 
@@ -272,9 +299,10 @@ def _match_curves(model: Model, curves: list[BoundaryCurve], search: float) -> t
     step = np.linalg.norm(np.diff(s.points, axis=0), axis=1)
     reach = search + (step[~s.last[:-1]].max() if np.any(~s.last[:-1]) else 0.0)
     pairs = cKDTree(s.points).query_pairs(reach, output_type="ndarray")
-    # Pairs on different faces, or on different curves of one face (a closed
-    # surface meeting itself along its parametric closure).
+    # Pairs on different faces, or on two curves of one face at opposite ends
+    # of its parameter domain (a closed surface meeting itself along its closure).
     pairs = pairs[s.curve[pairs[:, 0]] != s.curve[pairs[:, 1]]]
+    pairs = pairs[_not_self(model, s, sample_face, pairs)]
     p = np.concatenate([pairs[:, 0], pairs[:, 1]])
     q = np.concatenate([pairs[:, 1], pairs[:, 0]])
     slack = END_SLACK * max(model.size, 1.0)
@@ -331,6 +359,33 @@ def _match_curves(model: Model, curves: list[BoundaryCurve], search: float) -> t
     return seams, free
 
 
+def _not_self(model: Model, s: _Samples, sample_face: np.ndarray, pairs: np.ndarray) -> np.ndarray:
+    """Which sample pairs may meet: on different faces, or across a face's periodic closure.
+
+    Two boundary samples of one face meet only where they sit at opposite ends
+    of one parameter direction (``u = u0`` and ``u = u1``, or the same in v).
+    Anything else (two halves of a free end circle, a boundary folding back
+    near itself) is one face's own boundary, not a seam.
+    """
+    same = sample_face[pairs[:, 0]] == sample_face[pairs[:, 1]]
+    keep = ~same
+    idx = np.flatnonzero(same)
+    if idx.size == 0:
+        return keep
+    p, q = pairs[idx, 0], pairs[idx, 1]
+    domains = np.array([np.ravel(f.surface.domain) for f in model.faces])[sample_face[p]]  # (k, 4): u0 u1 v0 v1
+    closure = np.zeros(idx.size, dtype=bool)
+    for axis in (0, 1):
+        lo, hi = domains[:, 2 * axis], domains[:, 2 * axis + 1]
+        near = CLOSURE_RTOL * (hi - lo)
+        a, b = s.uv[p, axis], s.uv[q, axis]
+        closure |= ((np.abs(a - lo) <= near) & (np.abs(b - hi) <= near)) | (
+            (np.abs(a - hi) <= near) & (np.abs(b - lo) <= near)
+        )
+    keep[idx] = closure
+    return keep
+
+
 def _runs(labels: np.ndarray) -> list[tuple[int, int, int]]:
     """(first, last, label) of each run of equal labels."""
     cuts = np.flatnonzero(np.diff(labels)) + 1
@@ -344,6 +399,20 @@ def sub_polyline(uv: np.ndarray, t0: float, t1: float) -> np.ndarray:
     inner = inner[(inner > t0) & (inner < t1)]
     ts = np.concatenate([[t0], inner, [t1]])
     return polyline_at(uv, ts)[0]
+
+
+def _fraction_to_t(model: Model, face: int, uv: np.ndarray, tau0: float, tau1: float) -> tuple[float, float]:
+    """Polyline parameters at arc-length fractions of a boundary curve."""
+    t_table, arc = arc_length_table(model.faces[face].surface, uv, 64 * (uv.shape[0] - 1))
+    fraction = arc / arc[-1] if arc[-1] > 0 else np.linspace(0.0, 1.0, arc.size)
+    t0, t1 = np.interp([tau0, tau1], fraction, t_table)
+    return float(t0), float(t1)
+
+
+def free_piece(model: Model, face: int, uv: np.ndarray, tau0: float, tau1: float) -> FreeEdge:
+    """The part of a boundary polyline between arc-length fractions ``tau0 < tau1``, as a free edge."""
+    t0, t1 = _fraction_to_t(model, face, uv, tau0, tau1)
+    return _free_edge(model, BoundaryCurve(face, uv), t0, t1)
 
 
 def _free_edge(model: Model, curve: BoundaryCurve, t0: float, t1: float) -> FreeEdge:

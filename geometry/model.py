@@ -126,10 +126,14 @@ class EdgeUse:
     uv : ndarray of shape (n, 2)
         The edge as a polyline in that face's parameter space (the p-curve),
         ordered like :attr:`Edge.points` where the file allows.
+    offset : float
+        Largest distance (mm) from the p-curve, on the face, to the 3-D edge:
+        how far the file's trim and edge disagree. 0 when not known.
     """
 
     face: int
     uv: np.ndarray
+    offset: float = 0.0
 
     def __post_init__(self):
         object.__setattr__(self, "uv", _frozen(self.uv, (2,)))
@@ -146,10 +150,13 @@ class Edge:
     uses : tuple of EdgeUse
         One use per face bounded by the edge: two for a seam, one for a free
         edge (more for a non-manifold edge).
+    tolerance : float
+        The file's own tolerance of the edge (mm), 0 when it gives none.
     """
 
     points: np.ndarray
     uses: tuple[EdgeUse, ...] = ()
+    tolerance: float = 0.0
 
     def __post_init__(self):
         object.__setattr__(self, "points", _frozen(self.points, (3,)))
@@ -162,6 +169,27 @@ class Edge:
     @property
     def length(self) -> float:
         return float(np.linalg.norm(np.diff(self.points, axis=0), axis=1).sum())
+
+
+@dataclass(frozen=True)
+class SkippedFace:
+    """A face of the file that is not in the model, and why.
+
+    Attributes
+    ----------
+    place : int or None
+        Its 1-based place among the file's faces, None when the kernel never
+        built it (only the count is known).
+    name : str
+    reason : str
+    """
+
+    place: int | None
+    name: str
+    reason: str
+
+    def as_dict(self) -> dict:
+        return {"place": self.place, "name": self.name, "reason": self.reason}
 
 
 @dataclass(frozen=True, eq=False)
@@ -184,6 +212,9 @@ class Model:
         The unit the file declared.
     warnings : tuple of str
         What the reader skipped or repaired, face by face.
+    skipped : tuple of SkippedFace
+        Faces of the file left out, each with its reason:
+        ``faces_in_file == len(faces) + len(skipped)``.
     """
 
     faces: tuple[Face, ...]
@@ -193,11 +224,26 @@ class Model:
     units: str = "mm"
     source_units: str = "mm"
     warnings: tuple[str, ...] = field(default_factory=tuple)
+    skipped: tuple[SkippedFace, ...] = field(default_factory=tuple)
 
     def __post_init__(self):
         object.__setattr__(self, "faces", tuple(self.faces))
         object.__setattr__(self, "edges", tuple(self.edges))
         object.__setattr__(self, "warnings", tuple(self.warnings))
+        object.__setattr__(self, "skipped", tuple(self.skipped))
+
+    @property
+    def faces_in_file(self) -> int:
+        """Faces the file holds: those analysed plus those skipped."""
+        return len(self.faces) + len(self.skipped)
+
+    def face_account(self) -> dict:
+        """Every face of the file accounted for, as plain data (JSON, reports, the window)."""
+        return {
+            "in_file": self.faces_in_file,
+            "analysed": len(self.faces),
+            "skipped": [s.as_dict() for s in self.skipped],
+        }
 
     @property
     def bounds(self) -> np.ndarray:

@@ -10,6 +10,11 @@ from dataclasses import asdict, dataclass
 
 # Continuity classes, weakest first. "broken" = not even in position.
 CLASSES = ("broken", "G0", "G1", "G2")
+# A seam kinked by at least crease_deg less this band (degrees) along its whole
+# length is a crease: far above the rounding of a measured angle (about 1e-9
+# degrees) and of an exporter's chamfer (29.99999...), far below any designed
+# difference between a crease and a seam that should be smooth (common practice).
+CREASE_BAND_DEG = 0.01
 
 
 @dataclass(frozen=True)
@@ -34,8 +39,9 @@ class SeamTolerance:
     required : str
         The class every seam must reach: ``"G0"``, ``"G1"`` or ``"G2"``.
     crease_deg : float or None
-        A seam whose normals differ by at least this everywhere along it is a
-        designed crease (a sharp edge): it only has to meet in position.
+        A seam whose normals differ by at least this (less
+        :data:`CREASE_BAND_DEG`, so rounding cannot tip it) everywhere along it
+        is a designed crease (a sharp edge): it only has to meet in position.
         ``None``: no seam counts as a crease.
     source : str
         Where the profile came from (a file path, or "built-in").
@@ -108,7 +114,9 @@ def classify(
     Notes
     -----
     G0: gap within ``position_mm``; G1: also the angle within ``tangent_deg``;
-    G2: also the relative curvature jump within ``curvature_relative``. For two
+    G2: also the relative curvature jump within ``curvature_relative``. A
+    crease is a seam whose smallest angle reaches ``crease_deg`` within
+    :data:`CREASE_BAND_DEG`; it only has to be G0. For two
     surfaces already G1 along a curve, equal normal curvature across it is
     enough for curvature continuity (the linkage-curve theorem of Pegna and
     Wolter, J. Mech. Des. 114, 1992; cited from memory).
@@ -124,7 +132,7 @@ def classify(
     g1 = g0 and angle_max <= tol.tangent_deg
     g2 = g1 and jump_rel_max <= tol.curvature_relative
     continuity = "G2" if g2 else "G1" if g1 else "G0" if g0 else "broken"
-    crease = tol.crease_deg is not None and angle_min >= tol.crease_deg
+    crease = tol.crease_deg is not None and angle_min >= tol.crease_deg - CREASE_BAND_DEG
     required = "G0" if crease else tol.required
     rank = CLASSES.index(required)
     passed = CLASSES.index(continuity) >= rank

@@ -2,250 +2,67 @@
 
 :func:`check_seams` finds the seams (:mod:`geometry.adjacency`), samples each
 densely and evenly in arc length, refines the worst sample of every measure to
-the maximum between its neighbours (a bounded search, :func:`refine_maxima`,
-so the worst value and its place are found, not just the worst sample), classifies the seam and
-gives a verdict against the :class:`SeamTolerance` in force, which every
-result echoes. The measures are defined in :mod:`geometry.seam_measures`:
-gap (G0), angle between the normals (G1), cross-seam normal curvature jump
-(G2), and where both sides are iso-parameter lines that line up, the jumps of
-the cross iso-curves' curvature vector and third derivative (G3). The class
-is decided by G0 to G2; the G3 jump is reported only.
+the maximum between its neighbours (a bounded search, so the worst value and
+its place are found, not just the worst sample), classifies the seam and gives
+a verdict against the :class:`SeamTolerance` in force, which every result
+echoes. The measures are defined in :mod:`geometry.seam_measures`: gap (G0),
+angle between the normals (G1), cross-seam normal curvature jump (G2), and
+where both sides are iso-parameter lines that line up, the jumps of the cross
+iso-curves' curvature vector and third derivative (G3). The class is decided
+by G0 to G2; the G3 jump is reported only.
+
+Seams from the file's shared edges are measured between the two surfaces at
+the 3-D edge (:mod:`geometry.seam_edges`), all of them batched together;
+seams matched geometrically are measured from side a's boundary to side b's
+(:mod:`geometry.seam_measures`), and cut back to where their gap stays within
+the search distance they were matched with.
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass, fields
-from types import MappingProxyType
+from collections.abc import Callable
 
 import numpy as np
 
-from .adjacency import Adjacency, FreeEdge, SeamPair, find_seams
-from .model import Model, _frozen
+from .adjacency import Adjacency, FreeEdge, SeamPair, find_seams, free_piece
+from .model import Model
+from .seam_batch import MAX_SPACING_MM, MIN_SAMPLES, REFINED, SAMPLED, ZOOM_POINTS, ZOOM_ROUNDS, measure_batch
+from .seam_batch import refine_maxima_batch as _refine_batch
+from .seam_edges import EdgeSeams, measurable_at_edge
 from .seam_measures import SeamGeometry
-from .seam_tolerance import SeamTolerance, classify
+from .seam_results import SeamReport, SeamResult, Worst
+from .seam_tolerance import SeamTolerance
 
-# Sampling along a seam: at most this spacing (mm), within these counts.
-MAX_SPACING_MM = 1.0
-MIN_SAMPLES, MAX_SAMPLES = 129, 4097
-# Refinement of each maximum: grid points per round and rounds; the bracket
-# (two sample spacings) shrinks 16-fold per round, to about 1e-6 spacings.
-ZOOM_POINTS, ZOOM_ROUNDS = 33, 5
-# Measures refined to their maximum; their keys in the plain-dict "worst".
-REFINED = ("gap", "angle", "curvature_jump", "curvature_jump_rel", "iso_curvature_jump", "curvature_derivative_jump")
-SAMPLED = (
-    "gap",
-    "angle",
-    "curvature_a",
-    "curvature_b",
-    "curvature_jump",
-    "curvature_jump_rel",
-    "iso_curvature_jump",
-    "curvature_derivative_jump",
-)
+# Edge seams measured in one batch: about this many samples (bounds memory; each
+# batch reports progress).
+BATCH_SAMPLES = 60_000
+# A geometric seam whose gap exceeds the search distance is cut back this many times at most.
+CUT_ROUNDS = 3
 
+Progress = Callable[[int, int], None]
 
-def _readonly(a) -> np.ndarray:
-    return _frozen(a, np.shape(a)[1:])
-
-
-@dataclass(frozen=True, eq=False)
-class Worst:
-    """Where a measure is largest along a seam.
-
-    Attributes
-    ----------
-    value : float
-        The maximum (mm, degrees, 1/mm or fraction, by measure); NaN if the
-        measure does not apply.
-    arc : float
-        Distance along the seam from its start, mm.
-    xyz : ndarray of shape (3,)
-        The place on side a, mm.
-    uv_a, uv_b : ndarray of shape (2,)
-        Its parameters on face a and the closest boundary point's on face b.
-    """
-
-    value: float
-    arc: float
-    xyz: np.ndarray
-    uv_a: np.ndarray
-    uv_b: np.ndarray
-
-    def __post_init__(self):
-        for key in ("xyz", "uv_a", "uv_b"):
-            object.__setattr__(self, key, _readonly(getattr(self, key)))
-
-    def as_dict(self) -> dict:
-        return {
-            "value": _num(self.value),
-            "arc_mm": _num(self.arc),
-            "xyz": [float(x) for x in self.xyz],
-            "uv_a": [float(x) for x in self.uv_a],
-            "uv_b": [float(x) for x in self.uv_b],
-        }
-
-
-def _num(x: float) -> float | None:
-    return None if not np.isfinite(x) else float(x)
-
-
-@dataclass(frozen=True, eq=False)
-class SeamResult:
-    """The measured continuity of one seam.
-
-    Attributes
-    ----------
-    faces : tuple of int
-        (a, b): a is the side sampled, b the side projected on.
-    source : str
-        ``"topology"`` or ``"geometry"`` (how the seam was found).
-    length : float
-        mm.
-    arc : ndarray of shape (n,)
-        Sample positions along the seam, mm.
-    points : ndarray of shape (n, 3)
-        Samples on side a.
-    gap, angle, curvature_a, curvature_b, curvature_jump, curvature_jump_rel : ndarray of shape (n,)
-        The measures at the samples: mm, degrees, 1/mm (cross-seam normal
-        curvature of each side and their jump), fraction.
-    iso_curvature_jump, curvature_derivative_jump : ndarray of shape (n,)
-        Jump of the cross iso-curves' curvature vector (1/mm) and of their
-        third arc-length derivative (G3, 1/mm^2); NaN where the two sides'
-        iso-curves do not line up across the seam.
-    worst : mapping of str to Worst
-        Refined maximum of each measure in :data:`REFINED`.
-    mean : mapping of str to float
-        Arc-length mean of each measure.
-    angle_min : float
-        Smallest angle along the seam, degrees (decides a crease).
-    orientation_consistent : bool
-        False when the faces' normals disagree by orientation alone (side b's
-        normal was flipped for the measures).
-    continuity, verdict : str
-        Achieved class (G2, G1, G0, broken) and pass/fail against ``tolerance``.
-    crease : bool
-    reasons : tuple of str
-    tolerance : SeamTolerance
-        The profile in force.
-    """
-
-    faces: tuple[int, int]
-    source: str
-    length: float
-    arc: np.ndarray
-    points: np.ndarray
-    gap: np.ndarray
-    angle: np.ndarray
-    curvature_a: np.ndarray
-    curvature_b: np.ndarray
-    curvature_jump: np.ndarray
-    curvature_jump_rel: np.ndarray
-    iso_curvature_jump: np.ndarray
-    curvature_derivative_jump: np.ndarray
-    worst: MappingProxyType
-    mean: MappingProxyType
-    angle_min: float
-    orientation_consistent: bool
-    continuity: str
-    verdict: str
-    crease: bool
-    reasons: tuple[str, ...]
-    tolerance: SeamTolerance
-
-    def __post_init__(self):
-        for f in fields(self):
-            value = getattr(self, f.name)
-            if isinstance(value, np.ndarray):
-                object.__setattr__(self, f.name, _readonly(value))
-
-    @property
-    def worst_position(self) -> np.ndarray:
-        """xyz (3,) of the worst place: the first measure over tolerance, else the largest angle."""
-        tol = self.tolerance
-        for key, limit in (("gap", tol.position_mm), ("angle", tol.tangent_deg)):
-            if self.worst[key].value > limit:
-                return self.worst[key].xyz
-        if self.worst["curvature_jump_rel"].value > tol.curvature_relative:
-            return self.worst["curvature_jump_rel"].xyz
-        return self.worst["angle"].xyz
-
-    def as_dict(self) -> dict:
-        """Plain data for JSON (the ``seams`` entries of ``batten check``)."""
-        return {
-            "faces": list(self.faces),
-            "source": self.source,
-            "length": self.length,
-            "gap_max": _num(self.worst["gap"].value),
-            "gap_mean": _num(self.mean["gap"]),
-            "angle_max_deg": _num(self.worst["angle"].value),
-            "angle_mean_deg": _num(self.mean["angle"]),
-            "angle_min_deg": _num(self.angle_min),
-            "curvature_jump_max": _num(self.worst["curvature_jump"].value),
-            "curvature_jump_mean": _num(self.mean["curvature_jump"]),
-            "curvature_jump_rel_max": _num(self.worst["curvature_jump_rel"].value),
-            "curvature_jump_rel_mean": _num(self.mean["curvature_jump_rel"]),
-            "iso_curvature_jump_max": _num(self.worst["iso_curvature_jump"].value),
-            "curvature_derivative_jump_max": _num(self.worst["curvature_derivative_jump"].value),
-            "worst": {key: w.as_dict() for key, w in self.worst.items()},
-            "worst_position": [float(x) for x in self.worst_position],
-            "orientation_consistent": self.orientation_consistent,
-            "continuity": self.continuity,
-            "verdict": self.verdict,
-            "crease": self.crease,
-            "reasons": list(self.reasons),
-            "profile": self.tolerance.name,
-        }
-
-
-@dataclass(frozen=True, eq=False)
-class SeamReport:
-    """Every seam and free edge of a model, measured against one tolerance.
-
-    Attributes
-    ----------
-    seams : tuple of SeamResult
-    free_edges : tuple of FreeEdge
-    tolerance : SeamTolerance
-    search_distance : float
-        mm.
-    """
-
-    seams: tuple[SeamResult, ...]
-    free_edges: tuple[FreeEdge, ...]
-    tolerance: SeamTolerance
-    search_distance: float
-
-    @property
-    def failing(self) -> tuple[SeamResult, ...]:
-        return tuple(s for s in self.seams if s.verdict == "fail")
-
-    def as_dict(self) -> dict:
-        return {
-            "profile": self.tolerance.as_dict(),
-            "search_distance_mm": self.search_distance,
-            "seams": [s.as_dict() for s in self.seams],
-            "free_edges": [
-                {
-                    "face": e.face,
-                    "length": e.length,
-                    "start": [float(x) for x in e.points[0]],
-                    "end": [float(x) for x in e.points[-1]],
-                }
-                for e in self.free_edges
-            ],
-            "summary": {
-                "seams": len(self.seams),
-                "failing": len(self.failing),
-                "free_edges": len(self.free_edges),
-                "free_length": float(sum(e.length for e in self.free_edges)),
-            },
-        }
+__all__ = [
+    "MAX_SPACING_MM",
+    "MIN_SAMPLES",
+    "REFINED",
+    "SAMPLED",
+    "ZOOM_POINTS",
+    "ZOOM_ROUNDS",
+    "SeamReport",
+    "SeamResult",
+    "Worst",
+    "analyse_seams",
+    "check_seams",
+    "measure_seam",
+    "measure_seams",
+    "refine_maxima",
+]
 
 
 def refine_maxima(
     evaluate, tau: np.ndarray, values: dict[str, np.ndarray], keys: tuple[str, ...]
 ) -> dict[str, tuple[float, float]]:
-    """(tau, value) of the maximum of each measure near its worst sample.
+    """(tau, value) of the maximum of each measure of one seam near its worst sample.
 
     Parameters
     ----------
@@ -254,9 +71,7 @@ def refine_maxima(
     tau : ndarray of shape (n,)
         Sample positions, increasing.
     values : dict of ndarray of shape (n,)
-        The measures at the samples.
     keys : tuple of str
-        Measures to refine.
 
     Returns
     -------
@@ -265,37 +80,12 @@ def refine_maxima(
 
     Notes
     -----
-    Nested grid search, all measures at once: the bracket starts at the worst
-    sample's two neighbours, is sampled at :data:`ZOOM_POINTS` points, and
-    shrinks to the best point's neighbours; each round divides it by
-    ``(ZOOM_POINTS - 1) / 2``. For a measure that is unimodal in the bracket
-    this converges to the maximum (a vectorised form of the bracketing
-    searches of Press et al., Numerical Recipes, 3rd ed., sec. 10.2). The
-    value never drops below the worst sample's.
+    :func:`geometry.seam_batch.refine_maxima_batch` for a single seam.
     """
-    keys = tuple(k for k in keys if np.any(np.isfinite(values[k])))
+    seam = np.zeros(tau.size, dtype=int)
+    t_best, best = _refine_batch(lambda _, t: evaluate(t), seam, tau, np.array([0]), values, keys)
     out = {k: (0.0, float("nan")) for k in values if k not in keys}
-    if not keys:
-        return out
-    n = tau.size
-    worst = np.array([np.nanargmax(values[k]) for k in keys])
-    best_tau = tau[worst].astype(float)
-    best = np.array([values[k][i] for k, i in zip(keys, worst, strict=True)], dtype=float)
-    lo, hi = tau[np.maximum(worst - 1, 0)], tau[np.minimum(worst + 1, n - 1)]
-    fraction = np.linspace(0.0, 1.0, ZOOM_POINTS)
-    for _ in range(ZOOM_ROUNDS):
-        grid = lo[:, None] + (hi - lo)[:, None] * fraction[None, :]
-        ev = evaluate(grid.ravel())
-        rows = np.stack([ev[k].reshape(grid.shape)[i] for i, k in enumerate(keys)])
-        rows = np.where(np.isfinite(rows), rows, -np.inf)
-        j = np.argmax(rows, axis=1)
-        top = rows[np.arange(len(keys)), j]
-        better = top > best
-        best = np.where(better, top, best)
-        best_tau = np.where(better, grid[np.arange(len(keys)), j], best_tau)
-        step = (hi - lo) / (ZOOM_POINTS - 1)
-        lo, hi = np.maximum(best_tau - step, lo), np.minimum(best_tau + step, hi)
-    out.update({k: (float(t), float(v)) for k, t, v in zip(keys, best_tau, best, strict=True)})
+    out.update({k: (float(t_best[0, i]), float(best[0, i])) for i, k in enumerate(keys)})
     return out
 
 
@@ -306,7 +96,7 @@ def measure_seam(
     max_spacing: float = MAX_SPACING_MM,
     min_samples: int = MIN_SAMPLES,
 ) -> SeamResult:
-    """Measure one seam.
+    """Measure one seam from side a's boundary to side b's (see :class:`SeamGeometry`).
 
     Parameters
     ----------
@@ -323,40 +113,16 @@ def measure_seam(
     SeamResult
     """
     geometry = SeamGeometry(model, pair, tolerance.flat_curvature_per_mm)
-    n = int(np.clip(np.ceil(geometry.length / max_spacing) + 1, max(min_samples, 3), max(MAX_SAMPLES, min_samples)))
-    tau = np.linspace(0.0, 1.0, n)
-    values = geometry.evaluate(tau)
-    maxima = refine_maxima(geometry.evaluate, tau, values, REFINED)
-    at = geometry.evaluate(np.array([maxima[key][0] for key in REFINED]))
-    worst, mean = {}, {}
-    for i, key in enumerate(REFINED):
-        t_best, value = maxima[key]
-        worst[key] = Worst(value, t_best * geometry.length, at["points"][i], at["uv_a"][i], at["uv_b"][i])
-    arc = tau * geometry.length
-    for key in SAMPLED:
-        finite = np.isfinite(values[key])
-        mean[key] = float(np.mean(values[key][finite])) if np.any(finite) else float("nan")
-    angle_min = float(np.min(values["angle"]))
-    verdict = classify(
-        worst["gap"].value, worst["angle"].value, angle_min, worst["curvature_jump_rel"].value, tolerance
+    (result,) = measure_batch(
+        lambda _, tau: geometry.evaluate(tau),
+        [pair],
+        np.array([geometry.length]),
+        np.array([geometry.orientation]),
+        tolerance,
+        max_spacing,
+        min_samples,
     )
-    return SeamResult(
-        faces=pair.faces,
-        source=pair.source,
-        length=geometry.length,
-        arc=arc,
-        points=values["points"],
-        **{key: values[key] for key in SAMPLED},
-        worst=MappingProxyType(worst),
-        mean=MappingProxyType(mean),
-        angle_min=angle_min,
-        orientation_consistent=geometry.orientation > 0,
-        continuity=verdict.continuity,
-        verdict=verdict.verdict,
-        crease=verdict.crease,
-        reasons=verdict.reasons,
-        tolerance=tolerance,
-    )
+    return result
 
 
 def _tolerance(tolerance) -> SeamTolerance:
@@ -369,11 +135,134 @@ def _tolerance(tolerance) -> SeamTolerance:
     return tolerance
 
 
-def measure_seams(model: Model, adjacency: Adjacency, tolerance: SeamTolerance, **sampling) -> SeamReport:
-    """Measure every seam an adjacency found (see :func:`measure_seam` for ``sampling``)."""
+def _batches(pairs: list[SeamPair], max_spacing: float) -> list[list[int]]:
+    """Indices of ``pairs`` in groups of about :data:`BATCH_SAMPLES` samples."""
+    groups, current, size = [], [], 0
+    for i, pair in enumerate(pairs):
+        length = float(np.linalg.norm(np.diff(pair.points, axis=0), axis=1).sum())
+        current.append(i)
+        size += int(np.clip(length / max_spacing + 1, MIN_SAMPLES, 4097))
+        if size >= BATCH_SAMPLES:
+            groups.append(current)
+            current, size = [], 0
+    if current:
+        groups.append(current)
+    return groups
+
+
+def _within_search(
+    model: Model, pair: SeamPair, result: SeamResult, search: float, tolerance: SeamTolerance, sampling: dict
+) -> tuple[SeamResult | None, list[FreeEdge]]:
+    """A matched seam cut back to its longest stretch whose gap stays within the search distance.
+
+    What is cut off is free boundary of side a. A seam with no such stretch is
+    no seam: all of it is free.
+    """
+    free: list[FreeEdge] = []
+    for _ in range(CUT_ROUNDS):
+        if not result.worst["gap"].value > search:
+            return result, free
+        ok = result.gap <= search
+        runs = np.flatnonzero(np.diff(np.concatenate([[0], ok.astype(int), [0]])))
+        starts, stops = runs[::2], runs[1::2] - 1  # inclusive sample ranges where ok
+        fraction = result.arc / max(result.length, 1e-300)
+        if starts.size == 0:
+            return None, [free_piece(model, pair.face_a, pair.uv_a, 0.0, 1.0)]
+        longest = int(np.argmax(stops - starts))
+        i0, i1 = starts[longest], stops[longest]
+        if i1 - i0 < 2:
+            return None, [free_piece(model, pair.face_a, pair.uv_a, 0.0, 1.0)]
+        tau0, tau1 = fraction[i0], fraction[i1]
+        if tau0 > 0:
+            free.append(free_piece(model, pair.face_a, pair.uv_a, 0.0, tau0))
+        if tau1 < 1:
+            free.append(free_piece(model, pair.face_a, pair.uv_a, tau1, 1.0))
+        pair = pair.cut(model, tau0, tau1)
+        result = measure_seam(model, pair, tolerance, **sampling)
+    if result.worst["gap"].value > search:
+        return None, [*free, free_piece(model, pair.face_a, pair.uv_a, 0.0, 1.0)]
+    return result, free
+
+
+def _pcurve_warnings(model: Model, adjacency: Adjacency, tolerance: SeamTolerance) -> list[str]:
+    """One line for each p-curve lying off its 3-D edge by more than the position tolerance."""
+    lines = []
+    for pair in adjacency.seams:
+        if pair.edge < 0:
+            continue
+        edge = model.edges[pair.edge]
+        for use in edge.uses:
+            if use.offset > tolerance.position_mm:
+                face = model.faces[use.face]
+                name = f" ('{face.name}')" if face.name else ""
+                told = f"; the file's tolerance for the edge is {edge.tolerance:.3g} mm" if edge.tolerance > 0 else ""
+                lines.append(
+                    f"face {use.face}{name}, edge {pair.edge} (faces {pair.face_a} and {pair.face_b}): its trim "
+                    f"curve lies up to {use.offset:.3g} mm off the 3-D edge, beyond the position tolerance "
+                    f"{tolerance.position_mm:g} mm{told}; the seam is measured between the surfaces at the edge"
+                )
+    return lines
+
+
+def measure_seams(
+    model: Model, adjacency: Adjacency, tolerance: SeamTolerance, progress: Progress | None = None, **sampling
+) -> SeamReport:
+    """Measure every seam an adjacency found (see :func:`measure_seam` for ``sampling``).
+
+    Parameters
+    ----------
+    model : Model
+    adjacency : Adjacency
+    tolerance : SeamTolerance
+    progress : callable, optional
+        ``progress(done, total)``: seams measured so far, after each batch.
+    **sampling
+        ``max_spacing``, ``min_samples``.
+
+    Returns
+    -------
+    SeamReport
+        Seams in the order of ``adjacency.seams``, less matched seams with no
+        stretch within the search distance (those become free edges).
+    """
     tolerance = _tolerance(tolerance)
-    seams = tuple(measure_seam(model, pair, tolerance, **sampling) for pair in adjacency.seams)
-    return SeamReport(seams, adjacency.free_edges, tolerance, adjacency.search_distance)
+    max_spacing = sampling.get("max_spacing", MAX_SPACING_MM)
+    pairs = list(adjacency.seams)
+    total = len(pairs)
+    results: list[SeamResult | None] = [None] * total
+    at_edge = [i for i, p in enumerate(pairs) if measurable_at_edge(p)]
+    done = 0
+    for group in _batches([pairs[i] for i in at_edge], max_spacing):
+        chosen = [pairs[at_edge[g]] for g in group]
+        batch = EdgeSeams(model, chosen, tolerance.flat_curvature_per_mm)
+        measured = measure_batch(batch.evaluate, chosen, batch.length, batch.orientation, tolerance, **sampling)
+        for g, result in zip(group, measured, strict=True):
+            results[at_edge[g]] = result
+        done += len(group)
+        if progress is not None:
+            progress(done, total)
+    free = list(adjacency.free_edges)
+    warnings = _pcurve_warnings(model, adjacency, tolerance)
+    for i, pair in enumerate(pairs):
+        if results[i] is not None:
+            continue
+        result = measure_seam(model, pair, tolerance, **sampling)
+        if pair.source == "geometry":
+            kept, cut = _within_search(model, pair, result, adjacency.search_distance, tolerance, sampling)
+            if cut:
+                what = "is cut back to" if kept is not None else "is left as free edges: no stretch of it lies"
+                warnings.append(
+                    f"faces {pair.face_a} and {pair.face_b}: a matched seam {what} where the faces lie within the "
+                    f"search distance {adjacency.search_distance:.3g} mm"
+                )
+            result = kept
+            free.extend(cut)
+        results[i] = result
+        done += 1
+        if progress is not None and (done == total or done % 16 == 0):
+            progress(done, total)
+    seams = tuple(r for r in results if r is not None)
+    return SeamReport(seams, tuple(free), tolerance, adjacency.search_distance, tuple(warnings))
 
 
 def check_seams(
@@ -382,6 +271,7 @@ def check_seams(
     search_distance: float | None = None,
     topology: bool = True,
     geometry: bool = True,
+    progress: Progress | None = None,
     **sampling,
 ) -> SeamReport:
     """Find and measure every seam of a model.
@@ -396,6 +286,8 @@ def check_seams(
         mm; default :func:`geometry.adjacency.default_search_distance`.
     topology, geometry : bool
         Which seam sources to use (see :func:`geometry.adjacency.find_seams`).
+    progress : callable, optional
+        ``progress(done, total)`` as seams are measured.
     **sampling
         ``max_spacing``, ``min_samples`` for :func:`measure_seam`.
 
@@ -405,7 +297,7 @@ def check_seams(
     """
     tolerance = _tolerance(tolerance)
     adjacency = find_seams(model, search_distance, topology=topology, geometry=geometry)
-    return measure_seams(model, adjacency, tolerance, **sampling)
+    return measure_seams(model, adjacency, tolerance, progress, **sampling)
 
 
 def analyse_seams(model: Model, tolerance: SeamTolerance | None = None, **options) -> SeamReport:

@@ -17,7 +17,7 @@ from test_io_support import plate_with_hole, sphere, write_step
 from app.cli import EXIT_BAD_INPUT, main
 from geometry.errors import BattenError
 from geometry.io import read_model
-from geometry.io.occt_curves import CHORD_DEFLECTION_MM
+from geometry.io.occt_curves import EDGE_CHORD_MM
 from geometry.model import Face, Model
 from geometry.nurbs import NurbsSurface
 from geometry.probe import closest_parameters, probe_point, probe_uv
@@ -101,9 +101,13 @@ def test_nearest_point_snaps_to_the_trim_of_a_lone_face(tmp_path):
     top = max((f for f in plate.faces if len(f.loops) == 2), key=lambda f: f.surface.poles[0, 0, 2])
     res = probe_point(Model((top,)), np.array([20.0, 23.0, 10.5]))
     assert res.on_trim_boundary and res.inside
-    # Exact: the rim point (20, 25, 10); the trim polyline is within CHORD_DEFLECTION_MM of it.
-    np.testing.assert_allclose(res.point, [20.0, 25.0, 10.0], atol=CHORD_DEFLECTION_MM)
-    assert res.distance == pytest.approx(np.hypot(2.0, 0.5), abs=CHORD_DEFLECTION_MM)
+    # Exact: the rim point (20, 25, 10). The trim polyline's chords stay within EDGE_CHORD_MM
+    # of the rim, but each is turned by up to half its arc's angle (chord / (2 R)), so the
+    # foot of a point 2 mm away slides along the rim by up to 2 mm times that angle.
+    chord = np.sqrt(8 * EDGE_CHORD_MM * 5.0)
+    np.testing.assert_allclose(np.hypot(res.point[0] - 20.0, res.point[1] - 20.0), 5.0, atol=EDGE_CHORD_MM)
+    np.testing.assert_allclose(res.point, [20.0, 25.0, 10.0], atol=2.0 * chord / (2 * 5.0) + EDGE_CHORD_MM)
+    assert res.distance == pytest.approx(np.hypot(2.0, 0.5), abs=EDGE_CHORD_MM)
 
 
 def test_cli_probe_at_and_uv(tmp_path, capsys):

@@ -13,7 +13,7 @@ import pytest
 from test_io_support import plate_with_hole, write_step
 
 from geometry.io import read_model
-from geometry.io.occt_curves import CHORD_DEFLECTION_MM
+from geometry.io.occt_curves import EDGE_CHORD_MM
 from geometry.model import Face, Model
 from geometry.nurbs import NurbsSurface
 from geometry.sampling import DEFAULT_BUDGET, face_grid, model_grids, trimmed_mesh
@@ -79,8 +79,8 @@ def test_trimmed_plate_mask_and_mesh(tmp_path):
     area = _area(points, tris)
     assert exact - 2 * np.pi * radius * cell * 2 <= area <= exact
     centre = np.array([size / 2, size / 2])
-    # The trim polygon's chords stay within CHORD_DEFLECTION_MM of the hole's circle.
-    assert np.all(np.linalg.norm(points[:, :2] - centre, axis=1) >= radius - CHORD_DEFLECTION_MM)
+    # The trim polygon's chords stay within EDGE_CHORD_MM of the hole's circle.
+    assert np.all(np.linalg.norm(points[:, :2] - centre, axis=1) >= radius - EDGE_CHORD_MM)
     assert 0 < grid.count < grid.inside.size
 
 

@@ -22,6 +22,7 @@ from PySide6.QtWidgets import (
 from pyvistaqt import QtInteractor
 
 from app.render.scene import Scene
+from app.review.result import face_account_line
 from app.state import Mode, Session
 from app.state.recent import RecentFiles, default_store
 
@@ -233,12 +234,15 @@ class MainWindow(QMainWindow):
     def _loaded(self, loaded) -> None:
         self._job_shown = True
         self.session.adopt(loaded, self._job_path)
+        account = face_account_line(loaded.model.face_account())
         for warning in loaded.model.warnings[:1]:
-            self.statusBar().showMessage(f"read with warnings: {warning}", 8000)
+            account += f"; read with warnings: {warning}"
+        self.statusBar().showMessage(account, 8000)
         self.model_shown.emit(self._job_path)
 
     def _seams_measured(self, loaded) -> None:
         self._job_done()
+        self.statusBar().showMessage(face_account_line(loaded.model.face_account()), 8000)
         self.session.adopt_seams(loaded)
         self.seams_measured.emit(self._job_path)
 

@@ -13,7 +13,7 @@ from collections.abc import Callable, Sequence
 from html import escape
 
 from app.render.colours import VERDICT
-from app.review.result import ERROR, FAIL, PASS, UNREADABLE, FileReview, overall_verdict
+from app.review.result import ERROR, FAIL, PASS, UNREADABLE, FileReview, face_account_line, overall_verdict
 from geometry.conventions import CURVATURE_SIGN
 
 from .figures import Figure
@@ -221,7 +221,7 @@ def file_part(review: FileReview, figures: Sequence[Figure], image_src: Callable
             ("file", review.source),
             ("sha256", review.sha256 or "-"),
             ("units", f"{review.units} (declared in file: {review.source_units or '-'})"),
-            ("faces", str(len(review.faces))),
+            ("faces", face_account_line(review.face_account) if review.face_account else str(len(review.faces))),
             ("model size (box diagonal)", f"{review.model_size:.4g} mm"),
             ("sections", review.sections_spec or "none"),
         ]

@@ -20,7 +20,7 @@ from pathlib import Path
 from geometry import __version__
 from geometry.errors import BattenError
 
-from .result import ERROR, FAIL, PASS, UNREADABLE, FileReview, check_document
+from .result import ERROR, FAIL, PASS, UNREADABLE, FileReview, check_document, face_account_line
 from .runner import ReviewSettings, file_sha256, review_file
 
 OUTPUT_SUFFIXES = {"report": (".pdf", ".html", ".htm"), "json": (".json",)}
@@ -152,7 +152,9 @@ def json_text(reviews: list[FileReview], created: str) -> str:
 def _print_summary(reviews: list[FileReview]) -> None:
     for r in reviews:
         if r.verdict in (PASS, FAIL):
-            detail = f"{len(r.failures)} over tolerance, {len(r.findings)} measured"
+            detail = (
+                f"{len(r.failures)} over tolerance, {len(r.findings)} measured; {face_account_line(r.face_account)}"
+            )
         else:
             detail = r.error or ""
         print(f"{r.verdict.upper():10s} {r.source}  ({detail})")

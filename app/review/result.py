@@ -13,7 +13,7 @@ from enum import StrEnum
 from .faces import FaceSummary
 
 SCHEMA_ID = "batten-check"
-SCHEMA_VERSION = "1.1"  # 1.1: tooling (draft, undercut, cutter reach)
+SCHEMA_VERSION = "1.1"  # 1.1: tooling (draft, undercut, cutter reach), faces accounted for
 
 
 class Verdict(StrEnum):
@@ -114,6 +114,7 @@ class FileReview:
     findings: tuple[Finding, ...] = ()
     warnings: tuple[str, ...] = ()
     model_size: float = 0.0
+    face_account: dict = field(default_factory=dict)
     section_curves: tuple = ()
     section_places: tuple[tuple[int, int], ...] = ()
     lines: tuple = ()
@@ -155,6 +156,7 @@ class FileReview:
             "profile": self.profile,
             "sections_spec": self.sections_spec,
             "model_size": self.model_size,
+            "face_account": dict(self.face_account),
             "faces": [f.to_dict() for f in self.faces],
             "seams": list(self.seams),
             "free_edges": list(self.free_edges),
@@ -163,6 +165,20 @@ class FileReview:
             "tooling": self.tooling,
             "summary": self.summary(),
         }
+
+
+def face_account_line(account: dict) -> str:
+    """``52 faces in the file: 50 analysed, 2 skipped (reason; ...)`` from ``Model.face_account()``."""
+    if not account:
+        return "faces not counted"
+    skipped = account.get("skipped", [])
+    line = f"{account['in_file']} faces in the file: {account['analysed']} analysed, {len(skipped)} skipped"
+    reasons: dict[str, int] = {}
+    for s in skipped:
+        reasons[s["reason"]] = reasons.get(s["reason"], 0) + 1
+    if reasons:
+        line += " (" + "; ".join(f"{n} x {r}" if n > 1 else r for r, n in reasons.items()) + ")"
+    return line
 
 
 def check_document(reviews: list[FileReview], created: str, batten_version: str) -> dict:

@@ -77,7 +77,9 @@ def review_model(model: Model, settings: ReviewSettings = ReviewSettings(), prog
     progress(f"{name}: curvature of {len(model.faces)} faces")
     faces = summarise_faces(model)
     progress(f"{name}: seams and free edges")
-    seams, free_edges, lines = seams_and_free_edges(model, profile)
+    seams, free_edges, lines, seam_warnings = seams_and_free_edges(
+        model, profile, lambda done, total: progress(f"{name}: seams {done} of {total}")
+    )
     planes = planes_for(items, model.bounds)
     sections, curves, places = (), (), ()
     if planes:
@@ -101,8 +103,9 @@ def review_model(model: Model, settings: ReviewSettings = ReviewSettings(), prog
         free_edges=free_edges,
         sections=sections,
         findings=found,
-        warnings=model.warnings,
+        warnings=(*model.warnings, *seam_warnings),
         model_size=model.size,
+        face_account=model.face_account(),
         section_curves=curves,
         section_places=places,
         lines=lines,

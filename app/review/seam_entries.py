@@ -19,7 +19,7 @@ class Line:
     points: np.ndarray
 
 
-def seams_and_free_edges(model: Model, profile: Profile):
+def seams_and_free_edges(model: Model, profile: Profile, progress=None):
     """Seams and free edges measured by :func:`geometry.seams.check_seams` under ``profile``.
 
     Returns
@@ -29,11 +29,15 @@ def seams_and_free_edges(model: Model, profile: Profile):
         edges of ``SeamReport.as_dict()`` with ``id`` and ``face_name``.
     lines : tuple of Line
         Seams first (in ``seams`` order), then free edges.
+    warnings : tuple of str
+        What the seam check says about the data (``SeamReport.warnings``).
+
+    ``progress(done, total)`` is called as seams are measured.
     """
     # Imported here: scipy.spatial behind it costs ~0.3 s, and app.review is imported for `batten --help`.
     from geometry.seams import check_seams
 
-    report = check_seams(model, profile.tolerance)
+    report = check_seams(model, profile.tolerance, progress=progress)
     names = [f.name or f"face {i}" for i, f in enumerate(model.faces)]
     seams = []
     lines = []
@@ -45,4 +49,4 @@ def seams_and_free_edges(model: Model, profile: Profile):
     for i, (edge, entry) in enumerate(zip(report.free_edges, report.as_dict()["free_edges"], strict=True)):
         free.append({"id": i, "face_name": names[edge.face], **entry})
         lines.append(Line("free_edge", "", np.asarray(edge.points)))
-    return tuple(seams), tuple(free), tuple(lines)
+    return tuple(seams), tuple(free), tuple(lines), report.warnings

@@ -118,5 +118,9 @@ def with_seams_judged(loaded: Loaded, progress: Progress = _no_progress, profile
     so the window and ``batten check`` judge a seam alike.
     """
     progress(0.8, "measuring seams")
-    reviewed = review_seams(loaded.model, profile or get_profile(None))
+
+    def seams_done(done: int, total: int) -> None:
+        progress(0.8 + 0.2 * done / max(total, 1), f"seams {done} of {total}")
+
+    reviewed = review_seams(loaded.model, profile or get_profile(None), seams_done)
     return replace(loaded, seams=reviewed.views, seam_review=reviewed, seams_measured=True)

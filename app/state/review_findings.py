@@ -57,9 +57,12 @@ class SeamReview:
     views: tuple[SeamView, ...]
 
 
-def review_seams(model: Model, profile: Profile) -> SeamReview:
-    """Measure every seam and free edge of ``model`` under ``profile`` (as ``batten check`` does)."""
-    seams, free, lines = seams_and_free_edges(model, profile)
+def review_seams(model: Model, profile: Profile, progress=None) -> SeamReview:
+    """Measure every seam and free edge of ``model`` under ``profile`` (as ``batten check`` does).
+
+    ``progress(done, total)`` is called as seams are measured.
+    """
+    seams, free, lines, _ = seams_and_free_edges(model, profile, progress)
     views = []
     for seam, line in zip(seams, lines[: len(seams)], strict=True):
         label = f"seam {' / '.join(seam['face_names'])}: {seam['continuity']}, {seam['verdict']}"

@@ -134,6 +134,7 @@ def read_model(path) -> Model:
         units="mm",
         source_units=units,
         warnings=tuple(contents.warnings),
+        skipped=tuple(contents.skipped),
     )
 
 

@@ -17,7 +17,7 @@ import json
 import numpy as np
 
 from ..errors import BattenError, ReadError
-from ..model import Face
+from ..model import Face, SkippedFace
 from ..nurbs import NurbsSurface
 from .occt_model import MAX_EXTENT_MM, ShapeContents
 
@@ -85,6 +85,7 @@ def read_geomdl_json(path: str, data: bytes) -> ShapeContents:
             surface, reversed_, name = _surface(entry)
         except BattenError as exc:
             out.warnings.append(f"surface {i + 1} skipped: {exc}")
+            out.skipped.append(SkippedFace(i + 1, "", str(exc)))
             continue
         if isinstance(entry, dict) and entry.get("trims"):
             out.warnings.append(f"surface {i + 1}: geomdl trim curves are not read; the face is shown whole")

@@ -156,8 +156,10 @@ def _refrozen(contents: ShapeContents) -> ShapeContents:
         return NurbsSurface(s.degree_u, s.degree_v, s.knots_u, s.knots_v, s.poles, s.weights)
 
     faces = [Face(surface(f.surface), f.reversed, f.loops, f.name, f.body) for f in contents.faces]
-    edges = [Edge(e.points, tuple(EdgeUse(u.face, u.uv) for u in e.uses)) for e in contents.edges]
-    return ShapeContents(faces, edges, list(contents.warnings), contents.n_input_faces)
+    edges = [
+        Edge(e.points, tuple(EdgeUse(u.face, u.uv, u.offset) for u in e.uses), e.tolerance) for e in contents.edges
+    ]
+    return ShapeContents(faces, edges, list(contents.warnings), contents.n_input_faces, list(contents.skipped))
 
 
 def read_isolated(fmt: str, path: str) -> tuple[ShapeContents, str]:

@@ -3,7 +3,9 @@
 Edges and the faces using them come from ``TopExp::MapShapesAndUniqueAncestors``
 (edge -> faces). Every use is sampled at the same edge parameters as the 3-D
 polyline and carried onto its face's NURBS, so ``use.uv[i]`` on the face is
-``edge.points[i]`` (within the file's edge tolerance).
+``edge.points[i]`` within the file's edge tolerance; how far the p-curve
+actually strays from the 3-D edge is kept as ``use.offset`` (a file whose
+p-curve and edge disagree is reported by the seam check).
 
 Seam edges of periodic faces (one face on both sides, ``BRep_Tool::IsClosed``)
 are listed with two uses of the same face index: the p-curves at both ends of
@@ -13,6 +15,8 @@ curve and are not listed.
 """
 
 from __future__ import annotations
+
+import numpy as np
 
 from ..model import Edge, EdgeUse
 from .occt_curves import FaceMap, edge_params, edge_points, pcurve_points
@@ -51,18 +55,44 @@ def shared_edges(shape, faces_map, kept: dict[int, tuple[int, FaceMap]]) -> list
         sides = [a for a in edge_faces.FindFromIndex(k) if faces_map.FindIndex(a) - 1 in kept]
         if not sides:
             continue
-        ts = edge_params(edge)
-        points = edge_points(edge, ts)
-        uses = []
+        oriented = []  # (oriented edge, input face, model face index, its (u, v) map)
         for ancestor in sides:
             index, to_nurbs = kept[faces_map.FindIndex(ancestor) - 1]
             face = TopoDS.Face(ancestor)
-            sides = (TopAbs_FORWARD, TopAbs_REVERSED) if BRep_Tool.IsClosed_s(edge, face) else (edge.Orientation(),)
-            for side in sides:
-                uv = pcurve_points(TopoDS.Edge(edge.Oriented(side)), face, ts)
-                uses.append(EdgeUse(index, to_nurbs(uv)))
-        edges.append(Edge(points, tuple(uses)))
+            closed = BRep_Tool.IsClosed_s(edge, face)
+            for side in (TopAbs_FORWARD, TopAbs_REVERSED) if closed else (edge.Orientation(),):
+                oriented.append((TopoDS.Edge(edge.Oriented(side)), face, index, to_nurbs))
+        ts = edge_params(edge, [(e, f) for e, f, _, _ in oriented])
+        points = edge_points(edge, ts)
+        uses = []
+        for e, face, index, to_nurbs in oriented:
+            uv, on_face = to_nurbs.carry(pcurve_points(e, face, ts))
+            uses.append(EdgeUse(index, uv, float(polyline_offset(on_face, points).max(initial=0.0))))
+        edges.append(Edge(points, tuple(uses), float(BRep_Tool.Tolerance_s(edge))))
     return edges
+
+
+def polyline_offset(points: np.ndarray, polyline: np.ndarray) -> np.ndarray:
+    """Distance of each point to the polyline near the vertex of the same index, shape (n,).
+
+    Parameters
+    ----------
+    points : ndarray of shape (n, 3)
+    polyline : ndarray of shape (n, 3)
+        Sampled at the same curve parameters (a same-parameter edge), so the
+        closest segments are those around the same index; the two segments on
+        each side are searched.
+    """
+    n = polyline.shape[0]
+    best = np.linalg.norm(points - polyline, axis=1)
+    if n < 2:
+        return best
+    for shift in (-2, -1, 0, 1):
+        start = np.clip(np.arange(n) + shift, 0, n - 2)
+        a, d = polyline[start], polyline[start + 1] - polyline[start]
+        lam = np.clip(np.einsum("ij,ij->i", points - a, d) / np.maximum(np.einsum("ij,ij->i", d, d), 1e-300), 0, 1)
+        best = np.minimum(best, np.linalg.norm(points - a - lam[:, None] * d, axis=1))
+    return best
 
 
 def sewn_edges(faces_map, kept: dict[int, tuple[int, FaceMap]]) -> list[Edge]:

@@ -15,7 +15,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..errors import BattenError
-from ..model import Edge, Face
+from ..model import Edge, Face, SkippedFace
 from ..nurbs import NurbsSurface
 from .occt_curves import FaceMap, face_loops
 from .occt_edges import indexed_map, sewn_edges, shared_edges
@@ -37,6 +37,7 @@ class ShapeContents:
     edges: list[Edge] = field(default_factory=list)
     warnings: list[str] = field(default_factory=list)
     n_input_faces: int = 0
+    skipped: list[SkippedFace] = field(default_factory=list)
 
     def compare_with_file(self, listed: int) -> None:
         """Warn when the file lists more faces than the kernel built (the rest were unreadable)."""
@@ -45,6 +46,7 @@ class ShapeContents:
             self.warnings.insert(
                 0, f"{lost} of the {listed} faces the file lists could not be built by the kernel and are left out"
             )
+            self.skipped.extend(SkippedFace(None, "", "not built by the kernel") for _ in range(lost))
             self.n_input_faces = listed
 
 
@@ -132,12 +134,15 @@ def read_shape(shape, namer: Namer | None = None, sew: bool = False) -> ShapeCon
             to_nurbs = FaceMap(face, _face_surface(face))
         except BattenError as exc:
             out.warnings.append(f"{label} skipped: {exc}")
+            out.skipped.append(SkippedFace(i + 1, name, str(exc)))
             continue
         except Exception as exc:  # the kernel's own failures (Standard_Failure and kin)
             out.warnings.append(f"{label} skipped: kernel error ({_kernel_reason(exc)})")
+            out.skipped.append(SkippedFace(i + 1, name, f"kernel error ({_kernel_reason(exc)})"))
             continue
         try:
-            loops = face_loops(face, to_nurbs)
+            loops, notes = face_loops(face, to_nurbs)
+            out.warnings.extend(f"{label}: {note}" for note in notes)
         except Exception as exc:  # a surface without a readable trim is still worth showing
             loops = ()
             out.warnings.append(f"{label}: trim not read ({_kernel_reason(exc)}); shown untrimmed")
