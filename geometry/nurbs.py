@@ -1,7 +1,8 @@
 """The tensor-product NURBS surface and its exact partial derivatives.
 
 Grids are evaluated as basis matrices contracted with the homogeneous control
-net (two matrix products per derivative); scattered parameter pairs gather the
+net (two matrix products per derivative); scattered parameter pairs go through
+the compiled kernels of :mod:`geometry.compiled_eval`, which contract the
 (p + 1) x (q + 1) active poles of each pair. Rational derivatives follow from
 the homogeneous ones by the quotient rule of The NURBS Book (Piegl & Tiller,
 2nd ed.), eq. 4.20 and algorithm A4.4.
@@ -15,7 +16,8 @@ from math import comb
 
 import numpy as np
 
-from .basis import basis_matrices, nonzero_basis_derivatives, validate_knots
+from . import compiled_eval
+from .basis import basis_matrices, validate_knots
 from .errors import SurfaceError
 
 
@@ -198,25 +200,18 @@ class NurbsSurface:
         -------
         ders : ndarray of shape (order + 1, order + 1, k, 3)
         """
-        u, v = self.clip_to_domain(np.ravel(u), np.ravel(v))
+        u = np.ravel(np.asarray(u, dtype=float))
+        v = np.ravel(np.asarray(v, dtype=float))
         if u.shape != v.shape:
             raise SurfaceError(f"u and v must pair up, got {u.shape} and {v.shape}")
-        nu, nv = self.shape
-        p, q = self.degree_u, self.degree_v
-        du, su = nonzero_basis_derivatives(self.knots_u, p, nu, u, order)  # (o+1, k, p+1)
-        dv, sv = nonzero_basis_derivatives(self.knots_v, q, nv, v, order)
-        iu = su[:, None] - p + np.arange(p + 1)  # (k, p+1)
-        iv = sv[:, None] - q + np.arange(q + 1)
-        dim = 4 if self.is_rational else 3
-        local = self.homogeneous[iu[:, :, None], iv[:, None, :], :dim]  # (k, p+1, q+1, dim)
-        hom = np.zeros((order + 1, order + 1, dim, u.size))
-        for k in range(order + 1):
-            part = np.einsum("ka,kabd->kbd", du[k], local)
-            for l in range(order + 1 - k):
-                hom[k, l] = np.einsum("kb,kbd->dk", dv[l], part)
-        if self.is_rational:
-            hom = rational_quotient(hom, order)
-        return np.moveaxis(hom, 2, -1)
+        # Compiled: one pass per pair over its (p + 1) x (q + 1) active poles
+        # (A2.3 basis derivatives, A3.6 contraction, A4.4 quotient).
+        return compiled_eval.derivatives(self.pack, 0, u, v, order)
+
+    @cached_property
+    def pack(self) -> compiled_eval.SurfacePack:
+        """This surface alone as a :class:`~geometry.compiled_eval.SurfacePack`."""
+        return compiled_eval.SurfacePack.of([self])
 
     def points_grid(self, u: np.ndarray, v: np.ndarray) -> np.ndarray:
         """Surface points on the grid u x v, shape (len(u), len(v), 3)."""
