@@ -91,22 +91,29 @@ class FaceMap:
     The input surface is evaluated at the input (u, v), and the point inverted
     onto the NURBS (:func:`geometry.probe.closest_parameters`) starting from the
     same (u, v), which lies within a fraction of a knot span of the answer.
+    B-spline surfaces and planes keep their parameters through the conversion,
+    so their (u, v) are taken as they are.
     ``worst`` records the largest distance left (a trim off its surface).
     """
 
-    def __init__(self, face, surface: NurbsSurface):
+    def __init__(self, face, surface: NurbsSurface, same_parameters: bool = False):
         from OCP.BRepAdaptor import BRepAdaptor_Surface
 
         self.adaptor = BRepAdaptor_Surface(face)  # placed like the face
         self.surface = surface
+        self.same_parameters = same_parameters
         self.worst = 0.0
 
     def __call__(self, uv: np.ndarray) -> np.ndarray:
-        """(u, v) on the input face, shape (n, 2) -> (u, v) on the NURBS, shape (n, 2)."""
+        """(u, v) on the input face, shape (n, 2) -> (u, v) on the NURBS, shape (n, 2).
+
+        All the points of a call are inverted in one compiled call; a NURBS that
+        is the input surface itself (``same_parameters``) maps (u, v) to itself.
+        """
         from ..probe import closest_parameters
 
-        if len(uv) == 0:
-            return uv
+        if len(uv) == 0 or self.same_parameters:
+            return np.asarray(uv, dtype=float)
         pts = np.array([self.adaptor.Value(a, b).Coord() for a, b in uv])
         u, v = closest_parameters(self.surface, pts, uv[:, 0], uv[:, 1])
         off = np.linalg.norm(self.surface.points_at(u, v) - pts, axis=1)
