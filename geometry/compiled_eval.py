@@ -340,3 +340,69 @@ def basis_rows(
     spans = np.zeros(u.size, dtype=np.int64)
     basis_rows_kernel(np.ascontiguousarray(knots, dtype=float), int(degree), int(n_poles), u, int(order), ders, spans)
     return ders, spans
+
+
+@nb.njit(**JIT_OPTIONS)
+def grid_derivatives_kernel(net, nv, p, q, bu, span_u, bv, span_v, order, out):
+    """S_kl on the grid u x v into ``out`` (order+1, order+1, a, b, 3); A3.6 and A4.4 per sample.
+
+    Each grid row is contracted with the net once (``row[k]``) and reused along the row.
+    """
+    a_count, b_count = bu.shape[0], bv.shape[0]
+    binom = binomials(order)
+    row = np.zeros((order + 1, nv, 4))
+    hom = np.zeros((order + 1, order + 1, 4))
+    ders = np.zeros((order + 1, order + 1, 3))
+    for i in range(a_count):
+        s = span_u[i]
+        for k in range(order + 1):
+            for jp in range(nv):
+                for c in range(4):
+                    row[k, jp, c] = 0.0
+            for ia in range(p + 1):
+                coef = bu[i, k, ia]
+                if coef == 0.0:
+                    continue
+                base = (s - p + ia) * nv
+                for jp in range(nv):
+                    for c in range(4):
+                        row[k, jp, c] += coef * net[base + jp, c]
+        for j in range(b_count):
+            t = span_v[j] - q
+            for k in range(order + 1):
+                for l in range(order + 1 - k):
+                    for c in range(4):
+                        acc = 0.0
+                        for ib in range(q + 1):
+                            acc += bv[j, l, ib] * row[k, t + ib, c]
+                        hom[k, l, c] = acc
+            rational_at(hom, order, binom, ders)
+            for k in range(order + 1):
+                for l in range(order + 1 - k):
+                    for c in range(3):
+                        out[k, l, i, j, c] = ders[k, l, c]
+
+
+def grid_derivatives(surface, u: np.ndarray, v: np.ndarray, order: int) -> np.ndarray:
+    """Partial derivatives of a :class:`~geometry.nurbs.NurbsSurface` on the grid u x v.
+
+    Parameters
+    ----------
+    surface : NurbsSurface
+    u : ndarray of shape (a,)
+    v : ndarray of shape (b,)
+    order : int
+
+    Returns
+    -------
+    ders : ndarray of shape (order + 1, order + 1, a, b, 3)
+        Entries with k + l > order are zero.
+    """
+    nu, nv = surface.shape
+    bu, span_u = basis_rows(surface.knots_u, surface.degree_u, nu, u, order)
+    bv, span_v = basis_rows(surface.knots_v, surface.degree_v, nv, v, order)
+    out = np.zeros((order + 1, order + 1, bu.shape[0], bv.shape[0], 3))
+    grid_derivatives_kernel(
+        surface.pack.net, nv, surface.degree_u, surface.degree_v, bu, span_u, bv, span_v, int(order), out
+    )
+    return out
