@@ -215,9 +215,14 @@ class MainWindow(QMainWindow):
     def wait_for_job(self) -> None:
         """Block until a running load and seam re-measures have ended (the kernel cannot be interrupted)."""
         thread, self._job_thread = self._job_thread, None
-        for t in [thread, *(t for _, t in self._seam_jobs)]:
+        seam_threads = [t for _, t in self._seam_jobs]
+        for t in [thread, *seam_threads]:
             try:
                 if t is not None and t.isRunning():
+                    if t in seam_threads:
+                        # its quit is queued to this (waiting) thread: ask now; the
+                        # measuring under way still ends before the thread does
+                        t.quit()
                     t.wait()
             except RuntimeError:
                 pass  # the thread object is already deleted: it has ended
