@@ -68,7 +68,7 @@ class SeamJob(QObject):
     @Slot()
     def run(self) -> None:
         try:
-            self.seams_ready.emit(measure_seams(self.loaded, profile=self.profile))
+            self.seams_ready.emit(with_seams_judged(self.loaded, profile=self.profile))
         except BattenError as exc:
             self.failed.emit(str(exc))
         except Exception as exc:  # a bug of ours must not kill the window; say what happened
