@@ -70,7 +70,7 @@ import json, sys, time
 t0 = time.perf_counter()
 from geometry.io import read_model
 from geometry.seams import check_seams
-from app.state.profiles import get_profile
+from app.profiles import get_profile
 model = read_model(sys.argv[1])
 t1 = time.perf_counter()
 model = read_model(sys.argv[1])
