@@ -2,15 +2,20 @@
 
 Computes the full field (point, normal, K, H, k1, k2, both directions) of a
 bicubic rational surface on a 20 x 20 net at 100^2 ... 2000^2 samples and
-prints points per second, the ratio against geomdl (derivatives per point by
-geomdl, curvature from them per point) and the peak memory against the size
-of the outputs. Run: ``.venv/bin/python benchmarks/bench_curvature.py``.
+prints points per second (best of ``REPEATS``, warm), the ratio against geomdl
+(derivatives per point by geomdl, curvature from them per point) and the peak
+memory against the size of the outputs. It first prints the cold cost of the
+compiled kernel in fresh processes: compiling it (an empty numba cache) and
+loading it from the cache (every later start). The machine may be shared: read
+the figures as best-of-N. Run: ``.venv/bin/python benchmarks/bench_curvature.py``.
 """
 
 from __future__ import annotations
 
 import os
+import subprocess
 import sys
+import tempfile
 import time
 import tracemalloc
 from pathlib import Path
@@ -82,9 +87,35 @@ def ours(surface, n: int) -> tuple[float, int, int]:
     return best, peak, out_bytes
 
 
+COLD_SCRIPT = """
+import time, numpy as np
+t0 = time.perf_counter()
+import geometry
+from geometry.primitives import torus
+t1 = time.perf_counter()
+geometry.curvature_on_grid(torus(50.0, 10.0), np.linspace(0, 1, 10), np.linspace(0, 1, 10))
+t2 = time.perf_counter()
+print(t1 - t0, t2 - t1)
+"""
+
+
+def cold_start() -> tuple[float, float, float]:
+    """Import seconds, first call with an empty cache (compiling), first call with it filled (loading)."""
+    root = str(Path(__file__).resolve().parents[1])
+    with tempfile.TemporaryDirectory() as cache:
+        env = dict(os.environ, NUMBA_CACHE_DIR=cache, PYTHONPATH=root)
+        runs = []
+        for _ in range(2):
+            out = subprocess.run([sys.executable, "-c", COLD_SCRIPT], env=env, capture_output=True, text=True)
+            runs.append([float(x) for x in out.stdout.split()])
+    return runs[1][0], runs[0][1], runs[1][1]
+
+
 def main() -> None:
     geo, surface = bicubic_rational()
     print(f"cores: {os.cpu_count()}   surface: bicubic rational, 20 x 20 poles")
+    imported, compiling, loading = cold_start()
+    print(f"cold: import {imported:.2f} s, first field compiling {compiling:.2f} s, from the cache {loading:.2f} s")
     reference = geomdl_per_point(geo, GEOMDL_GRID)
     print(f"geomdl reference: {1 / reference:,.0f} points/s ({GEOMDL_GRID}^2 samples, per point)")
     print(f"{'grid':>8} {'seconds':>9} {'points/s':>14} {'x geomdl':>10} {'peak MB':>9} {'outputs MB':>11}")

@@ -22,22 +22,17 @@ from concurrent.futures import ThreadPoolExecutor
 from dataclasses import dataclass, fields
 
 import numpy as np
-from threadpoolctl import ThreadpoolController
 
-from .basis import basis_matrices
+from .compiled_curvature import OUTPUT_KEYS, UMBILIC_RELATIVE, empty_outputs, grid_kernel, scattered_kernel
+from .compiled_eval import basis_rows
 from .nurbs import NurbsSurface
 
 # A sample is degenerate when |Su x Sv| is this small against |Su| |Sv|: the
 # tangent plane is undefined there (a pole, a collapsed edge, a cusp).
 DEGENERATE_SINE = 1e-9
-# Principal curvatures closer than this (relative to their size) make an umbilic.
-UMBILIC_RELATIVE = 1e-7
 # Nudge, as a fraction of the domain, towards the interior when re-evaluating a
 # degenerate sample to report the limit values there.
 LIMIT_NUDGE = 1e-4
-
-_CHUNK_POINTS = 1 << 15
-_BLAS = ThreadpoolController()
 
 
 @dataclass(frozen=True, eq=False)
@@ -232,9 +227,6 @@ def _from_forms(su, sv, normal, det, valid, e, l_, m_, n_, sign, dest=None):
     }
 
 
-_VECTOR_KEYS = ("normals", "dir1", "dir2")
-
-
 def area_floor(surface: NurbsSurface) -> float:
     """|Su x Sv| below which a sample counts as degenerate, from the net's size.
 
@@ -247,54 +239,28 @@ def area_floor(surface: NurbsSurface) -> float:
     return 1e-9 * extent * extent / ((u1 - u0) * (v1 - v0))
 
 
-_VECTOR_KEYS = ("normals", "dir1", "dir2")
-_SCALAR_KEYS = ("gaussian", "mean", "k1", "k2", "valid", "umbilic")
-
-
-def _from_derivatives(ders: np.ndarray, sign: float, floor: float) -> dict[str, np.ndarray]:
-    """Quantities from component-first derivatives of shape (3, 3, 3, k)."""
-    out = shape_quantities(ders[1, 0], ders[0, 1], ders[2, 0], ders[1, 1], ders[0, 2], sign, floor)
-    out["points"] = ders[0, 0]
-    return out
-
-
-def _from_homogeneous(hom: np.ndarray, sign: float, floor: float, dest: dict | None = None) -> dict[str, np.ndarray]:
-    """Quantities straight from homogeneous derivatives A_kl of shape (3, 3, 4, k).
-
-    Notes
-    -----
-    With S = A / w (The NURBS Book eq. 4.20), S_u = (A_u - w_u S) / w and the
-    second derivatives differ from (A_ij - w_ij S) / w by tangent terms only,
-    which vanish against the normal: L = (A_uu . n - w_uu S . n) / w, and
-    likewise M, N. This skips forming S_uu, S_uv, S_vv.
-    """
-    w = hom[0, 0, 3]
-    inv_w = 1.0 / w
-    points = np.multiply(hom[0, 0, :3], inv_w, out=_slot(dest, "points"))
-    su = hom[1, 0, :3] - hom[1, 0, 3] * points
-    su *= inv_w
-    sv = hom[0, 1, :3] - hom[0, 1, 3] * points
-    sv *= inv_w
-    normal, det, valid, e = _unit_normal(su, sv, sign, floor, dest)
-    pn = _dot(points, normal)
-
-    def second(k, l):
-        val = _dot(hom[k, l, :3], normal)
-        val -= hom[k, l, 3] * pn
-        val *= inv_w
-        return val
-
-    out = _from_forms(su, sv, normal, det, valid, e, second(2, 0), second(1, 1), second(0, 2), sign, dest)
-    out["points"] = points
-    return out
-
-
-def _scattered(surface: NurbsSurface, u: np.ndarray, v: np.ndarray) -> np.ndarray:
-    return np.ascontiguousarray(np.moveaxis(surface.derivatives_at(u, v, 2), -1, 2))
+def _frames(pack, sids, u: np.ndarray, v: np.ndarray, signs: np.ndarray, floors: np.ndarray) -> dict[str, np.ndarray]:
+    """Curvature frames at scattered pairs on packed surfaces, arrays of shape (k, 3) or (k,)."""
+    outs = empty_outputs(u.size)
+    scattered_kernel(
+        pack.arrays,
+        np.ascontiguousarray(np.broadcast_to(sids, u.shape), dtype=np.int64),
+        np.ascontiguousarray(u, dtype=float),
+        np.ascontiguousarray(v, dtype=float),
+        np.asarray(signs, dtype=float).reshape(-1),
+        np.square(np.asarray(floors, dtype=float).reshape(-1)),
+        DEGENERATE_SINE * DEGENERATE_SINE,
+        pack.max_degree,
+        outs,
+    )
+    return dict(zip(OUTPUT_KEYS, outs, strict=True))
 
 
 def _fix_degenerate(surface: NurbsSurface, u: np.ndarray, v: np.ndarray, q: dict, sign: float) -> None:
-    """Replace values at degenerate samples by limits from a nudged parameter."""
+    """Replace values at degenerate samples by limits from a nudged parameter.
+
+    ``q`` holds arrays of shape (k, 3) or (k,) for the k samples at ``u``, ``v``.
+    """
     bad = np.flatnonzero(~q["valid"])
     if bad.size == 0:
         return
@@ -302,27 +268,17 @@ def _fix_degenerate(surface: NurbsSurface, u: np.ndarray, v: np.ndarray, q: dict
     ub, vb = u[bad], v[bad]
     un = ub + np.where(ub < 0.5 * (u0 + u1), 1.0, -1.0) * LIMIT_NUDGE * (u1 - u0)
     vn = vb + np.where(vb < 0.5 * (v0 + v1), 1.0, -1.0) * LIMIT_NUDGE * (v1 - v0)
-    near = _from_derivatives(_scattered(surface, un, vn), sign, area_floor(surface))
+    near = _frames(surface.pack, 0, un, vn, np.array([sign]), np.array([area_floor(surface)]))
     still_bad = ~near["valid"]
-    for key in _VECTOR_KEYS:
-        vals = near[key]
-        vals[:, still_bad] = np.nan
-        q[key][:, bad] = vals
-    for key in ("gaussian", "mean", "k1", "k2"):
+    for key in ("normals", "dir1", "dir2", "gaussian", "mean", "k1", "k2"):
         vals = near[key]
         vals[still_bad] = np.nan
         q[key][bad] = vals
     q["umbilic"][bad] = near["umbilic"] & ~still_bad
 
 
-def _pack(parts: dict[str, np.ndarray], shape: tuple[int, ...]) -> CurvatureField:
-    values = {}
-    for key, arr in parts.items():
-        if key in _VECTOR_KEYS or key == "points":
-            values[key] = np.moveaxis(arr, 0, -1).reshape(*shape, 3)
-        else:
-            values[key] = arr.reshape(shape)
-    return CurvatureField(**values)
+def _field(q: dict[str, np.ndarray], shape: tuple[int, ...]) -> CurvatureField:
+    return CurvatureField(**{key: arr.reshape(*shape, *arr.shape[1:]) for key, arr in q.items()})
 
 
 def curvature_at(surface: NurbsSurface, u: np.ndarray, v: np.ndarray, reversed: bool = False) -> CurvatureField:
@@ -339,13 +295,17 @@ def curvature_at(surface: NurbsSurface, u: np.ndarray, v: np.ndarray, reversed: 
     -------
     CurvatureField
         Arrays of shape (k,) or (k, 3).
+
+    Notes
+    -----
+    Compiled (:func:`geometry.compiled_curvature.scattered_kernel`): the
+    formulas of :func:`_from_forms` one sample at a time.
     """
     u, v = surface.clip_to_domain(np.ravel(u), np.ravel(v))
     sign = -1.0 if reversed else 1.0
-    q = _from_derivatives(_scattered(surface, u, v), sign, area_floor(surface))
-    q = {k: np.array(a) for k, a in q.items()}
+    q = _frames(surface.pack, 0, u, v, np.array([sign]), np.array([area_floor(surface)]))
     _fix_degenerate(surface, u, v, q, sign)
-    return _pack(q, u.shape)
+    return _field(q, u.shape)
 
 
 def curvature_on_grid(
@@ -361,7 +321,7 @@ def curvature_on_grid(
     reversed : bool
         The face uses the surface with its normal flipped.
     workers : int, optional
-        Threads over row blocks (numpy releases the GIL in its kernels);
+        Threads over row blocks (the compiled kernel releases the GIL);
         default: the number of cores.
 
     Returns
@@ -371,42 +331,43 @@ def curvature_on_grid(
 
     Notes
     -----
-    Derivatives come from basis matrices contracted with the homogeneous net
-    (two matrix products each), the rational quotient rule (The NURBS Book,
-    eq. 4.20, folded into the second form by :func:`_from_homogeneous`), then
-    :func:`_from_forms`. Rows are processed in blocks of about 16 k samples so
-    that temporaries stay in cache, and results are written straight into the
-    outputs, so memory stays near the size of the outputs.
+    One fused compiled kernel (:func:`geometry.compiled_curvature.grid_kernel`):
+    basis derivatives of each parameter once (The NURBS Book A2.3), each grid
+    row contracted with the homogeneous net once, then per sample the
+    homogeneous derivatives, the rational quotient rule (eq. 4.20, folded into
+    the second form: the tangential terms vanish against the normal) and
+    :func:`_from_forms`, written straight into the outputs, so memory stays
+    at the size of the outputs.
     """
     u, v = surface.clip_to_domain(np.ravel(u), np.ravel(v))
     a, b = u.size, v.size
     sign = -1.0 if reversed else 1.0
     nu, nv = surface.shape
-    bu = basis_matrices(surface.knots_u, surface.degree_u, nu, u, 2)
-    bv = basis_matrices(surface.knots_v, surface.degree_v, nv, v, 2)
-    out = {k: np.empty((3, a * b)) for k in (*_VECTOR_KEYS, "points")}
-    out.update({k: np.empty(a * b) for k in ("gaussian", "mean", "k1", "k2")})
-    out.update({k: np.empty(a * b, dtype=bool) for k in ("valid", "umbilic")})
+    bu, span_u = basis_rows(surface.knots_u, surface.degree_u, nu, u, 2)
+    bv, span_v = basis_rows(surface.knots_v, surface.degree_v, nv, v, 2)
+    outs = empty_outputs(a * b)
     floor = area_floor(surface)
-    rows = max(1, _CHUNK_POINTS // max(b, 1))
-    blocks = [(i, min(i + rows, a)) for i in range(0, a, rows)]
+    net = surface.pack.net
+    workers = max(1, min(workers or os.cpu_count() or 1, a))
+    edges = np.linspace(0, a, 2 * workers + 1).astype(np.int64) if workers > 1 else np.array([0, a])
 
-    def work(block):
-        i0, i1 = block
-        n = (i1 - i0) * b
-        dest = {key: arr[i0 * b : i1 * b] if arr.ndim == 1 else arr[:, i0 * b : i1 * b] for key, arr in out.items()}
-        hom = surface.homogeneous_from_basis(bu[:, i0:i1], bv, 2)  # (3, 3, 4, r, b)
-        q = _from_homogeneous(hom.reshape(3, 3, 4, n), sign, floor, dest)
-        if not q["valid"].all():
-            _fix_degenerate(surface, np.repeat(u[i0:i1], b), np.tile(v, i1 - i0), q, sign)
+    def work(k: int) -> None:
+        rows = edges[k : k + 2].copy()
+        grid_kernel(
+            net, nv, surface.degree_u, surface.degree_v, bu, span_u, bv, span_v, rows,
+            sign, DEGENERATE_SINE * DEGENERATE_SINE, floor * floor, outs,
+        )  # fmt: skip
 
-    workers = workers or os.cpu_count() or 1
-    # The matrix products are small; BLAS threads on top of ours only contend.
-    with _BLAS.limit(limits=1, user_api="blas"):
-        if workers > 1 and len(blocks) > 1:
-            with ThreadPoolExecutor(workers) as pool:
-                list(pool.map(work, blocks))
-        else:
-            for block in blocks:
-                work(block)
-    return _pack(out, (a, b))
+    if workers > 1:
+        with ThreadPoolExecutor(workers) as pool:
+            list(pool.map(work, range(edges.size - 1)))
+    else:
+        work(0)
+    q = dict(zip(OUTPUT_KEYS, outs, strict=True))
+    if not q["valid"].all():
+        bad = np.flatnonzero(~q["valid"])
+        sub = {key: arr[bad] for key, arr in q.items()}
+        _fix_degenerate(surface, u[bad // b], v[bad % b], sub, sign)
+        for key, arr in sub.items():
+            q[key][bad] = arr
+    return _field(q, (a, b))

@@ -10,6 +10,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from . import compiled_regions
 from .nurbs import NurbsSurface
 
 
@@ -95,24 +96,10 @@ def points_in_loops(uv: np.ndarray, loops: tuple[np.ndarray, ...]) -> np.ndarray
     -----
     Crossing-number test (Shimrat 1962, Algorithm 112): a point is inside when a
     ray from it crosses the boundary an odd number of times. Holes need no
-    special case under the even-odd rule. Vectorised over points; a loop over
-    edge blocks bounds the memory.
+    special case under the even-odd rule. Compiled
+    (:func:`geometry.compiled_regions.points_in_loops`).
     """
-    shape = uv.shape[:-1]
-    pts = uv.reshape(-1, 2)
-    x, y = pts[:, 0:1], pts[:, 1:2]
-    odd = np.zeros(pts.shape[0], dtype=bool)
-    for loop in loops:
-        a = loop
-        b = np.roll(loop, -1, axis=0)
-        for s in range(0, a.shape[0], 256):
-            ax, ay = a[s : s + 256, 0], a[s : s + 256, 1]
-            bx, by = b[s : s + 256, 0], b[s : s + 256, 1]
-            straddles = (ay > y) != (by > y)
-            dy = np.where(by == ay, 1.0, by - ay)
-            x_cross = ax + (y - ay) * (bx - ax) / dy
-            odd ^= np.logical_xor.reduce(straddles & (x < x_cross), axis=1)
-    return odd.reshape(shape)
+    return compiled_regions.points_in_loops(uv, loops)
 
 
 @dataclass(frozen=True, eq=False)

@@ -1,8 +1,9 @@
 """The tensor-product NURBS surface and its exact partial derivatives.
 
-Grids are evaluated as basis matrices contracted with the homogeneous control
-net (two matrix products per derivative); scattered parameter pairs gather the
-(p + 1) x (q + 1) active poles of each pair. Rational derivatives follow from
+Grids and scattered parameter pairs are evaluated by the compiled kernels of
+:mod:`geometry.compiled_eval`, which contract the (p + 1) x (q + 1) active
+poles of each sample (a grid row's u-contraction is shared along the row).
+Rational derivatives follow from
 the homogeneous ones by the quotient rule of The NURBS Book (Piegl & Tiller,
 2nd ed.), eq. 4.20 and algorithm A4.4.
 """
@@ -11,11 +12,11 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 from functools import cached_property
-from math import comb
 
 import numpy as np
 
-from .basis import basis_matrices, nonzero_basis_derivatives, validate_knots
+from . import compiled_eval
+from .basis import validate_knots
 from .errors import SurfaceError
 
 
@@ -128,13 +129,11 @@ class NurbsSurface:
             ``ders[k, l]`` is d^(k+l) S / du^k dv^l; entries with k + l > order are zero.
         """
         u, v = self.clip_to_domain(np.ravel(u), np.ravel(v))
-        nu, nv = self.shape
-        bu = basis_matrices(self.knots_u, self.degree_u, nu, u, order)
-        bv = basis_matrices(self.knots_v, self.degree_v, nv, v, order)
-        return np.moveaxis(self.derivatives_from_basis(bu, bv, order), 2, -1)
+        # Compiled: each grid row contracted with the net once (A3.6), quotient rule per sample (A4.4).
+        return compiled_eval.grid_derivatives(self, u, v, order)
 
-    def derivatives_from_basis(self, bu: np.ndarray, bv: np.ndarray, order: int) -> np.ndarray:
-        """Grid derivatives from precomputed basis matrices, components first.
+    def homogeneous_from_basis(self, bu: np.ndarray, bv: np.ndarray, order: int, dim: int = 4) -> np.ndarray:
+        """Derivatives A_kl of the homogeneous surface (w x, w y, w z, w) from dense basis matrices.
 
         Parameters
         ----------
@@ -142,35 +141,17 @@ class NurbsSurface:
         bv : ndarray of shape (>= order + 1, b, nv)
             From :func:`geometry.basis.basis_matrices`.
         order : int
-
-        Returns
-        -------
-        ders : ndarray of shape (order + 1, order + 1, 3, a, b)
-            Components first, so each coordinate is a contiguous (a, b) block
-            for the arithmetic that follows.
-        """
-        if not self.is_rational:
-            return self.homogeneous_from_basis(bu, bv, order, dim=3)
-        return rational_quotient(self.homogeneous_from_basis(bu, bv, order), order)
-
-    def homogeneous_from_basis(self, bu: np.ndarray, bv: np.ndarray, order: int, dim: int = 4) -> np.ndarray:
-        """Derivatives A_kl of the homogeneous surface (w x, w y, w z, w) on a grid.
-
-        Parameters
-        ----------
-        bu : ndarray of shape (>= order + 1, a, nu)
-        bv : ndarray of shape (>= order + 1, b, nv)
-        order : int
         dim : int
             4 for all homogeneous components, 3 for the weighted coordinates only.
 
         Returns
         -------
         hom : ndarray of shape (order + 1, order + 1, dim, a, b)
-            Entries with k + l > order are zero. Each is two matrix products:
-            ``A_kl = Bu^(k) P^w Bv^(l)T`` (The NURBS Book eq. 3.17, differentiated).
+            Entries with k + l > order are zero; ``A_kl = Bu^(k) P^w Bv^(l)T``
+            (The NURBS Book eq. 3.17, differentiated). For the draft maps' blocks;
+            curvature and points use the compiled kernels.
         """
-        net = self.net_components[:dim]  # (dim, nu, nv)
+        net = np.ascontiguousarray(self.homogeneous.transpose(2, 0, 1)[:dim])  # (dim, nu, nv)
         nv = net.shape[2]
         a, b = bu.shape[1], bv.shape[1]
         hom = np.empty((order + 1, order + 1, dim, a, b))
@@ -180,11 +161,6 @@ class NurbsSurface:
             for l in range(order + 1 - k):
                 np.matmul(rows, bv[l].T, out=hom[k, l].reshape(dim * a, b))
         return hom
-
-    @cached_property
-    def net_components(self) -> np.ndarray:
-        """Homogeneous net with components first, shape (4, nu, nv)."""
-        return _readonly(np.ascontiguousarray(self.homogeneous.transpose(2, 0, 1)))
 
     def derivatives_at(self, u: np.ndarray, v: np.ndarray, order: int = 2) -> np.ndarray:
         """Partial derivatives S_kl at scattered parameter pairs (u[i], v[i]).
@@ -198,25 +174,18 @@ class NurbsSurface:
         -------
         ders : ndarray of shape (order + 1, order + 1, k, 3)
         """
-        u, v = self.clip_to_domain(np.ravel(u), np.ravel(v))
+        u = np.ravel(np.asarray(u, dtype=float))
+        v = np.ravel(np.asarray(v, dtype=float))
         if u.shape != v.shape:
             raise SurfaceError(f"u and v must pair up, got {u.shape} and {v.shape}")
-        nu, nv = self.shape
-        p, q = self.degree_u, self.degree_v
-        du, su = nonzero_basis_derivatives(self.knots_u, p, nu, u, order)  # (o+1, k, p+1)
-        dv, sv = nonzero_basis_derivatives(self.knots_v, q, nv, v, order)
-        iu = su[:, None] - p + np.arange(p + 1)  # (k, p+1)
-        iv = sv[:, None] - q + np.arange(q + 1)
-        dim = 4 if self.is_rational else 3
-        local = self.homogeneous[iu[:, :, None], iv[:, None, :], :dim]  # (k, p+1, q+1, dim)
-        hom = np.zeros((order + 1, order + 1, dim, u.size))
-        for k in range(order + 1):
-            part = np.einsum("ka,kabd->kbd", du[k], local)
-            for l in range(order + 1 - k):
-                hom[k, l] = np.einsum("kb,kbd->dk", dv[l], part)
-        if self.is_rational:
-            hom = rational_quotient(hom, order)
-        return np.moveaxis(hom, 2, -1)
+        # Compiled: one pass per pair over its (p + 1) x (q + 1) active poles
+        # (A2.3 basis derivatives, A3.6 contraction, A4.4 quotient).
+        return compiled_eval.derivatives(self.pack, 0, u, v, order)
+
+    @cached_property
+    def pack(self) -> compiled_eval.SurfacePack:
+        """This surface alone as a :class:`~geometry.compiled_eval.SurfacePack`."""
+        return compiled_eval.SurfacePack.of([self])
 
     def points_grid(self, u: np.ndarray, v: np.ndarray) -> np.ndarray:
         """Surface points on the grid u x v, shape (len(u), len(v), 3)."""
@@ -232,40 +201,3 @@ class NurbsSurface:
         m = np.asarray(matrix, float)
         poles = self.poles @ m[:3, :3].T + m[:3, 3]
         return NurbsSurface(self.degree_u, self.degree_v, self.knots_u, self.knots_v, poles, self.weights)
-
-
-def rational_quotient(hom: np.ndarray, order: int) -> np.ndarray:
-    """Derivatives of the rational surface from those of its homogeneous form.
-
-    Parameters
-    ----------
-    hom : ndarray of shape (order + 1, order + 1, 4, ...)
-        Derivatives of (w x, w y, w z, w), components on axis 2.
-    order : int
-
-    Returns
-    -------
-    ders : ndarray of shape (order + 1, order + 1, 3, ...)
-
-    Notes
-    -----
-    The NURBS Book eq. 4.20 (algorithm A4.4):
-    ``S_kl = (A_kl - sum_{(i,j) != (0,0)} C(k,i) C(l,j) w_ij S_{k-i,l-j}) / w``.
-    """
-    w = hom[:, :, 3]
-    out = np.zeros((order + 1, order + 1, 3, *hom.shape[3:]))
-    inv_w = 1.0 / w[0, 0]
-    scratch = np.empty(out.shape[2:])
-    for k in range(order + 1):
-        for l in range(order + 1 - k):
-            acc = out[k, l]
-            acc[...] = hom[k, l, :3]
-            for i in range(k + 1):
-                for j in range(l + 1):
-                    if i or j:
-                        np.multiply(out[k - i, l - j], w[i, j], out=scratch)
-                        if comb(k, i) * comb(l, j) != 1:
-                            scratch *= comb(k, i) * comb(l, j)
-                        acc -= scratch
-            acc *= inv_w
-    return out

@@ -2,8 +2,9 @@
 
 :func:`closest_parameters` is point inversion (The NURBS Book, 2nd ed., sec. 6.1,
 eq. 6.3-6.6): Newton's method on ``f = Su . r = 0, g = Sv . r = 0`` with
-``r = S(u, v) - P``, vectorised over points, damped (Levenberg-Marquardt) where
-the Jacobian is singular (a collapsed pole) and clamped to the domain.
+``r = S(u, v) - P``, compiled (:mod:`geometry.compiled_inversion`), damped
+(Levenberg-Marquardt) where the Jacobian is singular (a collapsed pole) and
+clamped to the domain.
 :func:`probe_point` finds the nearest point on a trimmed model: dense samples in
 a k-d tree give starting parameters, inversion refines them on the exact
 surface, and a refined point that leaves the trim falls back to the best sample
@@ -16,22 +17,12 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from .compiled_inversion import NEWTON_ITERATIONS, invert
 from .differential import curvature_at
 from .errors import BattenError
 from .model import Face, Model
 from .nurbs import NurbsSurface
 
-# Newton stops when the parameter step is below this fraction of the domain.
-STEP_RTOL = 1e-14
-NEWTON_ITERATIONS = 30
-# Damping on the Newton normal equations, relative to their trace.
-DAMPING = 1e-12
-# Step halvings tried when a step would move away from the point.
-BACKTRACKS = 8
-# Relative increase of the squared distance still accepted (rounding near the foot).
-ACCEPT_RTOL = 1e-9
-# Largest step per iteration, as a fraction of the domain (a trust region).
-MAX_STEP = 0.25
 # Samples per face used to seed the nearest-point search.
 SEED_SAMPLES = 4000
 # Candidate samples (over the whole model) refined exactly.
@@ -63,86 +54,11 @@ def closest_parameters(
     The NURBS Book, eq. 6.6: the Newton step ``delta`` solves
     ``J delta = -(f, g)`` with ``J = [[|Su|^2 + r.Suu, Su.Sv + r.Suv],
     [Su.Sv + r.Suv, |Sv|^2 + r.Svv]]``. A step that would leave the domain is
-    clamped to its boundary (sec. 6.1, the clamping for open surfaces).
+    clamped to its boundary (sec. 6.1, the clamping for open surfaces). Runs
+    compiled, each point on its own (:func:`geometry.compiled_inversion.invert`);
+    for points on many surfaces at once, call that with a pack of them.
     """
-    pts = np.asarray(points, float).reshape(-1, 3)
-    u, v = surface.clip_to_domain(np.array(u, float).ravel(), np.array(v, float).ravel())
-    (u0, u1), (v0, v1) = surface.domain
-    active = np.ones(u.size, dtype=bool)
-    for _ in range(iterations):
-        if not active.any():
-            break
-        idx = np.flatnonzero(active)
-        d = surface.derivatives_at(u[idx], v[idx], 2)
-        r = d[0, 0] - pts[idx]
-        du, dv = _newton_step(d, r, u[idx], v[idx], surface.domain)
-        # Backtrack where the step would move away from the point (far from
-        # the surface, or across a fold of the distance function).
-        dist = np.einsum("ki,ki->k", r, r)
-        step = np.ones(idx.size)
-        for _ in range(BACKTRACKS):
-            un = np.clip(u[idx] + step * du, u0, u1)
-            vn = np.clip(v[idx] + step * dv, v0, v1)
-            rn = surface.points_at(un, vn) - pts[idx]
-            # Near the foot point the squared distance is flat to rounding:
-            # only a clear increase counts as moving away.
-            worse = np.einsum("ki,ki->k", rn, rn) > dist * (1.0 + ACCEPT_RTOL) + 1e-300
-            if not worse.any():
-                break
-            step = np.where(worse, 0.5 * step, step)
-        # A step that still moves away after the halvings is not taken.
-        un, vn = np.where(worse, u[idx], un), np.where(worse, v[idx], vn)
-        moved = np.abs(un - u[idx]) / (u1 - u0) + np.abs(vn - v[idx]) / (v1 - v0)
-        u[idx], v[idx] = un, vn
-        active[idx[moved <= STEP_RTOL]] = False
-    return u, v
-
-
-def _newton_step(d: np.ndarray, r: np.ndarray, u, v, domain) -> tuple[np.ndarray, np.ndarray]:
-    """Newton step of point inversion, Gauss-Newton where the Hessian is not positive.
-
-    Parameters
-    ----------
-    d : ndarray of shape (3, 3, k, 3)
-        Surface derivatives up to order 2.
-    r : ndarray of shape (k, 3)
-        Residual S - P.
-    u, v : ndarray of shape (k,)
-        Current parameters.
-    domain : ((u0, u1), (v0, v1))
-
-    Notes
-    -----
-    Where a parameter sits on a domain bound and the step would leave it, that
-    parameter is held and the other takes the one-dimensional Newton step
-    (projected Newton); steps are capped at :data:`MAX_STEP` of the domain.
-
-    Returns
-    -------
-    du, dv : ndarray of shape (k,)
-    """
-    su, sv = d[1, 0], d[0, 1]
-    f = np.einsum("ki,ki->k", su, r)
-    g = np.einsum("ki,ki->k", sv, r)
-    e_, f_, g_ = (np.einsum("ki,ki->k", x, y) for x, y in ((su, su), (su, sv), (sv, sv)))
-    a = e_ + np.einsum("ki,ki->k", r, d[2, 0])
-    b = f_ + np.einsum("ki,ki->k", r, d[1, 1])
-    c = g_ + np.einsum("ki,ki->k", r, d[0, 2])
-    positive = (a * c - b * b > 0) & (a > 0)
-    # Gauss-Newton drops the r . S_ij terms: always positive semi-definite.
-    a, b, c = np.where(positive, a, e_), np.where(positive, b, f_), np.where(positive, c, g_)
-    lam = DAMPING * (np.abs(a) + np.abs(c)) + 1e-300
-    a, c = a + lam, c + lam
-    det = a * c - b * b
-    det = np.where(det > 0, det, lam * lam)
-    du, dv = -(c * f - b * g) / det, -(a * g - b * f) / det
-    (u0, u1), (v0, v1) = domain
-    hold_u = ((u <= u0) & (du < 0)) | ((u >= u1) & (du > 0))
-    hold_v = ((v <= v0) & (dv < 0)) | ((v >= v1) & (dv > 0))
-    du, dv = np.where(hold_u, 0.0, np.where(hold_v, -f / a, du)), np.where(hold_v, 0.0, np.where(hold_u, -g / c, dv))
-    scale = np.maximum(np.abs(du) / (MAX_STEP * (u1 - u0)), np.abs(dv) / (MAX_STEP * (v1 - v0)))
-    shrink = np.where(scale > 1.0, 1.0 / np.maximum(scale, 1.0), 1.0)
-    return du * shrink, dv * shrink
+    return invert(surface.pack, 0, points, u, v, iterations)
 
 
 @dataclass(frozen=True)

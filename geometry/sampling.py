@@ -14,6 +14,7 @@ bisection so that the model's grids fit a total budget.
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 
 import numpy as np
@@ -122,18 +123,26 @@ def _demand(face: Face) -> _Demand:
 def _counts(d: _Demand, spacing: float) -> tuple[int, int]:
     def one(length, turn, spans):
         n = length / spacing + turn / ANGLE_STEP
-        return int(np.clip(np.ceil(n), max(MIN_SAMPLES, PER_SPAN * spans + 1), MAX_SAMPLES))
+        return min(max(math.ceil(n), MIN_SAMPLES, PER_SPAN * spans + 1), MAX_SAMPLES)
 
     return one(d.length_u, d.turn_u, d.spans_u), one(d.length_v, d.turn_v, d.spans_v)
 
 
 def _spacing_for_budget(demands: list[_Demand], budget: int) -> float:
-    """Largest spacing (mm) with total grid size <= budget, by bisection on log-spacing."""
-    total_length = sum(d.length_u + d.length_v for d in demands) or 1.0
+    """Largest spacing (mm) with total grid size <= budget, by bisection on log-spacing.
+
+    The counts of every face are computed at once per step (arrays over faces).
+    """
+    table = np.array([(d.length_u, d.turn_u, d.spans_u, d.length_v, d.turn_v, d.spans_v) for d in demands], float)
+    total_length = float(table[:, 0].sum() + table[:, 3].sum()) or 1.0
     lo, hi = total_length * 1e-7, total_length * 10.0
 
+    def counts(length, turn, spans, h):
+        n = np.ceil(length / h + turn / ANGLE_STEP)
+        return np.minimum(np.maximum(n, np.maximum(MIN_SAMPLES, PER_SPAN * spans + 1)), MAX_SAMPLES)
+
     def total(h):
-        return sum(a * b for a, b in (_counts(d, h) for d in demands))
+        return float(np.sum(counts(*table[:, :3].T, h) * counts(*table[:, 3:].T, h)))
 
     if total(lo) <= budget:
         return lo

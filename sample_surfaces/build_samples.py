@@ -20,6 +20,7 @@ HERE = Path(__file__).resolve().parent
 if str(HERE.parent) not in sys.path:  # run as a script: make the repository importable
     sys.path.insert(0, str(HERE.parent))
 
+from sample_surfaces import large_product  # noqa: E402
 from sample_surfaces.export import SEW_TOLERANCE, write_sample  # noqa: E402
 from sample_surfaces.products import ALL, Sample  # noqa: E402
 
@@ -48,6 +49,31 @@ def build(sample: Sample, out: Path) -> dict:
     return entry
 
 
+def build_large(out: Path) -> dict:
+    """Write the large sample (:mod:`sample_surfaces.large_product`) and return its manifest entry.
+
+    Its designed seam counts by class are checked against the kernel's sewing:
+    every G2, G1 and crease seam is one shared edge.
+    """
+    faces, expect = large_product.oven_front()
+    written = write_sample(faces, large_product.PRODUCT, out / large_product.STEM, True)
+    classes = expect["seam_classes"]
+    designed = classes["G2"] + classes["G1"] + classes["G0_crease"]
+    if written.shared_edges != designed:
+        raise RuntimeError(f"{large_product.STEM}: sewing shared {written.shared_edges} edges, designed {designed}")
+    return {
+        "name": large_product.STEM,
+        "product": large_product.PRODUCT,
+        "description": large_product.DESCRIPTION,
+        "files": written.files,
+        "face_count": len(faces),
+        "sewn": True,
+        "shared_edges_step": written.shared_edges,
+        "unshared_edges_step": written.free_edges,
+        **expect,
+    }
+
+
 def manifest_header() -> dict:
     return {
         "version": MANIFEST_VERSION,
@@ -71,11 +97,17 @@ def manifest_header() -> dict:
     }
 
 
-def build_all(out: Path = HERE) -> dict:
-    """Write every sample's STEP and IGES and ``manifest.json`` into ``out``; return the manifest."""
+def build_all(out: Path = HERE, large: bool = True) -> dict:
+    """Write every sample's STEP and IGES and ``manifest.json`` into ``out``; return the manifest.
+
+    ``large=False`` leaves out the large sample (``large_samples``), which takes
+    most of the time.
+    """
     out.mkdir(parents=True, exist_ok=True)
     manifest = manifest_header()
     manifest["samples"] = [build(make(), out) for make in ALL]
+    if large:
+        manifest["large_samples"] = [build_large(out)]
     tmp = out / ".manifest.json.tmp"
     tmp.write_text(json.dumps(manifest, indent=1) + "\n", encoding="utf-8")
     os.replace(tmp, out / "manifest.json")
@@ -84,7 +116,7 @@ def build_all(out: Path = HERE) -> dict:
 
 def main() -> int:
     manifest = build_all(HERE)
-    for entry in manifest["samples"]:
+    for entry in manifest["samples"] + manifest.get("large_samples", []):
         sizes = ", ".join(f"{(HERE / name).stat().st_size / 1024:.0f} kB" for name in entry["files"].values())
         print(f"{entry['name']}: {entry['face_count']} faces ({sizes})")
     return 0

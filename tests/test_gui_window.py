@@ -253,8 +253,10 @@ def test_profile_chooser_rejudges_without_reloading(qtbot, window):
     assert window.profile_label.text() == "profile class-a"
     assert seam_verdicts(window) == ["fail"]  # class-A wants G2
     shown, actor = window.session.model, window.scene.surface_actor
-    chooser.activated.emit(names.index("technical"))  # as a user's choice in the list
-    assert window.profile_label.text() == "profile technical"
+    # as a user's choice in the list; the seams are measured again in a worker thread
+    with qtbot.waitSignal(window.seams_measured, timeout=LOAD_MS, raising=True):
+        chooser.activated.emit(names.index("technical"))
+        assert window.profile_label.text() == "profile technical"  # at once: the window does not wait
     assert chooser.currentData() == "technical"
     assert seam_verdicts(window) == ["pass"]  # G1 is enough for technical surfaces
     assert window.session.model is shown and window.scene.surface_actor is actor

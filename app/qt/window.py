@@ -5,6 +5,7 @@ from __future__ import annotations
 import importlib.util
 import os
 import tempfile
+from dataclasses import replace
 
 import numpy as np
 from PySide6.QtCore import Qt, QTimer, Signal
@@ -29,7 +30,7 @@ from app.state.recent import RecentFiles, default_store
 from .controls import DisplayPanel, SectionPanel
 from .findings import FROM_FILE, FindingsPanel
 from .graph import CurvatureGraph
-from .worker import LoadJob, start_job
+from .worker import LoadJob, SeamJob, start_job
 
 MODEL_FILTER = "Design models (*.step *.stp *.p21 *.iges *.igs *.json);;All files (*)"
 IMAGE_FILTER = "PNG image (*.png);;JPEG image (*.jpg)"
@@ -75,6 +76,7 @@ class MainWindow(QMainWindow):
         self.view.add_axes(interactive=False)
         self._job_thread = None
         self._job = None
+        self._seam_jobs: list[tuple[SeamJob, object]] = []  # re-measures after a profile change
         self._job_path = ""
         self._job_shown = False
         self._plane_widget = None
@@ -213,13 +215,19 @@ class MainWindow(QMainWindow):
         self._job_thread = start_job(self._job, self)
 
     def wait_for_job(self) -> None:
-        """Block until a running load has ended (the kernel cannot be interrupted)."""
+        """Block until a running load and seam re-measures have ended (the kernel cannot be interrupted)."""
         thread, self._job_thread = self._job_thread, None
-        try:
-            if thread is not None and thread.isRunning():
-                thread.wait()
-        except RuntimeError:
-            pass  # the thread object is already deleted: it has ended
+        seam_threads = [t for _, t in self._seam_jobs]
+        for t in [thread, *seam_threads]:
+            try:
+                if t is not None and t.isRunning():
+                    if t in seam_threads:
+                        # its quit is queued to this (waiting) thread: ask now; the
+                        # measuring under way still ends before the thread does
+                        t.quit()
+                    t.wait()
+            except RuntimeError:
+                pass  # the thread object is already deleted: it has ended
 
     def _loading_progress(self, percent: int, message: str) -> None:
         self.progress.setValue(percent)
@@ -243,8 +251,37 @@ class MainWindow(QMainWindow):
     def _seams_measured(self, loaded) -> None:
         self._job_done()
         self.statusBar().showMessage(face_account_line(loaded.model.face_account()), 8000)
+        review = loaded.seam_review
+        if review is not None and review.profile.values != self.session.profile.values:
+            # The profile changed while the file was opening: measure again, off the GUI thread.
+            self.session.adopt_seams(replace(loaded, seam_review=None))
+            self._remeasure_seams()
+            return
         self.session.adopt_seams(loaded)
         self.seams_measured.emit(self._job_path)
+
+    def _remeasure_seams(self) -> None:
+        """Measure the seams on screen under the profile in force, in a worker thread."""
+        loaded = self.session.loaded
+        if loaded is None or self._job is not None:
+            return  # nothing shown, or the file still opening: its seams are measured again when they arrive
+        job = SeamJob(loaded, self.session.profile)
+        job.seams_ready.connect(self._remeasured)
+        job.failed.connect(self._remeasure_failed)
+        self._seam_jobs.append((job, start_job(job, self)))
+        self.statusBar().showMessage(f"measuring the seams under profile {self.session.profile.name}")
+
+    def _remeasured(self, loaded) -> None:
+        done = loaded.seam_review.profile.values if loaded.seam_review is not None else None
+        finished = next((i for i, (j, _) in enumerate(self._seam_jobs) if j.profile.values == done), 0)
+        del self._seam_jobs[finished : finished + 1]
+        if done is not None and done == self.session.profile.values:
+            self.session.adopt_seams(loaded)  # an older profile's result is dropped: a newer job follows
+            self.statusBar().showMessage(f"findings judged by profile {self.session.profile.name}", 5000)
+            self.seams_measured.emit(loaded.model.source)
+
+    def _remeasure_failed(self, message: str) -> None:
+        QMessageBox.critical(self, "Cannot measure the seams", message)
 
     def _load_failed(self, message: str) -> None:
         shown = self._job_shown
@@ -445,16 +482,14 @@ class MainWindow(QMainWindow):
         """Judge the model on screen against another profile; a bad file leaves the current one in force."""
         from geometry.errors import BattenError
 
-        QApplication.setOverrideCursor(Qt.CursorShape.WaitCursor)
         try:
-            self.session.set_profile(name_or_path)
+            # The seams are measured again in a worker thread: the window never waits for them.
+            self.session.set_profile(name_or_path, remeasure=False)
         except BattenError as exc:
             self.findings_panel.profile.refresh()
             QMessageBox.critical(self, "Cannot use this profile", f"{exc}\n\nThe profile in force is kept.")
         else:
-            self.statusBar().showMessage(f"findings judged by profile {self.session.profile.name}", 5000)
-        finally:
-            QApplication.restoreOverrideCursor()
+            self._remeasure_seams()
 
     # -- export ----------------------------------------------------------
     def export_image(self) -> None:

@@ -47,7 +47,35 @@ class LoadJob(QObject):
             self.failed.emit(f"{self.path}: internal error while opening ({type(exc).__name__}: {exc})")
 
 
-def start_job(job: LoadJob, parent: QObject) -> QThread:
+class SeamJob(QObject):
+    """Measures the seams of the model on screen again under another profile, in a worker thread.
+
+    Signals
+    -------
+    seams_ready(object)
+        The bundle with its seams measured under ``profile``.
+    failed(str)
+    """
+
+    seams_ready = Signal(object)
+    failed = Signal(str)
+
+    def __init__(self, loaded, profile):
+        super().__init__()
+        self.loaded = loaded
+        self.profile = profile
+
+    @Slot()
+    def run(self) -> None:
+        try:
+            self.seams_ready.emit(with_seams_judged(self.loaded, profile=self.profile))
+        except BattenError as exc:
+            self.failed.emit(str(exc))
+        except Exception as exc:  # a bug of ours must not kill the window; say what happened
+            self.failed.emit(f"internal error while measuring the seams ({type(exc).__name__}: {exc})")
+
+
+def start_job(job: LoadJob | SeamJob, parent: QObject) -> QThread:
     """Run ``job`` in a new thread that ends (and is deleted) when the job reports."""
     thread = QThread(parent)
     job.moveToThread(thread)

@@ -85,8 +85,10 @@ def _contents(path: str, fmt: str, data: bytes) -> tuple[ShapeContents, str]:
         from .geomdl_json import read_geomdl_json
 
         return read_geomdl_json(path, data), "mm"
+    from ..compiled_warm import warm_up_in_background
     from .isolation import read_isolated
 
+    warm_up_in_background()  # load the compiled kernels while the helper process reads
     return read_isolated(fmt, path)
 
 

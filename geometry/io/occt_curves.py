@@ -140,14 +140,17 @@ class FaceMap:
     The input surface is evaluated at the input (u, v), and the point inverted
     onto the NURBS (:func:`geometry.probe.closest_parameters`) starting from the
     same (u, v), which lies within a fraction of a knot span of the answer.
+    B-spline surfaces and planes keep their parameters through the conversion,
+    so their (u, v) are taken as they are.
     ``worst`` records the largest distance left (a trim off its surface).
     """
 
-    def __init__(self, face, surface: NurbsSurface):
+    def __init__(self, face, surface: NurbsSurface, same_parameters: bool = False):
         from OCP.BRepAdaptor import BRepAdaptor_Surface
 
         self.adaptor = BRepAdaptor_Surface(face)  # placed like the face
         self.surface = surface
+        self.same_parameters = same_parameters
         self.worst = 0.0
 
     def __call__(self, uv: np.ndarray) -> np.ndarray:
@@ -155,11 +158,18 @@ class FaceMap:
         return self.carry(uv)[0]
 
     def carry(self, uv: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-        """(u, v) on the NURBS, shape (n, 2), and the input face's points there, shape (n, 3)."""
+        """(u, v) on the NURBS, shape (n, 2), and the input face's points there, shape (n, 3).
+
+        All the points of a call are inverted in one compiled call; a NURBS that
+        is the input surface itself (``same_parameters``) maps (u, v) to itself.
+        """
         from ..probe import closest_parameters
 
+        uv = np.asarray(uv, dtype=float)
         if len(uv) == 0:
             return uv, np.zeros((0, 3))
+        if self.same_parameters:
+            return uv, self.surface.points_at(uv[:, 0], uv[:, 1])
         pts = _on_surface(self.adaptor, uv)
         u, v = closest_parameters(self.surface, pts, uv[:, 0], uv[:, 1])
         off = np.linalg.norm(self.surface.points_at(u, v) - pts, axis=1)

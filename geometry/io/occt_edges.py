@@ -37,6 +37,14 @@ def indexed_map(shape, kind):
     return found
 
 
+def _listed(shapes) -> list:
+    """The shapes of a ``TopTools_ListOfShape``; First/Last for the usual one or two (iterating costs ms)."""
+    n = shapes.Size()
+    if n == 0:
+        return []
+    return [shapes.First(), shapes.Last()][:n] if n <= 2 else list(shapes)
+
+
 def shared_edges(shape, faces_map, kept: dict[int, tuple[int, FaceMap]]) -> list[Edge]:
     """Every non-degenerate edge with one use per (kept) face side, matched point for point."""
     from OCP.BRep import BRep_Tool
@@ -52,7 +60,7 @@ def shared_edges(shape, faces_map, kept: dict[int, tuple[int, FaceMap]]) -> list
         edge = TopoDS.Edge(edge_faces.FindKey(k))
         if BRep_Tool.Degenerated_s(edge):
             continue
-        sides = [a for a in edge_faces.FindFromIndex(k) if faces_map.FindIndex(a) - 1 in kept]
+        sides = [a for a in _listed(edge_faces.FindFromIndex(k)) if faces_map.FindIndex(a) - 1 in kept]
         if not sides:
             continue
         oriented = []  # (oriented edge, input face, model face index, its (u, v) map)

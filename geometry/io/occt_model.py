@@ -1,10 +1,11 @@
 """An OCP shape (from the STEP or IGES reader) as Batten faces and edges.
 
-Each face is converted to NURBS on its own (``BRepBuilderAPI_NurbsConvert``),
-so one face the kernel cannot convert is skipped with a warning and the others
-kept. Trims are carried onto the NURBS by :mod:`.occt_curves`; the shared-edge
-topology is :mod:`.occt_edges`'. Lengths are already mm (the kernel's readers
-convert) and placements come with each face's location.
+Each face's surface is converted to NURBS on its own (``GeomConvert``, or
+``BRepBuilderAPI_NurbsConvert`` for what that refuses), so one face the kernel
+cannot convert is skipped with a warning and the others kept. Trims are
+carried onto the NURBS by :mod:`.occt_curves`; the shared-edge topology is
+:mod:`.occt_edges`'. Lengths are already mm (the kernel's readers convert) and
+placements come with each face's location.
 """
 
 from __future__ import annotations
@@ -19,7 +20,7 @@ from ..model import Edge, Face, SkippedFace
 from ..nurbs import NurbsSurface
 from .occt_curves import FaceMap, face_loops
 from .occt_edges import indexed_map, sewn_edges, shared_edges
-from .occt_surface import bspline_to_nurbs, face_bspline
+from .occt_surface import bspline_to_nurbs, face_bspline, surface_bspline
 
 # A face whose control net spans more than this is rejected as absurd (100 km).
 MAX_EXTENT_MM = 1e8
@@ -74,20 +75,28 @@ def _check_extent(surface: NurbsSurface) -> None:
         raise BattenError(f"control net spans {extent:.3g} mm, beyond any design model ({MAX_EXTENT_MM:.0e} mm)")
 
 
-def _face_surface(face) -> NurbsSurface:
-    """The exact NURBS of one input face, placed (``BRepBuilderAPI_NurbsConvert``)."""
+def _face_surface(face) -> tuple[NurbsSurface, bool]:
+    """The exact NURBS of one input face, placed, and whether it keeps the face's (u, v).
+
+    The surface alone is converted (:func:`.occt_surface.surface_bspline`);
+    what has no exact form there goes through ``BRepBuilderAPI_NurbsConvert``.
+    """
     from OCP.BRepBuilderAPI import BRepBuilderAPI_NurbsConvert
     from OCP.TopoDS import TopoDS
 
-    converter = BRepBuilderAPI_NurbsConvert(face, True)
-    if not converter.IsDone():
-        raise BattenError("NURBS conversion failed")
-    bspline, placement = face_bspline(TopoDS.Face(converter.Shape()))
+    try:
+        bspline, placement, same = surface_bspline(face)
+    except Exception:  # offset surfaces and whatever GeomConvert refuses
+        converter = BRepBuilderAPI_NurbsConvert(face, True)
+        if not converter.IsDone():
+            raise BattenError("NURBS conversion failed") from None
+        bspline, placement = face_bspline(TopoDS.Face(converter.Shape()))
+        same = False
     surface = bspline_to_nurbs(bspline)
     if not np.array_equal(placement, np.eye(4)):
         surface = surface.transformed(placement)
     _check_extent(surface)
-    return surface
+    return surface, same
 
 
 def _kernel_reason(exc: BaseException) -> str:
@@ -131,7 +140,7 @@ def read_shape(shape, namer: Namer | None = None, sew: bool = False) -> ShapeCon
         name = namer(face) if namer else ""
         label = f"face {i + 1} of {total} in the file" + (f" ('{name}')" if name else "")
         try:
-            to_nurbs = FaceMap(face, _face_surface(face))
+            to_nurbs = FaceMap(face, *_face_surface(face))
         except BattenError as exc:
             out.warnings.append(f"{label} skipped: {exc}")
             out.skipped.append(SkippedFace(i + 1, name, str(exc)))

@@ -63,6 +63,61 @@ def bspline_to_nurbs(surface) -> NurbsSurface:
     )
 
 
+def surface_bspline(face):
+    """The face's underlying surface as an exact ``Geom_BSplineSurface``, and its placement.
+
+    Parameters
+    ----------
+    face : OCP.TopoDS.TopoDS_Face
+        As read (not converted).
+
+    Returns
+    -------
+    surface : OCP.Geom.Geom_BSplineSurface
+    placement : ndarray of shape (4, 4)
+    same_parameters : bool
+        The B-spline has the input surface's parametrisation (B-spline
+        surfaces and planes), so trims need no re-projection.
+
+    Raises
+    ------
+    SurfaceError
+        When the surface has no exact B-spline form here (offset surfaces and
+        the like); :func:`face_bspline` after ``BRepBuilderAPI_NurbsConvert``
+        handles those.
+
+    Notes
+    -----
+    A B-spline surface is taken as it is. Any other surface is cut to the
+    face's parameter box (``BRepTools::UVBounds``; planes, cylinders and cones
+    are unbounded) and converted exactly by ``GeomConvert``: the rational forms
+    of The NURBS Book (2nd ed.) ch. 7-8. This gives the same surface
+    ``BRepBuilderAPI_NurbsConvert`` would, without rebuilding every edge and
+    p-curve of the face, which costs a hundred times more.
+    """
+    from OCP.BRep import BRep_Tool
+    from OCP.BRepTools import BRepTools
+    from OCP.Geom import Geom_BSplineSurface, Geom_OffsetSurface, Geom_Plane, Geom_RectangularTrimmedSurface
+    from OCP.GeomConvert import GeomConvert
+    from OCP.TopLoc import TopLoc_Location
+
+    location = TopLoc_Location()
+    surface = BRep_Tool.Surface_s(face, location)
+    if surface is None:
+        raise SurfaceError("face has no surface")
+    same = isinstance(surface, (Geom_BSplineSurface, Geom_Plane))  # a plane converts to a bilinear patch
+    if not isinstance(surface, Geom_BSplineSurface):
+        if isinstance(surface, Geom_OffsetSurface):
+            raise SurfaceError("offset surface: no exact B-spline form")
+        u0, u1, v0, v1 = BRepTools.UVBounds_s(face)
+        if not (u1 > u0 and v1 > v0):
+            raise SurfaceError("face has an empty parameter box")
+        surface = GeomConvert.SurfaceToBSplineSurface_s(Geom_RectangularTrimmedSurface(surface, u0, u1, v0, v1))
+        if surface is None or not isinstance(surface, Geom_BSplineSurface):
+            raise SurfaceError("surface has no exact B-spline form")
+    return surface, location_matrix(location), same
+
+
 def face_bspline(face):
     """The face's surface as a ``Geom_BSplineSurface`` and its placement.
 
