@@ -22,6 +22,7 @@ COMMANDS: dict[str, tuple[str, str]] = {
     "probe": ("app.commands.probe", "curvature and normal at a point of a model, as JSON"),
     "section": ("app.commands.section", "plane sections with curvature combs and inflections, as JSON"),
     "check": ("app.commands.check", "run every fairness check; exit 1 when any finding is over tolerance"),
+    "compare": ("app.commands.compare", "compare two revisions: deviation, faces, findings, fairness trend"),
 }
 DEFAULT_COMMAND = "open"
 

@@ -258,6 +258,40 @@ def hood_visor() -> tuple[list[SampleFace], dict]:
     return faces, {"seams": seams}
 
 
+@_product
+def hood_visor_rev_b() -> tuple[list[SampleFace], dict]:
+    """Revision B of the hood visor: the bend eased into the flat, so the seam is G2.
+
+    The same flat panel; the bend is a quartic Bezier profile from the seam
+    down to (25, y, -25). Its first three poles lie on the flat's plane, so its
+    curvature at the seam is ``(n-1)/n * h / a^2 = 0`` with ``h = 0`` (Farin,
+    ch. 5, cited from memory), equal to the flat's: the G1 seam of revision A is
+    fixed. The control polygon turns one way only, so sections do not inflect.
+    """
+    width = 120.0
+    kv = clamped_knots([0.0, width], 1)
+    flat_profile = np.array([[-80.0, 0.0, 0.0], [-40.0, 0.0, 0.0], [0.0, 0.0, 0.0]])
+    poles, _ = extrude_profile(flat_profile, None, [0.0, width, 0.0])
+    flat = NurbsSurface(2, 1, clamped_knots([0.0, 80.0], 2), kv, poles)
+    profile = np.array([[0.0, 0.0, 0.0], [10.0, 0.0, 0.0], [18.0, 0.0, 0.0], [25.0, 0.0, -8.0], [25.0, 0.0, -25.0]])
+    poles, _ = extrude_profile(profile, None, [0.0, width, 0.0])
+    bend = NurbsSurface(4, 1, clamped_knots([0.0, 1.0], 4), kv, poles)
+    faces = [SampleFace("visor_flat", flat), SampleFace("visor_bend", bend)]
+    seams = [
+        seam(
+            faces[0],
+            "u1",
+            faces[1],
+            "G2",
+            curvature_jump=0.0,
+            curvature_jump_exact=True,
+            curvature_jump_rel=0.0,
+            cross_curvature=[0.0, 0.0],
+        )
+    ]
+    return faces, {"seams": seams}
+
+
 # -- 3. toaster side panel: a pressed bump whose sections inflect --------------------
 
 # `batten check` cuts this many evenly spaced planes across x and across y by default.
@@ -605,6 +639,7 @@ def drip_tray() -> tuple[list[SampleFace], dict]:
 ALL = (
     steamer_body,
     hood_visor,
+    hood_visor_rev_b,
     toaster_panel,
     heatgun_covers,
     breadbin_roll_top,

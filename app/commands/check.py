@@ -55,6 +55,13 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
         parser,
         "pull direction of the mould for the draft and undercut checks, overriding the profile's 'pull'",
     )
+    parser.add_argument(
+        "--review",
+        metavar="FILE",
+        help="a Batten review file of dispositions: findings accepted there are listed as accepted and do not fail "
+        "the check; dispositions whose finding moved or changed are flagged for re-review, those whose finding is "
+        "gone are reported as stale",
+    )
     parser.add_argument("--quiet", action="store_true", help="no progress lines on stderr")
 
 
@@ -63,12 +70,19 @@ def run(args: argparse.Namespace) -> int:
     from app.review.runner import ReviewSettings
     from geometry.tooling import unit_pull
 
+    review_text = ""
+    if args.review:
+        from app.review.review_file import read_review_text
+
+        review_text = read_review_text(args.review)  # a bad file stops the check here, naming file and line
     options = BatchOptions(
         files=tuple(args.files),
         settings=ReviewSettings(
             profile=args.profile,
             sections=args.sections,
             pull=None if args.pull is None else tuple(unit_pull(args.pull).tolist()),
+            review_text=review_text,
+            review_source=args.review or "",
         ),
         report=args.report,
         json=args.json,

@@ -13,9 +13,10 @@ from collections.abc import Callable, Sequence
 from html import escape
 
 from app.render.colours import VERDICT
-from app.review.result import ERROR, FAIL, PASS, UNREADABLE, FileReview, face_account_line, overall_verdict
+from app.review.result import ACCEPTED, ERROR, FAIL, PASS, UNREADABLE, FileReview, face_account_line, overall_verdict
 from geometry.conventions import CURVATURE_SIGN
 
+from . import review_parts
 from .figures import Figure
 from .tables import (
     extrema_rows,
@@ -190,9 +191,13 @@ def _glance(review: FileReview) -> str:
     summary = review.summary()
     rows = [
         (kind.replace("_", " "), str(c.get(PASS, 0)), str(c.get(FAIL, 0)))
+        + ((str(c.get(ACCEPTED, 0)),) if review.review_file is not None else ())
         for kind, c in sorted(summary["counts"].items())
     ]
     detail = f"{len(review.failures)} finding(s) over tolerance of {len(review.findings)} measured"
+    accepted = sum(f.verdict == ACCEPTED for f in review.findings)
+    if review.review_file is not None:
+        detail += f"; {accepted} more over tolerance but accepted by reviewers (see Accepted by reviewers)"
     curves = [c for s in review.sections for c in s.get("curves", ())]
     inflections = sum(len(c.get("inflections", ())) for c in curves)
     judged = "inflection" in summary["counts"]
@@ -208,7 +213,12 @@ def _glance(review: FileReview) -> str:
         "<h3>At a glance</h3>",
         _kv(facts),
         "<p></p>",
-        _table(["kind of finding", "within tolerance", "over tolerance"], rows, "nothing was judged"),
+        _table(
+            ["kind of finding", "within tolerance", "over tolerance"]
+            + (["accepted by reviewers"] if review.review_file is not None else []),
+            rows,
+            "nothing was judged",
+        ),
     ]
     return "".join(parts)
 
@@ -232,11 +242,13 @@ def file_part(review: FileReview, figures: Sequence[Figure], image_src: Callable
     parts = [head, meta, _glance(review)]
     header, rows = finding_rows(review)
     parts += ["<h3>Findings over tolerance</h3>", _table(header, rows, "none")]
-    within = len(review.findings) - len(rows)
+    within = sum(f.verdict == PASS for f in review.findings)
     if within:
         parts.append(f"<p>{within} more finding(s) within tolerance: see the tables below.</p>")
     if "findings" in by_name:
         parts.append(_figure(by_name["findings"], image_src, OVERVIEW_WIDTH))
+    if review.review_file is not None:
+        parts.append(dispositions_part(review))
     parts += ["<h3>Seams (worst first)</h3>", _table(*seam_rows(review), "no seams"), SEAMS_NOTE]
     parts += ["<h3>Free edges</h3>", _table(*free_edge_rows(review), "no free edges")]
     parts += ["<h3>Sections: fairness figures</h3>", _table(*figure_rows(review), "no sections"), FIGURES_NOTE]
@@ -267,9 +279,52 @@ def image_key(file_index: int, name: str) -> str:
     return f"f{file_index}-{name}"
 
 
-def sign_off() -> str:
-    rows = [("reviewed by", ""), ("role", ""), ("date", ""), ("decision and remarks", ""), ("signature", "")]
-    return '<h3 style="page-break-before: always;">Review sign-off</h3>' + _kv(rows)
+def dispositions_part(review: FileReview) -> str:
+    """Accepted findings, open items and every disposition of the review file (who, when, why)."""
+    return "".join(
+        [
+            f"<h3>Accepted by reviewers</h3><p>Review file: {escape(review.review_file or '-')}</p>",
+            _table(*review_parts.accepted_rows(review), "no finding over tolerance was accepted"),
+            "<h3>Open items</h3>",
+            _table(*review_parts.open_rows(review), "none: every finding over tolerance was accepted"),
+            "<h3>Dispositions</h3>",
+            f'<p style="font-size: 8pt;">{escape(review_parts.DISPOSITIONS_NOTE)}</p>',
+            _table(*review_parts.disposition_rows(review), "the review file records no disposition"),
+        ]
+    )
+
+
+def comparison_part(comparison) -> str:
+    """The chapter comparing two revisions: faces, deviation, findings, fairness trend."""
+    seams, families = review_parts.trend_rows(comparison)
+    return "".join(
+        [
+            '<h2 style="page-break-before: always; font-size: 15pt;">Comparison with the previous revision</h2>',
+            _kv(review_parts.comparison_summary(comparison)),
+            "<h3>Findings since the previous revision</h3>",
+            _table(*review_parts.finding_change_rows(comparison), "no finding over tolerance in either revision"),
+            "<h3>Deviation by face</h3>",
+            f'<p style="font-size: 8pt;">{escape(review_parts.DEVIATION_NOTE)}</p>',
+            _table(*review_parts.deviation_rows(comparison), "no face measured"),
+            "<h3>Faces</h3>",
+            _table(*review_parts.face_change_rows(comparison), "no faces"),
+            "<h3>Seams, before and after</h3>",
+            _table(*seams, "no seams"),
+            "<h3>Section families, before and after</h3>",
+            _table(*families, "no sections"),
+            FIGURES_NOTE,
+        ]
+    )
+
+
+def sign_off(reviewers: Sequence[str] = ()) -> str:
+    """The sign-off block: one set of lines per reviewer named in the review file (or one blank set)."""
+    names = list(reviewers) or [""]
+    blocks = []
+    for name in names:
+        rows = [("reviewed by", name), ("role", ""), ("date", ""), ("decision and remarks", ""), ("signature", "")]
+        blocks.append(_kv(rows) + "<p></p>")
+    return '<h3 style="page-break-before: always;">Review sign-off</h3>' + "".join(blocks)
 
 
 def document(
@@ -279,12 +334,15 @@ def document(
     created: str,
     version: str,
     image_width: int = 470,
+    comparison=None,
 ) -> str:
-    """The whole review as one HTML document: cover, a chapter per file, sign-off."""
+    """The whole review as one HTML document: cover, a comparison when one was made, a chapter per file, sign-off."""
     body = [cover(reviews, created, version)]
+    if comparison is not None:
+        body.append(comparison_part(comparison))
     for index, (review, figs) in enumerate(zip(reviews, figures, strict=True)):
         body.append(file_part(review, figs, lambda name, i=index: image_src(image_key(i, name)), image_width))
-    body.append(sign_off())
+    body.append(sign_off(tuple(dict.fromkeys(name for r in reviews for name in r.reviewers))))
     return (
         '<html><head><meta charset="utf-8"/><title>Surface fairness review</title></head>'
         '<body style="font-family: sans-serif; font-size: 10pt;">' + "".join(body) + "</body></html>"

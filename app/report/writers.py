@@ -45,17 +45,19 @@ def _images(figures: Sequence[Sequence[Figure]]) -> dict[str, bytes]:
     return {image_key(i, f.name): f.png for i, figs in enumerate(figures) for f in figs}
 
 
-def html_bytes(reviews: Sequence[FileReview], figures: Sequence[Sequence[Figure]], created: str) -> bytes:
+def html_bytes(
+    reviews: Sequence[FileReview], figures: Sequence[Sequence[Figure]], created: str, comparison=None
+) -> bytes:
     """The report as a self-contained HTML file (pictures as data URIs)."""
     images = _images(figures)
 
     def src(name: str) -> str:
         return "data:image/png;base64," + base64.b64encode(images[name]).decode("ascii")
 
-    return document(reviews, figures, src, created, __version__).encode("utf-8")
+    return document(reviews, figures, src, created, __version__, comparison=comparison).encode("utf-8")
 
 
-def write_pdf_file(target: str, reviews, figures, created: str) -> None:
+def write_pdf_file(target: str, reviews, figures, created: str, comparison=None) -> None:
     """Lay the document out with QTextDocument and print it to ``target`` with QPdfWriter (A4)."""
     _gui_application()
     from PySide6.QtCore import QMarginsF, QUrl
@@ -71,7 +73,10 @@ def write_pdf_file(target: str, reviews, figures, created: str) -> None:
         doc.addResource(
             QTextDocument.ResourceType.ImageResource, QUrl(f"{RESOURCE_SCHEME}:{name}"), QImage.fromData(png, "PNG")
         )
-    doc.setHtml(document(reviews, figures, lambda name: f"{RESOURCE_SCHEME}:{name}", created, __version__))
+    html = document(
+        reviews, figures, lambda name: f"{RESOURCE_SCHEME}:{name}", created, __version__, comparison=comparison
+    )
+    doc.setHtml(html)
     doc.print_(writer)
     del doc, writer  # the PDF is finished when the writer goes
     if not Path(target).stat().st_size:
@@ -83,6 +88,7 @@ def write_report(
     reviews: Sequence[FileReview],
     figures: Sequence[Sequence[Figure]] | None = None,
     created: str | None = None,
+    comparison=None,
 ) -> Path:
     """Write one review document covering ``reviews`` (in order), atomically.
 
@@ -96,6 +102,8 @@ def write_report(
         none when omitted.
     created : str, optional
         Time stamp printed on the cover; default now (UTC).
+    comparison : app.review.comparison.Comparison, optional
+        A comparison with the previous revision, given its own chapter.
 
     Returns
     -------
@@ -112,8 +120,8 @@ def write_report(
     figures = list(figures) if figures is not None else [() for _ in reviews]
     created = created or now_stamp()
     if fmt == "html":
-        return write_atomically(path, html_bytes(reviews, figures, created))
-    return write_atomically(path, lambda tmp: write_pdf_file(tmp, reviews, figures, created))
+        return write_atomically(path, html_bytes(reviews, figures, created, comparison))
+    return write_atomically(path, lambda tmp: write_pdf_file(tmp, reviews, figures, created, comparison))
 
 
 def now_stamp() -> str:

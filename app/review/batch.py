@@ -20,7 +20,7 @@ from pathlib import Path
 from geometry import __version__
 from geometry.errors import BattenError
 
-from .result import ERROR, FAIL, PASS, UNREADABLE, FileReview, check_document, face_account_line
+from .result import ACCEPTED, ERROR, FAIL, PASS, UNREADABLE, FileReview, check_document, face_account_line
 from .runner import ReviewSettings, file_sha256, review_file
 
 OUTPUT_SUFFIXES = {"report": (".pdf", ".html", ".htm"), "json": (".json",)}
@@ -132,21 +132,21 @@ def _run_all(options: BatchOptions) -> list[tuple[FileReview, tuple]]:
     return [results[i] for i in range(len(files))]
 
 
-def _json_ready(value):
+def json_ready(value):
     """Plain JSON values: numpy scalars to Python, NaN and infinities to null."""
     if isinstance(value, dict):
-        return {str(k): _json_ready(v) for k, v in value.items()}
+        return {str(k): json_ready(v) for k, v in value.items()}
     if isinstance(value, list | tuple):
-        return [_json_ready(v) for v in value]
+        return [json_ready(v) for v in value]
     if hasattr(value, "tolist"):
-        return _json_ready(value.tolist())
+        return json_ready(value.tolist())
     if isinstance(value, float) and not math.isfinite(value):
         return None
     return value
 
 
 def json_text(reviews: list[FileReview], created: str) -> str:
-    return json.dumps(_json_ready(check_document(reviews, created, __version__)), indent=1, allow_nan=False) + "\n"
+    return json.dumps(json_ready(check_document(reviews, created, __version__)), indent=1, allow_nan=False) + "\n"
 
 
 def _print_summary(reviews: list[FileReview]) -> None:
@@ -155,9 +155,15 @@ def _print_summary(reviews: list[FileReview]) -> None:
             detail = (
                 f"{len(r.failures)} over tolerance, {len(r.findings)} measured; {face_account_line(r.face_account)}"
             )
+            accepted = sum(f.verdict == ACCEPTED for f in r.findings)
+            detail += f", {accepted} accepted by reviewers" if r.review_file is not None else ""
         else:
             detail = r.error or ""
         print(f"{r.verdict.upper():10s} {r.source}  ({detail})")
+        for outcome in r.dispositions:
+            if outcome.status != "applied":
+                d = outcome.disposition
+                print(f"  {outcome.status}: {d.key.label} ({d.decision} by {d.reviewer}, {d.date}): {outcome.note}")
 
 
 def run_batch(options: BatchOptions) -> list[str]:
@@ -183,6 +189,7 @@ def run_batch(options: BatchOptions) -> list[str]:
     _check_outputs(options)
     parse_spec(options.settings.sections)
     get_profile(options.settings.profile)
+    options.settings.review()
     results = _run_all(options)
     reviews = [r for r, _ in results]
     created = now_stamp()

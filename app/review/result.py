@@ -22,6 +22,8 @@ class Verdict(StrEnum):
     PASS = "pass"
     FAIL = "fail"
     NOTE = "note"
+    # Over tolerance, but a reviewer accepted it in the review file: listed, does not fail the gate.
+    ACCEPTED = "accepted"
 
 
 class Kind(StrEnum):
@@ -37,7 +39,7 @@ class Kind(StrEnum):
     CUTTER_REACH = "cutter_reach"  # a face's tightest concave radius against the cutter
 
 
-PASS, FAIL = Verdict.PASS, Verdict.FAIL
+PASS, FAIL, ACCEPTED = Verdict.PASS, Verdict.FAIL, Verdict.ACCEPTED
 # A file's status when it could not be judged at all (never a finding's verdict).
 UNREADABLE, ERROR = "unreadable", "error"
 
@@ -57,6 +59,7 @@ class Finding:
         Measured value and the profile's tolerance, in ``unit``.
     unit : str
     verdict : Verdict
+        PASS, FAIL, or ACCEPTED (over tolerance, accepted in the review file).
     where : tuple of float or None
         xyz (mm) of the worst place, when there is one.
     ref : dict
@@ -119,6 +122,9 @@ class FileReview:
     section_places: tuple[tuple[int, int], ...] = ()
     lines: tuple = ()
     tooling: dict | None = None
+    dispositions: tuple = ()
+    reviewers: tuple[str, ...] = ()
+    review_file: str | None = None
 
     @property
     def verdict(self) -> str:
@@ -164,6 +170,19 @@ class FileReview:
             "warnings": list(self.warnings),
             "tooling": self.tooling,
             "summary": self.summary(),
+            **self._review_dict(),
+        }
+
+    def _review_dict(self) -> dict:
+        if self.review_file is None:
+            return {}
+        return {
+            "review": {
+                "file": self.review_file,
+                "reviewers": list(self.reviewers),
+                "accepted": sum(f.verdict == ACCEPTED for f in self.findings),
+                "dispositions": [d.to_dict() for d in self.dispositions],
+            }
         }
 
 

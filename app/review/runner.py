@@ -18,6 +18,7 @@ from geometry.io import read_model
 from geometry.model import Model
 
 from . import findings
+from .dispositions import apply_review
 from .faces import summarise_faces
 from .result import UNREADABLE, FileReview
 from .seam_entries import seams_and_free_edges
@@ -41,11 +42,27 @@ class ReviewSettings:
         A SPEC (see :mod:`app.review.spec`).
     pull : tuple of 3 float or None
         Pull direction for the tooling checks, overriding the profile's.
+    review_text : str
+        Text of a review file (:mod:`app.review.review_file`) whose
+        dispositions apply; empty for none. The text, not the path, so a result
+        cache keyed on the settings sees a changed review file.
+    review_source : str
+        Where that text came from, for messages and the report.
     """
 
     profile: str | None = None
     sections: str = DEFAULT_SPEC
     pull: tuple[float, float, float] | None = None
+    review_text: str = ""
+    review_source: str = ""
+
+    def review(self):
+        """The parsed review file, or None without one (:class:`app.review.review_file.ReviewFile`)."""
+        if not self.review_text:
+            return None
+        from .review_file import loads
+
+        return loads(self.review_text, self.review_source)
 
 
 def _quiet(_: str) -> None:
@@ -90,7 +107,7 @@ def review_model(model: Model, settings: ReviewSettings = ReviewSettings(), prog
         progress(f"{name}: tooling checks" + (f" (pull {', '.join(f'{c:g}' for c in pull)})" if pull else ""))
     tooling = tooling_entry(model, run_tooling(model, profile, settings.pull), pull_source)
     found = findings.worst_first([*findings.collect(seams, free_edges, sections, profile), *tooling_findings(tooling)])
-    return FileReview(
+    review = FileReview(
         source=model.source,
         status="checked",
         sha256=model.sha256 or None,
@@ -111,6 +128,8 @@ def review_model(model: Model, settings: ReviewSettings = ReviewSettings(), prog
         lines=lines,
         tooling=tooling,
     )
+    dispositions = settings.review()
+    return review if dispositions is None else apply_review(review, dispositions)
 
 
 def file_sha256(path: str) -> str | None:
@@ -143,16 +162,31 @@ def review_file(
     """
     progress(f"{Path(path).name}: reading")
     try:
-        model = read_model(path)
+        model = load_for_review(path)
     except ReadError as exc:
         return _unreadable(path, exc.reason), None
+    return review_model(model, settings, progress), model
+
+
+def load_for_review(path: str) -> Model:
+    """Read a model to check: its source and digest filled in, at least one face.
+
+    Raises
+    ------
+    ReadError
+        Naming the file and the cause, for any file that cannot be checked.
+    """
+    try:
+        model = read_model(path)
+    except ReadError:
+        raise
     except BattenError as exc:
-        return _unreadable(path, str(exc)), None
+        raise ReadError(path, str(exc)) from None
     if not model.faces:
-        return _unreadable(path, "the file holds no surfaces"), None
+        raise ReadError(path, "the file holds no surfaces")
     if not model.source or not model.sha256:
         model = replace(model, source=model.source or str(path), sha256=model.sha256 or file_sha256(path) or "")
-    return review_model(model, settings, progress), model
+    return model
 
 
 def _unreadable(path: str, reason: str) -> FileReview:
