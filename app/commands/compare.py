@@ -40,10 +40,10 @@ def _say(line: str) -> None:
 def run(args: argparse.Namespace) -> int:
     from dataclasses import replace
 
+    from app.profiles import get_profile
     from app.review.batch import OUTPUT_SUFFIXES, json_ready
     from app.review.comparison import compare_models
     from app.review.dispositions import apply_review
-    from app.profiles import get_profile
     from app.review.review_file import read_review_file
     from app.review.runner import ReviewSettings, load_for_review
     from app.review.spec import parse_spec

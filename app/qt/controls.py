@@ -21,7 +21,7 @@ from PySide6.QtWidgets import (
 
 from app.state import Measure, Mode, Session
 from app.state.review_findings import curve_label
-from app.state.settings import AXES, STRIPE_MODES
+from app.state.settings import AXES, STRIPE_MODES, VALUE_MODES
 from app.state.tooling import SUGGESTIONS
 from geometry.errors import BattenError
 
@@ -110,6 +110,7 @@ class DisplayPanel(QWidget):
         session.subscribe("display", self.refresh)
         session.subscribe("tooling", self.refresh)
         session.subscribe("model", self.refresh)
+        session.subscribe("review", self.refresh)
         self.refresh()
 
     def _pull_typed(self, *_):
@@ -151,7 +152,7 @@ class DisplayPanel(QWidget):
         self.mode.setCurrentIndex(self.mode.findData(d.mode))
         self.measure.setCurrentIndex(self.measure.findData(d.measure))
         self.auto_range.setChecked(d.colour_range.auto)
-        if self.session.model is not None and d.mode == Mode.CURVATURE:
+        if self.session.model is not None and d.mode in VALUE_MODES:
             low, high = self.session.colour_limits()
             self.low.setValue(low)
             self.high.setValue(high)
@@ -160,11 +161,11 @@ class DisplayPanel(QWidget):
         self.stripe_direction.setCurrentIndex(self.stripe_direction.findData(d.stripes.direction))
         self.seams.setChecked(d.show_seams)
         del blockers
-        curvature = d.mode == Mode.CURVATURE
-        self.measure.setEnabled(curvature)
-        self.auto_range.setEnabled(curvature)
-        self.low.setEnabled(curvature and not d.colour_range.auto)
-        self.high.setEnabled(curvature and not d.colour_range.auto)
+        valued = d.mode in VALUE_MODES
+        self.measure.setEnabled(d.mode == Mode.CURVATURE)
+        self.auto_range.setEnabled(valued)
+        self.low.setEnabled(valued and not d.colour_range.auto)
+        self.high.setEnabled(valued and not d.colour_range.auto)
         for w in (self.stripe_count, self.stripe_width, self.stripe_direction):
             w.setEnabled(d.mode in STRIPE_MODES)
 

@@ -10,7 +10,10 @@ from app.profiles import shipped_names
 from app.render.colours import VERDICT
 from app.review.result import Kind
 from app.state import Session
+from app.state.revisions import decision_mark
 from app.state.session import KIND_ORDER, VERDICT_ORDER
+
+from .dispositions import DispositionEditor
 
 ANY = "any"
 FROM_FILE = "from file…"
@@ -99,12 +102,15 @@ class FindingsPanel(QWidget):
         layout.addLayout(filters)
         layout.addWidget(self.tree, 1)
         layout.addWidget(self.summary)
+        self.decision = DispositionEditor(session)
+        layout.addWidget(self.decision)
         self.kind.currentIndexChanged.connect(self.refresh)
         self.verdict.currentIndexChanged.connect(self.refresh)
         self.tree.currentItemChanged.connect(self._current_changed)
         self.tree.itemClicked.connect(lambda item, _col: self._current_changed(item))
         session.subscribe("findings", self.refresh)
         session.subscribe("model", self.refresh)
+        session.subscribe("review", self.refresh)
         self.refresh()
 
     def _filters(self):
@@ -117,7 +123,7 @@ class FindingsPanel(QWidget):
         blocker = QSignalBlocker(self.tree)
         self.tree.clear()
         for index, finding in shown:
-            item = QTreeWidgetItem([finding.verdict, finding.title])
+            item = QTreeWidgetItem([finding.verdict, finding.title + decision_mark(self.session, finding)])
             item.setData(0, Qt.ItemDataRole.UserRole, index)
             item.setToolTip(1, finding.detail or finding.title)
             item.setForeground(0, QBrush(QColor(VERDICT.get(finding.verdict, VERDICT["note"]))))

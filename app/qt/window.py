@@ -27,6 +27,7 @@ from app.review.result import face_account_line
 from app.state import Mode, Session
 from app.state.recent import RecentFiles, default_store
 
+from . import review_actions
 from .controls import DisplayPanel, SectionPanel
 from .findings import FROM_FILE, FindingsPanel
 from .graph import CurvatureGraph
@@ -133,6 +134,10 @@ class MainWindow(QMainWindow):
         self.findings_panel = FindingsPanel(self.session)
         self.findings_panel.chosen.connect(self.session.select)
         self.findings_panel.profile.wanted.connect(self.choose_profile)
+        self.findings_panel.decision.wants_file.connect(lambda: review_actions.ask_review_file(self))
+        self.findings_panel.decision.failed.connect(
+            lambda message: QMessageBox.warning(self, "Decision not recorded", message)
+        )
         self.findings_panel.setMinimumWidth(360)
         self._dock("Findings", self.findings_panel, Qt.DockWidgetArea.RightDockWidgetArea, "findings")
         self.graph = CurvatureGraph()
@@ -153,6 +158,20 @@ class MainWindow(QMainWindow):
         self.open_action = self._action("&Open…", self.choose_file, QKeySequence.StandardKey.Open)
         menu.addAction(self.open_action)
         self.recent_menu = menu.addMenu("Open &recent")
+        menu.addSeparator()
+        self.compare_action = self._action(
+            "&Compare with…",
+            lambda: review_actions.ask_compare(self),
+            tip="deviation from an earlier revision and what changed in the findings",
+        )
+        menu.addAction(self.compare_action)
+        menu.addAction(
+            self._action(
+                "Re&view file…",
+                lambda: review_actions.ask_review_file(self),
+                tip="the file the reviewers' decisions are saved to",
+            )
+        )
         menu.addSeparator()
         self.report_action = self._action("Export &report…", self.export_report, "Ctrl+R")
         if not report_available():
@@ -521,14 +540,13 @@ class MainWindow(QMainWindow):
 
     def write_report(self, path: str) -> None:
         from app.report import render_figures, write_report
-        from app.review import review_model
         from geometry.errors import BattenError
 
         QApplication.setOverrideCursor(Qt.CursorShape.WaitCursor)
         try:
-            review = review_model(self.session.model, self.session.review_settings)
+            review, comparison = review_actions.report_inputs(self.session)
             figures = render_figures(self.session.model, review, self.session.display.stripes, self.session.section)
-            write_report(path, [review], [figures])
+            write_report(path, [review], [figures], comparison=comparison)
         except (BattenError, OSError) as exc:
             QMessageBox.critical(self, "Cannot write the report", str(exc))
         else:

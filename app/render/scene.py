@@ -12,7 +12,7 @@ import pyvista as pv
 import vtk
 
 from app.state import Camera, FindingEntry, Mode, Session
-from app.state.settings import MEASURE_UNITS, SIGNED_MEASURES, STRIPE_MODES
+from app.state.settings import MEASURE_UNITS, STRIPE_MODES, VALUE_MODES
 
 from . import colours
 from .combs import comb_envelopes, comb_teeth, marker_points, polylines, section_curves
@@ -40,6 +40,8 @@ LEGEND = dict(
 
 
 def legend_title(session: Session) -> str:
+    if session.display.mode == Mode.DEVIATION:
+        return "deviation [mm]"
     measure = session.display.measure
     return f"{measure.value} [{MEASURE_UNITS[measure]}]"
 
@@ -113,11 +115,11 @@ class Scene:
         mesh = self.surface = self.faces.mesh.copy(deep=False)
         mode = self.session.display.mode
         common = dict(name="faces", smooth_shading=True, render=False, pickable=True)
-        if mode == Mode.CURVATURE:
+        if mode in VALUE_MODES:
             values = self.faces.point_values(self.session.measure_fields())
             values[~np.isfinite(values)] = np.nan
             mesh.point_data["value"] = values
-            signed = self.session.display.measure in SIGNED_MEASURES
+            signed = self.session.signed_values
             limits = self.session.colour_limits()
             self.legend = legend_title(self.session)
             self.surface_actor = self.plotter.add_mesh(

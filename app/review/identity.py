@@ -67,7 +67,7 @@ def _face_names(review: FileReview, indices) -> tuple[str, ...]:
     return tuple(sorted({names.get(int(i), f"face {int(i)}") for i in indices}))
 
 
-def _midpoint(points: np.ndarray) -> tuple[float, float, float] | None:
+def midpoint(points: np.ndarray) -> tuple[float, float, float] | None:
     """The point half-way along a polyline (by arc length)."""
     pts = np.asarray(points, float).reshape(-1, 3)
     if not len(pts):
@@ -80,7 +80,7 @@ def _midpoint(points: np.ndarray) -> tuple[float, float, float] | None:
 def _seam_anchor(review: FileReview, seam_id: int) -> tuple[float, float, float] | None:
     lines = [line for line in review.lines if getattr(line, "kind", "") == "seam"]
     if 0 <= seam_id < len(lines):
-        return _midpoint(lines[seam_id].points)
+        return midpoint(lines[seam_id].points)
     worst = review.seams[seam_id].get("worst_position") if 0 <= seam_id < len(review.seams) else None
     return None if worst is None else tuple(float(x) for x in worst)
 

@@ -19,6 +19,7 @@ TOPICS = (
     "profile",
     "curve",
     "tooling",
+    "review",
 )
 
 

@@ -26,6 +26,7 @@ from .loading import Progress, prepare, with_seams_judged
 from .recent import RecentFiles
 from .results import FaceSamples, FindingEntry, Loaded, measure_values
 from .review_findings import curvature_extremes, curve_label, face_label, judged_findings, section_notes
+from .revisions import ReviewLoop, review_path_for
 from .sectioning import comb_scale, combs_for, sections_for
 from .settings import SIGNED_MEASURES, ColourRange, DisplaySettings, Mode, SectionSettings
 from .stripes import Camera, stripe_parameters
@@ -81,6 +82,7 @@ class Session:
         self.camera: Camera | None = None
         self.recent = recent or RecentFiles(None)
         self._face_extremes: list[FindingEntry] = []
+        self.review = ReviewLoop()  # review file and comparison with an earlier revision
 
     # -- what is loaded --------------------------------------------------
     @property
@@ -124,8 +126,23 @@ class Session:
         if path is not None:
             self.recent.add(path)
         self._recompute_tooling()
+        self._adopt_review_file(path)
         self._recompute_sections()
-        self.events.emit("model", "section", "sections", "findings", "selection", "recent")
+        self.events.emit("model", "section", "sections", "findings", "selection", "recent", "review")
+
+    def _adopt_review_file(self, path: str | None) -> None:
+        """A new model: no comparison; its review file (beside it) when there is a readable one."""
+        from geometry.errors import BattenError
+
+        reviewer = self.review.reviewer
+        self.review.forget_model()
+        self.review.reviewer = reviewer
+        if path is not None:
+            try:
+                self.review.open(review_path_for(path))
+            except BattenError:
+                self.review.forget_model()  # a damaged file is not overwritten: the user picks one
+                self.review.reviewer = reviewer
 
     def adopt_seams(self, loaded: Loaded) -> None:
         """The seam analysis of the current model finished (measured after it was shown)."""
@@ -245,14 +262,27 @@ class Session:
         self.events.emit("display")
 
     def measure_fields(self) -> list[np.ndarray]:
-        """The current measure on each face's grid, shape (a, b) each."""
+        """The current measure on each face's grid, shape (a, b) each (deviation in mm in that mode)."""
+        if self.display.mode == Mode.DEVIATION:
+            deviation = self.review.deviation
+            if deviation is None or len(deviation.fields) != len(self.samples):
+                return [np.full(s.inside.shape, np.nan) for s in self.samples]
+            return list(deviation.fields)
         return [measure_values(s.field, self.display.measure) for s in self.samples]
+
+    @property
+    def signed_values(self) -> bool:
+        """The values shown are signed (colour map centred on 0)."""
+        return self.display.mode == Mode.DEVIATION or self.display.measure in SIGNED_MEASURES
 
     def colour_limits(self) -> tuple[float, float]:
         """Colour-map range: the user's, or robust percentiles (symmetric about 0 for signed measures)."""
         rng = self.display.colour_range
         if not rng.auto:
             return rng.low, rng.high
+        if self.display.mode == Mode.DEVIATION:
+            reach = self.review.deviation.reach if self.review.deviation is not None else 1.0
+            return -reach, reach
         values = [f[s.inside] for f, s in zip(self.measure_fields(), self.samples, strict=True)]
         values = np.concatenate(values) if values else np.zeros(0)
         values = values[np.isfinite(values)]

@@ -22,6 +22,7 @@ class Mode(StrEnum):
     HIGHLIGHT = "highlight lines"
     ISOPHOTE = "isophotes"
     DRAFT = "draft"
+    DEVIATION = "deviation"
 
 
 STRIPE_MODES = (Mode.REFLECTION, Mode.HIGHLIGHT, Mode.ISOPHOTE)
@@ -38,6 +39,8 @@ class Measure(StrEnum):
     MIN_RADIUS = "minimum radius"
 
 
+# Modes whose faces carry a colour-mapped value.
+VALUE_MODES = (Mode.CURVATURE, Mode.DEVIATION)
 # Signed measures get a colour map centred on zero.
 SIGNED_MEASURES = (Measure.GAUSSIAN, Measure.MEAN, Measure.K1, Measure.K2)
 MEASURE_UNITS = {
