@@ -17,14 +17,17 @@ import numpy as np
 
 from .model import Face, Model
 from .probe import closest_parameters
-from .sampling import model_grids
+from .sampling import face_grid, model_grids
 
 # Samples of the reference model seeding the inversion (spread by the trim-aware sampler).
 SEED_BUDGET = 40_000
 # Samples of the measured model over which deviation is reported.
 DEVIATION_BUDGET = 40_000
 # Nearest seeds looked at per point: feet on other faces are tried near face boundaries.
-CANDIDATES = 4
+CANDIDATES = 8
+# Seeds on a face at least (inside its trim): the shared sampler gives a small flat face few,
+# and a face with too few seeds is crowded out of the nearest candidates by a denser neighbour.
+MIN_FACE_SEEDS = 400
 # Parts each trim-polyline segment is cut into when a foot falls outside its trim.
 TRIM_SUBDIVISION = 16
 # Zoom rounds along the trim around the nearest node: each narrows the step by TRIM_SUBDIVISION / 2.
@@ -70,6 +73,8 @@ class ReferenceModel:
         pts, owner, uv, patch = [], [], [], []
         first_patch = 0
         for index, (face, grid) in enumerate(zip(model.faces, model_grids(model, budget), strict=True)):
+            if grid.count < MIN_FACE_SEEDS:
+                grid = face_grid(face, 4 * MIN_FACE_SEEDS)
             uu, vv = np.meshgrid(grid.u, grid.v, indexing="ij")
             keep = grid.inside
             breaks_u, breaks_v = np.unique(face.surface.knots_u), np.unique(face.surface.knots_v)

@@ -7,6 +7,8 @@
   done here by geomdl, so the deviation must vanish to rounding.
 """
 
+from pathlib import Path
+
 import numpy as np
 import pytest
 from geomdl import operations
@@ -73,3 +75,19 @@ def test_points_off_a_trimmed_face_measure_to_its_trim():
     np.testing.assert_allclose(np.abs(feet.signed), [20.0, 3.0], atol=1e-6)
     # The foot along the edge is found to the zoom's last step (2.5 mm / 8^6), its distance far better.
     np.testing.assert_allclose(feet.points[0], [40.0, 10.0, 0.0], atol=1e-4)
+
+
+CORPUS = Path(__file__).resolve().parents[2] / "shared" / "corpus"
+SELF_DEVIATION_MM = 1e-5  # a real model against itself: Newton converges to the sample itself
+
+
+@pytest.mark.slow
+@pytest.mark.skipif(not (CORPUS / "example-45-faces.iges").is_file(), reason="the shared corpus is not here")
+def test_a_real_model_deviates_from_itself_by_nothing():
+    # 45 trimmed faces written by another CAD system, small flat faces beside dense curved ones: every
+    # sample must find its own face among the candidates, not only the denser neighbour's.
+    from geometry.io import read_model
+
+    model = read_model(str(CORPUS / "example-45-faces.iges"))
+    dev, _ = model_deviation(model, model, 20_000)
+    assert dev.max_mm < SELF_DEVIATION_MM
