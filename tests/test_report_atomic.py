@@ -79,7 +79,7 @@ def test_a_report_that_fails_half_way_leaves_nothing(tmp_path, monkeypatch):
     from app.report import write_report
     from app.review.result import FileReview
 
-    def crash(target, reviews, figures, created):
+    def crash(target, reviews, figures, created, comparison=None):
         with open(target, "wb") as fh:
             fh.write(b"%PDF-1.4 first page only")
         raise OSError(5, "Input/output error")
