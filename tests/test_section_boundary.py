@@ -88,7 +88,10 @@ def test_steamer_section_on_the_grip_head_seam_is_one_clean_loop(steamer, side):
     assert len(names) == 1 and len(np.unique(curve.faces)) == 4  # one ring of four faces: no twin pieces
     assert len(curve.inflections) == 0
     assert np.all(curve.curvature < 0)  # G2 seams, convex section, outward normals: bends away all round
-    assert np.all(np.diff(curve.arc_length) > 0)
+    # where two faces' pieces join, each keeps its own sample of the seam point (a seam's
+    # features need both sides), so a zero step is allowed there and nowhere else
+    joins = np.diff(curve.pieces) != 0
+    assert np.all(np.diff(curve.arc_length)[~joins] > 0)
     for piece in np.unique(curve.pieces):
         assert np.ptp(curve.arc_length[curve.pieces == piece]) > steamer.spacing  # no zero-length pieces
     # the curve is the limit of the sections a hair to either side (each cuts one ring of faces only)
