@@ -433,13 +433,6 @@ class SectionEngine(IsoCurves):
         closed = chain[1]
         curve = {k: np.concatenate([g[k] for g, _ in parts]) for k in parts[0][0]}
         curve["pieces"] = np.concatenate([np.full(g["points"].shape[0], i) for i, (g, _) in enumerate(parts)])
-        # Where two pieces meet, both may hold the shared end point: keep it once.
-        starts = np.cumsum([g["points"].shape[0] for g, _ in parts])[:-1]
-        repeat = np.zeros(curve["points"].shape[0], dtype=bool)
-        steps = np.linalg.norm(curve["points"][starts] - curve["points"][starts - 1], axis=1)
-        repeat[starts] = steps <= SAME_POINT * self.size
-        if repeat.any():
-            curve = {k: v[~repeat] for k, v in curve.items()}
         curve["spans"] = _relabel(curve["pieces"], curve["spans"])
         e1, e2 = in_plane_axes(normal)
         pts = curve["points"]
