@@ -88,6 +88,6 @@ def read_geomdl_json(path: str, data: bytes) -> ShapeContents:
             out.skipped.append(SkippedFace(i + 1, "", str(exc)))
             continue
         if isinstance(entry, dict) and entry.get("trims"):
-            out.warnings.append(f"surface {i + 1}: trim curves of JSON surface files are not read; the face is shown whole")
+            out.warnings.append(f"surface {i + 1}: trim curves of JSON surface files are not read; shown whole")
         out.faces.append(Face(surface, reversed=reversed_, name=name, body="geomdl"))
     return out
