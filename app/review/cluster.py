@@ -72,7 +72,7 @@ def run_on_cluster(address: str, work: list[tuple[int, str]], task: Task) -> Ite
         before = client.run_on_scheduler(_allowed_failures, ATTEMPTS - 1)
         try:
             futures = {client.submit(task, path, key=f"batten-check-{run}-{i}", pure=False): i for i, path in work}
-            for future in as_completed(futures):
+            for future in as_completed(futures, loop=client.loop):
                 try:
                     outcome = future.result()
                 except KilledWorker:
