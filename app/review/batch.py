@@ -169,11 +169,12 @@ def json_text(reviews: list[FileReview], created: str) -> str:
     return json.dumps(_json_ready(check_document(reviews, created, __version__)), indent=1, allow_nan=False) + "\n"
 
 
-def _cache_keys(files: list[str], options: BatchOptions, profile_values: dict) -> list[str | None]:
+def _cache_keys(files: list[str], options: BatchOptions, profile_values: dict) -> list[tuple[str, str] | None]:
+    """``(content hash, cache key)`` of each file, None for a file that cannot be opened."""
     keys = []
     for path in files:
         digest = file_sha256(path) if os.path.isfile(path) else None
-        keys.append(None if digest is None else cache_key(digest, options.settings, profile_values))
+        keys.append(None if digest is None else (digest, cache_key(digest, options.settings, profile_values)))
     return keys
 
 
@@ -186,7 +187,7 @@ def _check_all(files: list[str], options: BatchOptions, profile_values: dict, wr
     keys = _cache_keys(files, options, profile_values) if cache else [None] * len(files)
     try:
         for index, key in enumerate(keys):
-            hit = cache.load(key, files[index], pictures) if key else None
+            hit = cache.load(key[1], files[index], pictures) if key else None
             if hit is not None:
                 outcomes[index] = (hit.review, hit.figures)
                 runs[index] = SuiteRun(0.0, cached=True)
@@ -194,15 +195,17 @@ def _check_all(files: list[str], options: BatchOptions, profile_values: dict, wr
         work = [(i, f) for i, f in enumerate(files) if outcomes[i] is None]
         # On a cluster the stage lines would land in the workers' logs; under a bar they would break it.
         task = partial(timed_check, settings=options.settings, pictures=pictures, progress=progress.stage_lines)
-        if options.cluster:
+        if not work:
+            done = []
+        elif options.cluster:
             done = _cluster_run(options.cluster, work, partial(task, progress=False))
         else:
             done = _local_run(work, task, options.jobs)
         for index, (review, figures, seconds) in done:
             outcomes[index] = (review, figures)
             runs[index] = SuiteRun(seconds)
-            if keys[index]:
-                cache.store(keys[index], review, figures)
+            if keys[index] and review.sha256 == keys[index][0]:  # not a file rewritten while it was checked
+                cache.store(keys[index][1], review, figures)
             progress.file_done(files[index], review.verdict)
     finally:
         progress.close()

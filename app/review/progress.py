@@ -7,6 +7,7 @@ files and names the last one done.
 
 from __future__ import annotations
 
+import shutil
 import sys
 from pathlib import Path
 
@@ -38,7 +39,16 @@ class Progress:
         if enabled and sys.stderr.isatty():
             from tqdm import tqdm
 
-            self._bar = tqdm(total=total, unit="file", desc="batten check", file=sys.stderr, dynamic_ncols=True)
+            # a terminal that reports no size (some pseudo-terminals say 0 columns) still gets a bar
+            size = shutil.get_terminal_size((80, 24))
+            self._bar = tqdm(
+                total=total,
+                unit="file",
+                desc="batten check",
+                file=sys.stderr,
+                ncols=size.columns or 80,
+                nrows=size.lines or 24,
+            )
 
     @property
     def stage_lines(self) -> bool:
