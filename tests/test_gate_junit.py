@@ -41,3 +41,17 @@ def test_junit_validates_and_counts_the_same_failures_as_the_json(tmp_path):
             assert "over the limit" in failure.get("message")
     assert sum(int(s.get("failures")) for s in suites) > 0
     assert suites[1].find("testcase/error").get("type") == "unreadable"
+
+
+def test_names_and_messages_xml_cannot_carry_still_give_a_valid_file():
+    from datetime import datetime
+
+    from app.review.junit import SuiteRun, junit_text
+    from app.review.result import FileReview
+
+    review = FileReview(source="vault/pa\udcffnel\x01.stp", status="unreadable", error="bad byte \x00 at 12")
+    text = junit_text([review], [SuiteRun(cached=False)], datetime(2026, 1, 2, 3, 4, 5), "0.0")
+    xmlschema.XMLSchema(SCHEMA).validate(text)
+    suite = ET.fromstring(text).find("testsuite")
+    assert suite.get("name") == "vault/pa\ufffdnel\ufffd.stp" and suite.get("timestamp") == "2026-01-02T03:04:05"
+    assert suite.find("testcase/error").text == "bad byte \ufffd at 12"

@@ -10,6 +10,7 @@ case. The layout follows the common JUnit schema of Apache Ant's JUnit task
 
 from __future__ import annotations
 
+import re
 import socket
 import xml.etree.ElementTree as ET
 from dataclasses import dataclass
@@ -24,6 +25,18 @@ class SuiteRun:
 
     seconds: float = 0.0
     cached: bool = False
+
+
+# Characters XML 1.0 cannot carry (control characters, lone surrogates from undecodable file names).
+_NOT_XML = re.compile("[\x00-\x08\x0b\x0c\x0e-\x1f\ud800-\udfff\ufffe\uffff]")
+
+
+def _clean(root: ET.Element) -> None:
+    """Replace characters XML cannot hold by U+FFFD in every attribute and text, in place."""
+    for element in root.iter():
+        element.attrib.update({k: _NOT_XML.sub("\ufffd", v) for k, v in element.attrib.items()})
+        if element.text:
+            element.text = _NOT_XML.sub("\ufffd", element.text)
 
 
 def _number(value: float | None) -> str:
@@ -100,5 +113,6 @@ def junit_text(reviews: list[FileReview], runs: list[SuiteRun], when: datetime, 
     host = socket.gethostname() or "localhost"
     for index, (review, run) in enumerate(zip(reviews, runs, strict=True)):
         root.append(_suite(index, review, run, stamp, host, version))
+    _clean(root)
     ET.indent(root)
     return ET.tostring(root, encoding="unicode", xml_declaration=True) + "\n"
