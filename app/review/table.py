@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from .result import ERROR, FAIL, PASS, UNREADABLE, FileReview
+from .result import ERROR, FAIL, PASS, UNREADABLE, FileReview, face_account_line
 
 ORDER = (UNREADABLE, ERROR, FAIL, PASS)
 
@@ -10,6 +10,8 @@ ORDER = (UNREADABLE, ERROR, FAIL, PASS)
 def _detail(review: FileReview, cached: bool) -> str:
     if review.verdict in (PASS, FAIL):
         text = f"{len(review.failures)} over tolerance, {len(review.findings)} measured"
+        if review.face_account:
+            text += f"; {face_account_line(review.face_account)}"
     else:
         text = review.error or ""
     return f"{text}; from cache" if cached else text
