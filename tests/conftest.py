@@ -32,3 +32,9 @@ def samples_dir() -> Path:
 def sample_model():
     """``sample_model("toaster_panel.stp")``: a bundled sample read once per test run (models are immutable)."""
     return _read_sample
+
+
+@pytest.fixture(autouse=True)
+def _private_cache_dir(tmp_path_factory, monkeypatch):
+    # `batten check` caches results in the user's cache folder by default: keep tests out of the real one.
+    monkeypatch.setenv("XDG_CACHE_HOME", str(tmp_path_factory.mktemp("xdg-cache")))

@@ -41,8 +41,14 @@ def test_read_error_in_one_of_several_files_exits_2_and_reports_the_others(tmp_p
     assert entries[1]["sha256"] is not None and entries[3]["sha256"] is None
     assert "no such file" in entries[3]["error"]
     assert entries[1]["error"]
-    lines = captured.out.strip().splitlines()
-    assert [line.split()[0] for line in lines] == ["FAIL", "UNREADABLE", "PASS", "UNREADABLE"]
+    *lines, total = captured.out.strip().splitlines()  # files by verdict, worst first, then the totals
+    assert [line.split()[:2] for line in lines] == [
+        ["UNREADABLE", str(garbage)],
+        ["UNREADABLE", str(missing)],
+        ["FAIL", str(FAILING)],
+        ["PASS", str(CLEAN)],
+    ]
+    assert total == "4 files: 2 unreadable, 1 fail, 1 pass"
     assert "Traceback" not in captured.err
 
 

@@ -1,10 +1,11 @@
-"""``batten check``: every fairness check on one or more files, for release pipelines.
+"""``batten check``: every fairness check on files, folders or patterns, for release pipelines.
 
 Exit status: 0 when every file passes, 1 when any finding is over tolerance,
 2 when an input cannot be read (the other files are still checked and
-reported), 3 for an internal error. With several files, ``--json`` and
-``--report`` each write ONE document that covers every file, in the order
-given on the command line.
+reported), 3 for an internal error. ``--json``, ``--junit`` and ``--report``
+each write ONE document that covers every file, in the order found. Results of
+unchanged files come from a cache; ``--cluster`` spreads the files over a Dask
+scheduler's workers.
 """
 
 from __future__ import annotations
@@ -27,11 +28,25 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
 
     parser.epilog = (
         "Exit status: 0 every file passes; 1 a finding is over tolerance; 2 an input cannot be read (the other "
-        "files are still checked and reported) or an option is wrong; 3 internal error. With several files, "
-        "--json and --report each write one document covering every file, in the order given. The report is "
+        "files are still checked and reported; on a cluster, also a file that took down two workers) or an "
+        "option is wrong; 3 internal error. --json, --junit and --report each write one document covering "
+        "every file, in the order found. The report is "
         "a review aid: your organisation's surface quality standard and tolerances decide."
     )
-    parser.add_argument("files", nargs="+", metavar="FILE", help="STEP, IGES or JSON surface models")
+    parser.add_argument(
+        "files",
+        nargs="+",
+        metavar="PATH",
+        help="models (STEP, IGES or JSON surface files), folders (searched recursively for STEP and IGES files) or "
+        "glob patterns ('vault/**/*.stp'; quote them)",
+    )
+    parser.add_argument(
+        "--exclude",
+        action="append",
+        default=[],
+        metavar="PATTERN",
+        help="leave out files whose path, name or one of whose folders matches PATTERN (repeatable)",
+    )
     parser.add_argument(
         "--profile",
         metavar="NAME|PATH",
@@ -44,6 +59,25 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
         help="write one review report (PDF or self-contained HTML) covering every file",
     )
     parser.add_argument("--json", metavar="OUT.json", help="write the results of every file as one JSON document")
+    parser.add_argument(
+        "--junit",
+        metavar="OUT.xml",
+        help="write JUnit XML for CI servers: a test suite per file, a test case per check",
+    )
+    cache = parser.add_mutually_exclusive_group()
+    cache.add_argument(
+        "--cache",
+        metavar="DIR",
+        help="folder of cached results: unchanged files with unchanged settings are not checked again "
+        "(default: Batten's folder in your user cache directory)",
+    )
+    cache.add_argument("--no-cache", action="store_true", help="check every file, read and write no cached result")
+    parser.add_argument(
+        "--cluster",
+        metavar="ADDRESS",
+        help="check the files on a Dask distributed scheduler's workers (tcp://host:8786); needs "
+        "'pip install batten[cluster]' and workers that can read the files under the same paths",
+    )
     parser.add_argument(
         "--jobs",
         type=int,
@@ -67,6 +101,7 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
 
 def run(args: argparse.Namespace) -> int:
     from app.review.batch import BatchOptions, run_batch
+    from app.review.cache import default_cache_dir
     from app.review.runner import ReviewSettings
     from geometry.tooling import unit_pull
 
@@ -86,8 +121,12 @@ def run(args: argparse.Namespace) -> int:
         ),
         report=args.report,
         json=args.json,
+        junit=args.junit,
         jobs=args.jobs,
         progress=not args.quiet,
+        exclude=tuple(args.exclude),
+        cache=None if args.no_cache else str(args.cache or default_cache_dir()),
+        cluster=args.cluster,
     )
     return exit_status(run_batch(options))
 

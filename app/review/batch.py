@@ -1,8 +1,9 @@
-"""Check several files, in parallel processes, and write one JSON and one report for all.
+"""Check many files (in local processes or on a Dask cluster) and write one JSON, JUnit and report for all.
 
-Models are read inside the worker processes (the kernel's objects do not
-pickle); what comes back is the plain :class:`FileReview` and the PNG bytes of
-its pictures. Progress goes to stderr, one line per stage.
+Models are read where they are checked (the kernel's objects do not pickle);
+what comes back is the plain :class:`FileReview` and the PNG bytes of its
+pictures. Results of unchanged files come from the cache (:mod:`.cache`).
+Progress goes to stderr (:mod:`.progress`); the final table to stdout.
 """
 
 from __future__ import annotations
@@ -11,37 +12,47 @@ import json
 import math
 import multiprocessing
 import os
-import sys
+import time
+from collections.abc import Callable, Iterable
 from concurrent.futures import ProcessPoolExecutor, as_completed
 from concurrent.futures.process import BrokenProcessPool
 from dataclasses import dataclass, replace
+from datetime import UTC, datetime
+from functools import partial
 from pathlib import Path
 
 from geometry import __version__
 from geometry.errors import BattenError
 
-from .result import ACCEPTED, ERROR, FAIL, PASS, UNREADABLE, FileReview, check_document, face_account_line
+from .cache import ResultCache, cache_key
+from .discover import discover
+from .junit import SuiteRun, junit_text
+from .progress import Progress, say, silent
+from .result import ERROR, UNREADABLE, FileReview, check_document
 from .runner import ReviewSettings, file_sha256, review_file
+from .table import verdict_table
 
-OUTPUT_SUFFIXES = {"report": (".pdf", ".html", ".htm"), "json": (".json",)}
+OUTPUT_SUFFIXES = {"report": (".pdf", ".html", ".htm"), "json": (".json",), "junit": (".xml",)}
 
 
 @dataclass(frozen=True)
 class BatchOptions:
+    """A check run. ``files`` are files, folders or glob patterns (see :func:`.discover.discover`);
+    ``cache`` is the cache folder, None for no cache; ``cluster`` a Dask scheduler address."""
+
     files: tuple[str, ...]
     settings: ReviewSettings = ReviewSettings()
     report: str | None = None
     json: str | None = None
+    junit: str | None = None
     jobs: int = 0
     progress: bool = True
+    exclude: tuple[str, ...] = ()
+    cache: str | None = None
+    cluster: str | None = None
 
 
-def _say(line: str) -> None:
-    print(f"batten check: {line}", file=sys.stderr, flush=True)
-
-
-def _silent(_: str) -> None:
-    pass
+Outcome = tuple[FileReview, tuple, float]  # review, figures, seconds spent
 
 
 def check_one(path: str, settings: ReviewSettings, pictures: bool, progress: bool):
@@ -52,16 +63,16 @@ def check_one(path: str, settings: ReviewSettings, pictures: bool, progress: boo
     review : FileReview
     figures : tuple of Figure
     """
-    say = _say if progress else _silent
+    say_stage = say if progress else silent
     try:
-        review, model = review_file(path, settings, say)
+        review, model = review_file(path, settings, say_stage)
     except BattenError as exc:  # settings were checked before the run: this is about the file's content
         return FileReview(source=path, status=UNREADABLE, error=str(exc), sha256=file_sha256(path)), ()
     except Exception as exc:  # a bug of ours on this file: report it, keep the others
         return FileReview(source=path, status=ERROR, error=f"internal error ({type(exc).__name__}: {exc})"), ()
     figures = ()
     if pictures and model is not None:
-        say(f"{Path(path).name}: pictures")
+        say_stage(f"{Path(path).name}: pictures")
         try:
             from app.report.figures import render_figures
 
@@ -72,8 +83,15 @@ def check_one(path: str, settings: ReviewSettings, pictures: bool, progress: boo
     return review, figures
 
 
+def timed_check(path: str, settings: ReviewSettings, pictures: bool, progress: bool) -> Outcome:
+    """:func:`check_one` and the seconds it took (runs in a worker process or on a cluster worker)."""
+    start = time.perf_counter()
+    review, figures = check_one(path, settings, pictures, progress)
+    return review, figures, time.perf_counter() - start
+
+
 def _check_outputs(options: BatchOptions) -> None:
-    for kind in ("report", "json"):
+    for kind in OUTPUT_SUFFIXES:
         target = getattr(options, kind)
         if target is None:
             continue
@@ -84,52 +102,54 @@ def _check_outputs(options: BatchOptions) -> None:
             raise BattenError(f"{target}: folder {folder} does not exist")
 
 
-def _workers(options: BatchOptions) -> int:
-    wanted = options.jobs if options.jobs > 0 else (os.cpu_count() or 1)
-    return max(1, min(wanted, len(options.files)))
+def _crashed(path: str, reason: str) -> Outcome:
+    return FileReview(source=path, status=UNREADABLE, error=reason, sha256=file_sha256(path)), (), 0.0
 
 
-def _crashed(path: str) -> FileReview:
-    reason = "the process checking this file stopped abruptly (damaged content, or a failure in a native library)"
-    return FileReview(source=path, status=UNREADABLE, error=reason, sha256=file_sha256(path))
+CRASHED = "the process checking this file stopped abruptly (damaged content, or a failure in a native library)"
 
 
-def _pool_run(files: list[str], options: BatchOptions, workers: int, pictures: bool, done: list[int]) -> dict:
-    """Results by file index; files whose worker died are left out."""
-    out: dict[int, tuple] = {}
+def _pool_run(work: list[tuple[int, str]], task: Callable[[str], Outcome], workers: int) -> Iterable:
+    """Yield ``(index, outcome)`` as files finish; files whose worker died are left out."""
     # spawn: a clean interpreter per worker, no inherited threads or GUI state. Each worker reads through its
     # own kernel helper process (geometry.io.isolation), so a kernel crash marks only that file unreadable;
     # the helper stops when its worker exits.
     context = multiprocessing.get_context("spawn")
     with ProcessPoolExecutor(workers, mp_context=context) as pool:
-        futures = {
-            pool.submit(check_one, f, options.settings, pictures, options.progress): i for i, f in enumerate(files)
-        }
+        futures = {pool.submit(task, path): index for index, path in work}
         for future in as_completed(futures):
-            index = futures[future]
             try:
-                out[index] = future.result()
+                yield futures[future], future.result()
             except BrokenProcessPool:
                 continue
-            done[0] += 1
-            if options.progress:
-                _say(f"[{done[0]}/{done[1]}] {Path(files[index]).name}: {out[index][0].verdict}")
-    return out
 
 
-def _run_all(options: BatchOptions) -> list[tuple[FileReview, tuple]]:
-    pictures = options.report is not None
-    files = list(options.files)
-    workers = _workers(options)
+def _local_run(work: list[tuple[int, str]], task: Callable[[str], Outcome], jobs: int) -> Iterable:
+    workers = max(1, min(jobs if jobs > 0 else (os.cpu_count() or 1), len(work)))
     if workers == 1:
-        return [check_one(f, options.settings, pictures, options.progress) for f in files]
-    done = [0, len(files)]
-    results = _pool_run(files, options, workers, pictures, done)
+        yield from ((index, task(path)) for index, path in work)
+        return
+    finished = set()
+    for index, outcome in _pool_run(work, task, workers):
+        finished.add(index)
+        yield index, outcome
     # A worker that dies takes the pool with it: check the files it left one by one, so only the culprit is lost.
-    for index in [i for i in range(len(files)) if i not in results]:
-        again = _pool_run([files[index]], options, 1, pictures, done)
-        results[index] = again.get(0) or (_crashed(files[index]), ())
-    return [results[i] for i in range(len(files))]
+    for index, path in [(i, p) for i, p in work if i not in finished]:
+        again = dict(_pool_run([(index, path)], task, 1))
+        yield index, again.get(index) or _crashed(path, CRASHED)
+
+
+def _cluster_run(address: str, work: list[tuple[int, str]], task: Callable[[str], Outcome]) -> Iterable:
+    from .cluster import WorkersKilled, run_on_cluster
+
+    paths = dict(work)
+    for index, outcome in run_on_cluster(address, work, task):
+        if isinstance(outcome, WorkersKilled):
+            outcome = _crashed(paths[index], f"{CRASHED}; it took down the cluster worker checking it twice")
+        elif isinstance(outcome, Exception):
+            error = f"the cluster could not check it ({type(outcome).__name__}: {outcome})"
+            outcome = FileReview(source=paths[index], status=ERROR, error=error), (), 0.0
+        yield index, outcome
 
 
 def json_ready(value):
@@ -149,36 +169,62 @@ def json_text(reviews: list[FileReview], created: str) -> str:
     return json.dumps(json_ready(check_document(reviews, created, __version__)), indent=1, allow_nan=False) + "\n"
 
 
-def _print_summary(reviews: list[FileReview]) -> None:
-    for r in reviews:
-        if r.verdict in (PASS, FAIL):
-            detail = (
-                f"{len(r.failures)} over tolerance, {len(r.findings)} measured; {face_account_line(r.face_account)}"
-            )
-            accepted = sum(f.verdict == ACCEPTED for f in r.findings)
-            detail += f", {accepted} accepted by reviewers" if r.review_file is not None else ""
+def _cache_keys(files: list[str], options: BatchOptions, profile_values: dict) -> list[tuple[str, str] | None]:
+    """``(content hash, cache key)`` of each file, None for a file that cannot be opened."""
+    keys = []
+    for path in files:
+        digest = file_sha256(path) if os.path.isfile(path) else None
+        keys.append(None if digest is None else (digest, cache_key(digest, options.settings, profile_values)))
+    return keys
+
+
+def _check_all(files: list[str], options: BatchOptions, profile_values: dict, write) -> tuple[list, list[SuiteRun]]:
+    pictures = options.report is not None
+    outcomes: list = [None] * len(files)
+    runs = [SuiteRun()] * len(files)
+    progress = Progress(len(files), options.progress)
+    cache = ResultCache(options.cache, write) if options.cache else None
+    keys = _cache_keys(files, options, profile_values) if cache else [None] * len(files)
+    try:
+        for index, key in enumerate(keys):
+            hit = cache.load(key[1], files[index], pictures) if key else None
+            if hit is not None:
+                outcomes[index] = (hit.review, hit.figures)
+                runs[index] = SuiteRun(0.0, cached=True)
+                progress.file_done(files[index], hit.review.verdict, cached=True)
+        work = [(i, f) for i, f in enumerate(files) if outcomes[i] is None]
+        # On a cluster the stage lines would land in the workers' logs; under a bar they would break it.
+        task = partial(timed_check, settings=options.settings, pictures=pictures, progress=progress.stage_lines)
+        if not work:
+            done = []
+        elif options.cluster:
+            done = _cluster_run(options.cluster, work, partial(task, progress=False))
         else:
-            detail = r.error or ""
-        print(f"{r.verdict.upper():10s} {r.source}  ({detail})")
-        for outcome in r.dispositions:
-            if outcome.status != "applied":
-                d = outcome.disposition
-                print(f"  {outcome.status}: {d.key.label} ({d.decision} by {d.reviewer}, {d.date}): {outcome.note}")
+            done = _local_run(work, task, options.jobs)
+        for index, (review, figures, seconds) in done:
+            outcomes[index] = (review, figures)
+            runs[index] = SuiteRun(seconds)
+            if keys[index] and review.sha256 == keys[index][0]:  # not a file rewritten while it was checked
+                cache.store(keys[index][1], review, figures)
+            progress.file_done(files[index], review.verdict)
+    finally:
+        progress.close()
+    return outcomes, runs
 
 
 def run_batch(options: BatchOptions) -> list[str]:
-    """Check every file, print one line per file on stdout, write the outputs.
+    """Check every file, print a table of files by verdict on stdout, write the outputs.
 
     Returns
     -------
     list of str
-        The verdict of each file, in the order given.
+        The verdict of each file, in the order found.
 
     Raises
     ------
     BattenError
-        Settings or output paths that are wrong for every file alike (checked
-        before any work starts).
+        Settings, inputs or output paths that are wrong for every file alike
+        (checked before any work starts).
     """
     from app.profiles import get_profile
     from app.report.atomic import write_atomically
@@ -188,22 +234,25 @@ def run_batch(options: BatchOptions) -> list[str]:
 
     _check_outputs(options)
     parse_spec(options.settings.sections)
-    get_profile(options.settings.profile)
-    options.settings.review()
-    results = _run_all(options)
-    reviews = [r for r, _ in results]
+    profile = get_profile(options.settings.profile)
+    options.settings.review()  # a bad review file stops the run before any work, naming its line
+    files = discover(options.files, options.exclude)
+    started = datetime.now(UTC)
+    outcomes, runs = _check_all(files, options, json_ready(profile.values), write_atomically)
+    reviews = [r for r, _ in outcomes]
     created = now_stamp()
+    say_done = say if options.progress else silent
     if options.json:
         write_atomically(options.json, json_text(reviews, created))
-        if options.progress:
-            _say(f"wrote {options.json}")
+        say_done(f"wrote {options.json}")
+    if options.junit:
+        write_atomically(options.junit, junit_text(reviews, runs, started, __version__))
+        say_done(f"wrote {options.junit}")
     if options.report:
         from app.report.writers import write_report
 
-        if options.progress:
-            _say(f"writing {options.report}")
-        write_report(options.report, reviews, [f for _, f in results], created)
-        if options.progress:
-            _say(f"wrote {options.report}")
-    _print_summary(reviews)
+        say_done(f"writing {options.report}")
+        write_report(options.report, reviews, [f for _, f in outcomes], created)
+        say_done(f"wrote {options.report}")
+    print(verdict_table(reviews, [r.cached for r in runs]), end="")
     return [r.verdict for r in reviews]
