@@ -57,13 +57,23 @@ def test_empty_file(tmp_path, content):
 def test_png_renamed_step(tmp_path):
     path = tmp_path / "picture.step"
     path.write_bytes(_png_bytes())
-    assert "not a STEP, IGES or geomdl JSON file" in _reason(path)
+    assert "not a STEP, IGES or JSON surface file" in _reason(path)
 
 
 def test_text_that_is_no_step(tmp_path):
     path = tmp_path / "notes.stp"
     path.write_text("these are not the surfaces you are looking for\n")
     assert "STEP" in _reason(path)
+
+
+@pytest.mark.parametrize(("name", "expected"), [("tiny.igs", "not an IGES file"), ("tiny.step", "not a STEP file")])
+def test_short_text_named_as_a_model(tmp_path, name, expected):
+    # A few bytes of text with a model's extension: the cause is the format, not a missing surface.
+    path = tmp_path / name
+    path.write_bytes(b"hello\n")
+    reason = _reason(path)
+    assert expected in reason
+    assert "geomdl" not in reason
 
 
 @pytest.mark.parametrize(("writer", "ext"), [(write_step, "step"), (write_iges, "igs")])

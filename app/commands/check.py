@@ -31,7 +31,7 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
         "--json and --report each write one document covering every file, in the order given. The report is "
         "a review aid: your organisation's surface quality standard and tolerances decide."
     )
-    parser.add_argument("files", nargs="+", metavar="FILE", help="STEP, IGES or geomdl JSON models")
+    parser.add_argument("files", nargs="+", metavar="FILE", help="STEP, IGES or JSON surface models")
     parser.add_argument(
         "--profile",
         metavar="NAME|PATH",

@@ -9,7 +9,7 @@ from geometry.errors import BattenError
 
 
 def add_arguments(parser) -> None:
-    parser.add_argument("file", nargs="?", help="STEP, IGES or geomdl JSON model to open")
+    parser.add_argument("file", nargs="?", help="STEP, IGES or JSON surface model to open")
 
 
 def has_display(environ=os.environ, platform: str = sys.platform) -> bool:

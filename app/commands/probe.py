@@ -17,7 +17,7 @@ from app.commands import add_pull_argument
 
 
 def add_arguments(parser: argparse.ArgumentParser) -> None:
-    parser.add_argument("file", help="STEP, IGES or geomdl JSON model")
+    parser.add_argument("file", help="STEP, IGES or JSON surface model")
     where = parser.add_mutually_exclusive_group(required=True)
     where.add_argument("--at", nargs=3, type=float, metavar=("X", "Y", "Z"), help="nearest point to X Y Z (mm)")
     where.add_argument("--face", type=int, metavar="N", help="face index (0-based); needs --uv")

@@ -21,7 +21,7 @@ import tempfile
 
 
 def add_arguments(parser: argparse.ArgumentParser) -> None:
-    parser.add_argument("file", help="STEP, IGES or geomdl JSON model")
+    parser.add_argument("file", help="STEP, IGES or JSON surface model")
     parser.add_argument(
         "--plane",
         nargs=6,

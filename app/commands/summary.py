@@ -13,7 +13,7 @@ import sys
 
 
 def add_arguments(parser: argparse.ArgumentParser) -> None:
-    parser.add_argument("file", help="STEP, IGES or geomdl JSON model")
+    parser.add_argument("file", help="STEP, IGES or JSON surface model")
     parser.add_argument("--json", action="store_true", help="print JSON instead of a table")
     parser.add_argument(
         "--samples",

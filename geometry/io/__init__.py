@@ -29,6 +29,12 @@ _EXTENSIONS = {
 }
 
 
+_NOT_SIGNED = {
+    "iges": "not an IGES file (its first line is not an 80-column IGES start or global record)",
+    "step": "not a STEP file (it does not open with the ISO-10303-21 header)",
+}
+
+
 def detect_format(path: str, head: bytes) -> str | None:
     """The format of a file from its first bytes, else from its extension.
 
@@ -49,6 +55,16 @@ def detect_format(path: str, head: bytes) -> str | None:
     80-column records whose column 73 holds the section letter, the first
     record being ``S`` (start) or ``G`` (global) (IGES 5.3, sec. 2.1).
     """
+    signed = content_format(head)
+    if signed is not None:
+        return signed
+    if b"\x00" in head[:1024] or head[:8] == b"\x89PNG\r\n\x1a\n":
+        return None  # binary content: no extension makes it a model
+    return _EXTENSIONS.get(os.path.splitext(path)[1].lower())
+
+
+def content_format(head: bytes) -> str | None:
+    """The format the first bytes announce (see :func:`detect_format`), or ``None``."""
     text = head.lstrip(b"\xef\xbb\xbf").lstrip()
     if text[:12].upper() == b"ISO-10303-21":
         return "step"
@@ -57,9 +73,7 @@ def detect_format(path: str, head: bytes) -> str | None:
         return "iges"
     if text[:1] == b"{":
         return "geomdl-json"
-    if b"\x00" in head[:1024] or head[:8] == b"\x89PNG\r\n\x1a\n":
-        return None  # binary content: no extension makes it a model
-    return _EXTENSIONS.get(os.path.splitext(path)[1].lower())
+    return None
 
 
 def _read_bytes(path: str) -> bytes:
@@ -115,7 +129,10 @@ def read_model(path) -> Model:
     data = _read_bytes(path)
     fmt = detect_format(path, data[:4096])
     if fmt is None:
-        raise ReadError(path, "not a STEP, IGES or geomdl JSON file (content not recognised)")
+        raise ReadError(path, "not a STEP, IGES or JSON surface file (content not recognised)")
+    if fmt in _NOT_SIGNED and content_format(data[:4096]) is None:
+        # Named .igs or .stp but without the format's opening records: say so, not "holds no surface".
+        raise ReadError(path, _NOT_SIGNED[fmt])
     try:
         contents, units = _contents(path, fmt, data)
     except ReadError:

@@ -30,7 +30,7 @@ def _surface(entry: dict) -> tuple[NurbsSurface, bool, str]:
         degrees = int(entry["degree_u"]), int(entry["degree_v"])
         knots = entry["knotvector_u"], entry["knotvector_v"]
     except (KeyError, TypeError, ValueError, AttributeError) as exc:
-        raise BattenError(f"not a geomdl surface record ({type(exc).__name__}: {exc})") from exc
+        raise BattenError(f"not a surface record of a JSON surface file ({type(exc).__name__}: {exc})") from exc
     if points.ndim != 2 or points.shape != (nu * nv, 3):
         raise BattenError(f"expected {nu} x {nv} three-dimensional control points, got shape {points.shape}")
     w = None
@@ -74,11 +74,11 @@ def read_geomdl_json(path: str, data: bytes) -> ShapeContents:
     except (UnicodeDecodeError, json.JSONDecodeError) as exc:
         raise ReadError(path, f"not valid JSON ({exc})") from exc
     except (KeyError, TypeError, AttributeError) as exc:
-        raise ReadError(path, 'not a geomdl exchange file (no "shape" with "data")') from exc
+        raise ReadError(path, 'not a JSON surface file (no "shape" with "data")') from exc
     if kind != "surface":
-        raise ReadError(path, f'the geomdl file holds "{kind}" geometry, not surfaces')
+        raise ReadError(path, f'the JSON file holds "{kind}" geometry, not surfaces')
     if not isinstance(entries, list):
-        raise ReadError(path, 'the geomdl file\'s "data" is not a list of surfaces')
+        raise ReadError(path, 'the JSON file\'s "data" is not a list of surfaces')
     out = ShapeContents(n_input_faces=len(entries))
     for i, entry in enumerate(entries):
         try:
@@ -88,6 +88,6 @@ def read_geomdl_json(path: str, data: bytes) -> ShapeContents:
             out.skipped.append(SkippedFace(i + 1, "", str(exc)))
             continue
         if isinstance(entry, dict) and entry.get("trims"):
-            out.warnings.append(f"surface {i + 1}: geomdl trim curves are not read; the face is shown whole")
+            out.warnings.append(f"surface {i + 1}: trim curves of JSON surface files are not read; shown whole")
         out.faces.append(Face(surface, reversed=reversed_, name=name, body="geomdl"))
     return out
