@@ -35,6 +35,8 @@ from .wording import number as number_text
 
 IMAGE_SIZE = (1000, 700)
 ZOOM = 1.0
+# The curvature views leave the legend room at the right.
+ZOOM_WITH_LEGEND = 0.82
 MARKER_FONT = 22
 # The picture is printed at about half its size: the legend's text is set larger than on screen.
 LEGEND_FONT = (24, 22)  # title, labels
@@ -155,22 +157,24 @@ class _Pictures:
         session = self.session
         session.show_sections(*(self.sections if sections else ((), ())))
         self.scene.update_sections()
-        _set_view(self.plotter, view)
+        _set_view(self.plotter, view, ZOOM_WITH_LEGEND if mode == Mode.CURVATURE else ZOOM)
         _add_markers(self.plotter, self.review)
         session.set_camera(self.scene.camera())
         session.set_display(mode=mode)
         self.scene.update_surface()
-        for bar in self.plotter.scalar_bars.values():
-            bar.GetTitleTextProperty().SetFontSize(LEGEND_FONT[0])
-            bar.GetLabelTextProperty().SetFontSize(LEGEND_FONT[1])
-            bar.SetPosition(0.8, 0.1)
-            bar.SetPosition2(0.07, 0.72)
 
     @property
     def marker_words(self) -> str:
         return " Numbered labels: the findings over tolerance of the same number." if _markers(self.review)[1] else ""
 
     def take(self, name: str, caption: str) -> Figure:
+        # Legend text for a picture printed at half size; set just before the shot (a new bar resets it).
+        for bar in self.plotter.scalar_bars.values():
+            bar.UnconstrainedFontSizeOn()  # the sizes below, not sizes fitted to the bar
+            bar.GetTitleTextProperty().SetFontSize(LEGEND_FONT[0])
+            bar.GetLabelTextProperty().SetFontSize(LEGEND_FONT[1])
+            bar.SetPosition(0.8, 0.1)
+            bar.SetPosition2(0.07, 0.72)
         return Figure(name, caption, _png(self.plotter))
 
     def close(self) -> None:
