@@ -17,6 +17,7 @@ pytest.importorskip("pyvistaqt")
 from PySide6.QtCore import QMimeData, QPointF, Qt, QUrl  # noqa: E402
 from PySide6.QtGui import QDropEvent  # noqa: E402
 
+from app.profiles import get_profile  # noqa: E402
 from app.qt import window as window_module  # noqa: E402
 from app.qt.window import MainWindow, camera_state  # noqa: E402
 from app.state import Mode, Session  # noqa: E402
@@ -342,7 +343,9 @@ def test_export_report_uses_the_profile_and_planes_on_screen(qtbot, window, tmp_
     assert seen == [window.session.review_settings]
     assert seen[0].profile == "technical" and seen[0].sections.count("plane:") == 2
     text = target.read_text()
-    assert "technical" in text and "plane:" in text
+    # The profile by its title and the planes in words: no spec strings on the page (issue 14).
+    assert get_profile("technical").title in text
+    assert "plane 1 through" in text and "plane 2 through" in text and "plane:" not in text
 
 
 def test_curvature_map_is_smooth_point_data_on_the_dense_grid(qtbot, window):

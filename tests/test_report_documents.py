@@ -6,6 +6,7 @@ import re
 import shutil
 import subprocess
 import unicodedata
+from html.parser import HTMLParser
 from pathlib import Path
 
 import pytest
@@ -21,6 +22,8 @@ SAMPLES = Path(__file__).resolve().parents[1] / "sample_surfaces"
 VISOR = SAMPLES / "hood_visor.stp"  # G1 seam visor_flat / visor_bend (manifest)
 HEATGUN = SAMPLES / "heatgun_covers.stp"  # 0.02 mm gap cover_rear / cover_front (manifest)
 SECTIONS = "x:3;y:2"
+# The report's own test adds a plane given by point and normal: its spec string must not reach the page.
+SECTIONS_PDF = "x:3;y:2;plane:0,60,10,0,1,0"
 # Pictures per checked file: findings, 3 curvature views, stripes, combs, one plot per section family (x, y).
 PICTURES_PER_FILE = 8
 
@@ -44,7 +47,7 @@ def pdf_report(tmp_path_factory):
             str(HEATGUN),
             str(missing),
             "--sections",
-            SECTIONS,
+            SECTIONS_PDF,
             "--report",
             str(out),
             "--jobs",
@@ -67,11 +70,11 @@ def test_pdf_holds_the_key_rows(pdf_report):
         "FAIL: findings over tolerance",
         "NOT CHECKED: the file cannot be read",
         "no such file",
-        "Seams (worst first)",
-        "Sections: fairness figures",
-        "Inflections",
-        "Curvature extrema",
-        "Faces and curvature ranges",
+        "Seams, worst first",
+        "Section curves: fairness figures",
+        "Inflections of the section curves",
+        "Curvature extrema along the sections",
+        "Faces and their curvature",
         "Review sign-off",
         "Tolerance profile",
     ):
@@ -80,9 +83,9 @@ def test_pdf_holds_the_key_rows(pdf_report):
     for path in (VISOR, HEATGUN):
         digest = __import__("hashlib").sha256(path.read_bytes()).hexdigest()
         assert digest in flat, path.name
-    assert re.search(r"visor_flat / visor_bend\s.*\sG1\s+FAIL\n", text), "visor seam row"
-    assert re.search(r"cover_rear / cover_front\s.*\sbroken\s+FAIL\n", text), "heat gun seam row"
-    assert re.search(r"position_mm\s+0\.01\s", text) and "class-a" in text
+    assert re.search(r"visor_flat and visor_bend\s.*\sG1\s+FAIL\n", text), "visor seam row"
+    assert re.search(r"cover_rear and cover_front\s.*\snone\s+FAIL\n", text), "heat gun seam row"
+    assert "gap between them is at most 0.01 mm" in text and "Class-A review" in text
     assert "x = " in text and "y = " in text  # section labels in the figures table
 
 
@@ -104,7 +107,7 @@ def test_html_is_self_contained(tmp_path):
     assert len(sources) == len(figures) == PICTURES_PER_FILE
     assert all(s.startswith("data:image/png;base64,") for s in sources)
     assert "http" not in "".join(re.findall(r'(?:src|href)="([^"]+)"', html))
-    for words in ("visor_flat / visor_bend", REVIEW_AID.split(".")[0], review.sha256, "2026-12-01 19:00 UTC"):
+    for words in ("visor_flat and visor_bend", REVIEW_AID.split(".")[0], review.sha256, "2026-12-01 19:00 UTC"):
         assert words in html
     assert sorted(tmp_path.iterdir()) == [out]  # no temporary file left
 
@@ -133,3 +136,174 @@ def test_report_needs_a_known_extension(tmp_path):
 
     with pytest.raises(BattenError, match=r"\.pdf or \.html"):
         write_report(tmp_path / "r.txt", [])
+
+
+# -- reading the report as its reader does ------------------------------------------------------------
+UNIT = re.compile(r"\((mm|1/mm|1/mm²|1/mm³|°|%)\)")
+NUMBER = re.compile(r"^[-+]?\d+(\.\d+)?(×10[⁻⁰¹²³⁴⁵⁶⁷⁸⁹]+)?$")
+PAGE_FOOT = re.compile(r"^\s*Page \d+ of \d+\s*$")
+
+
+def _pdf_pages(path) -> list[list[str]]:
+    text = subprocess.run(["pdftotext", "-layout", str(path), "-"], capture_output=True, text=True, check=True).stdout
+    text = unicodedata.normalize("NFKC", text)
+    return [[line.strip() for line in page.splitlines() if line.strip()] for page in text.split("\f") if page.strip()]
+
+
+class _Tables(HTMLParser):
+    """Headings and tables (header cells, body rows) of the report's HTML."""
+
+    def __init__(self):
+        super().__init__()
+        self.headings, self.tables, self._text, self._in = [], [], None, None
+
+    def handle_starttag(self, tag, attrs):
+        if tag == "br" and self._text is not None:
+            self._text.append(" ")
+        elif tag in ("h1", "h2", "h3"):
+            self._text, self._in = [], tag
+        elif tag == "table":
+            self.tables.append({"header": [], "rows": []})
+        elif tag == "tr" and self.tables:
+            self._row = []
+        elif tag in ("td", "th"):
+            self._text, self._in = [], tag
+
+    def handle_endtag(self, tag):
+        if tag == self._in and self._text is not None:
+            text = "".join(self._text).replace("\u2060", "").strip()
+            if tag in ("h1", "h2", "h3"):
+                self.headings.append(text)
+            elif tag == "th":
+                self.tables[-1]["header"].append(text)
+            else:
+                self._row.append(text)
+            self._text, self._in = None, None
+        elif tag == "tr" and self.tables and self._row:
+            self.tables[-1]["rows"].append(self._row)
+            self._row = []
+
+    def handle_data(self, data):
+        if self._text is not None:
+            self._text.append(data)
+
+
+@pytest.fixture(scope="module")
+def html_report(pdf_report, tmp_path_factory):
+    """The same files and sections as the PDF, without pictures (the text is the same)."""
+    from app.report import write_report
+
+    folder = tmp_path_factory.mktemp("html")
+    settings = ReviewSettings(sections=SECTIONS_PDF)
+    missing = pdf_report[1].parent / "gone.stp"
+    reviews = [check_one(str(p), settings, False, False)[0] for p in (VISOR, HEATGUN, missing)]
+    out = write_report(folder / "review.html", reviews, created="2026-12-01 19:00 UTC")
+    parsed = _Tables()
+    parsed.feed(out.read_text())
+    return reviews, out.read_text(), parsed
+
+
+def _profile_keys() -> set[str]:
+    from app.profiles import get_profile
+
+    values = get_profile("class-a").as_dict()
+    return {k for k in [*values, *values["basis"]] if "_" in k}
+
+
+@needs_poppler
+def test_pdf_has_no_spec_strings_or_profile_keys(pdf_report):
+    _, out = pdf_report
+    text = "\n".join("\n".join(p) for p in _pdf_pages(out))
+    assert "plane:" not in text and "x:3" not in text and "y:2" not in text
+    assert "plane 1 through (0, 60, 10) mm with normal (0, 1, 0)" in text
+    for key in _profile_keys():
+        assert key not in text, key
+    assert "gaussian" not in text and "Gaussian" in text
+    assert not re.search(r"(?<![\w.])-0(?![.\d×])", text), "a -0 on the page"
+    assert not re.search(r"\b1 (faces|planes|curves|seams|findings|inflections|files)\b", text)
+    assert not re.search(r"\b([02-9]|\d\d+) (face|plane|curve|seam|finding|inflection|file)\b", text)
+
+
+@needs_poppler
+def test_pdf_headings_are_never_last_on_a_page(pdf_report, html_report):
+    _, out = pdf_report
+    headings = set(html_report[2].headings) | {"Pictures"}
+    pages = _pdf_pages(out)
+    assert len(pages) > 3
+    for number, lines in enumerate(pages, start=1):
+        body = [line for line in lines if not PAGE_FOOT.match(line)]
+        assert body[-1] not in headings, f"page {number} ends with the heading {body[-1]!r}"
+
+
+@needs_poppler
+def test_pdf_pages_carry_model_name_and_number(pdf_report):
+    _, out = pdf_report
+    pages = _pdf_pages(out)
+    for number, lines in enumerate(pages, start=1):
+        assert lines[0].startswith("Surface fairness review:"), number
+        assert any(name in lines[0] for name in ("hood_visor.stp", "heatgun_covers.stp", "gone.stp")), number
+        assert lines[-1] == f"Page {number} of {len(pages)}"
+    assert any("hood_visor.stp" in p[0] and "heatgun" not in p[0] for p in pages)
+
+
+def test_html_tables_give_every_number_column_a_unit(html_report):
+    _, _, parsed = html_report
+    checked = 0
+    for table in parsed.tables:
+        header = table["header"]
+        for col, title in enumerate(header):
+            cells = [row[col] for row in table["rows"] if col < len(row) and row[col] not in ("-", "")]
+            if not cells or not all(NUMBER.match(c) for c in cells):
+                continue
+            checked += 1
+            # Whole numbers alone may be counts or identifiers (No., Inflections): they need no unit.
+            if not all(re.fullmatch(r"\d+", c) for c in cells):
+                assert UNIT.search(title), f"column {title!r} of numbers has no unit"
+    assert checked > 10
+
+
+def test_html_tables_name_faces(html_report):
+    reviews, text, parsed = html_report
+    names = {f.name for r in reviews for f in r.faces}
+    assert {"visor_flat", "visor_bend", "cover_rear", "cover_front"} <= names
+    face_columns = 0
+    for table in parsed.tables:
+        if table["header"][:1] == ["File"]:
+            continue  # the cover's list of files counts faces
+        for col, title in enumerate(table["header"]):
+            if title in ("Face", "Faces", "Faces crossed"):
+                face_columns += 1
+                for row in table["rows"]:
+                    cell_names = set(re.split(r", | and ", row[col]))
+                    assert cell_names <= names, (title, row[col])
+    assert face_columns >= 5
+    assert "visor_flat and visor_bend" in text
+
+
+def test_html_and_pdf_carry_the_same_text(pdf_report, html_report):
+    """Every word of every heading and table cell of the HTML is in the PDF (same files, same sections).
+
+    Words, not whole cells: pdftotext interleaves the lines of wrapped cells that stand side by side.
+    """
+    _, out = pdf_report
+    words = {w for page in _pdf_pages(out) for line in page for w in re.split(r"\s+|×", line)}
+    flat = _squash("".join("".join(page) for page in _pdf_pages(out)))
+    _, _, parsed = html_report
+    for text in [
+        *parsed.headings,
+        *(c for t in parsed.tables for c in [*t["header"], *(x for r in t["rows"] for x in r)]),
+    ]:
+        # pdftotext drops the spaces around a narrow "×": compare the words on either side of it.
+        # A word longer than a column (the file's SHA-256) wraps inside itself: look for it squashed.
+        split = re.split(r"\s+|×", unicodedata.normalize("NFKC", text))
+        missing = [w for w in split if w and w not in words and not (len(w) > 40 and w in flat)]
+        assert not missing, (text, missing)
+
+
+def test_html_says_what_was_not_checked(html_report):
+    _, text, parsed = html_report
+    assert "What was checked" in parsed.headings
+    # Draft and undercut run with every check now: their section is there, no "not part of this check" line.
+    assert "Release to tooling" in parsed.headings
+    assert "Free edges (open boundaries) are listed for the reviewer, not judged." in text
+    assert "NOT CHECKED: the file cannot be read" in text

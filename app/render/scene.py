@@ -12,10 +12,11 @@ import pyvista as pv
 import vtk
 
 from app.state import Camera, FindingEntry, Mode, Session
-from app.state.settings import MEASURE_UNITS, STRIPE_MODES, VALUE_MODES
+from app.state.settings import STRIPE_MODES, VALUE_MODES
 
 from . import colours
 from .combs import comb_envelopes, comb_teeth, marker_points, polylines, section_curves
+from .legend import measure_title, tick_format
 from .meshes import FaceMesh, face_mesh
 from .seams import seam_lines
 from .stripes import stripe_range, stripe_table
@@ -40,10 +41,13 @@ LEGEND = dict(
 
 
 def legend_title(session: Session) -> str:
+    """``Mean curvature H`` over ``(1/mm)``: the quantity in words with its unit (one wording with the report).
+
+    Two lines: the bar stands at the view's right edge, and a one-line title would run past it.
+    """
     if session.display.mode == Mode.DEVIATION:
-        return "deviation [mm]"
-    measure = session.display.measure
-    return f"{measure.value} [{MEASURE_UNITS[measure]}]"
+        return "Deviation\n(mm)"
+    return measure_title(session.display.measure).replace(" (", "\n(")
 
 
 class Scene:
@@ -131,7 +135,10 @@ class Scene:
                 scalar_bar_args=LEGEND | {"title": self.legend},
                 **common,
             )
-            self.plotter.scalar_bars[self.legend].SetVisibility(True)
+            bar = self.plotter.scalar_bars[self.legend]
+            bar.SetVisibility(True)
+            # Digits for this range (a bar reused for another model keeps its first format otherwise).
+            bar.SetLabelFormat(tick_format(*limits, LEGEND["n_labels"]))
         elif mode == Mode.DRAFT and self.session.tooling is not None:
             # the draft view draws the check's own grids (one analysis for window, check and report)
             added = add_tooling(self.plotter, self.session.tooling, self.session.model.bounds, LEGEND)

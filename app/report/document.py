@@ -1,27 +1,31 @@
 """The review document as HTML, shared by the PDF and the HTML report.
 
-Only the HTML subset Qt's rich-text engine lays out is used (tables with
-border attributes, inline styles, ``page-break-before``), so the PDF written
-through QTextDocument and the HTML file opened in a browser read the same.
-Pictures are referred to through ``image_src(name)``: a data URI in the HTML
-file, a document resource in the PDF.
+The document is a cover, a chapter per file and a sign-off page. A chapter is
+the list :data:`CHAPTER` of small functions, each writing one section of it
+from a :class:`Chapter`; a new analysis adds its section there. Pictures are
+referred to through ``image_src(name)``: a data URI in the HTML file, a
+document resource in the PDF.
 """
 
 from __future__ import annotations
 
+import os
 from collections.abc import Callable, Sequence
-from html import escape
+from dataclasses import dataclass
 
-from app.render.colours import VERDICT
-from app.review.result import ACCEPTED, ERROR, FAIL, PASS, UNREADABLE, FileReview, face_account_line, overall_verdict
+from app.review.result import ACCEPTED, FileReview, face_account_line, overall_verdict
 from geometry.conventions import CURVATURE_SIGN
 
-from . import review_parts
+from . import blocks, review_parts
 from .figures import Figure
+from .settings_text import profile_origin, profile_rows, sections_sentence
 from .tables import (
+    WIDTHS,
+    checked_rows,
     extrema_rows,
     face_rows,
     figure_rows,
+    file_rows,
     finding_rows,
     free_edge_rows,
     inflection_rows,
@@ -30,248 +34,308 @@ from .tables import (
     tooling_rows,
     undercut_rows,
 )
+from .wording import count_words, plural, quantity
 
+TITLE = "Surface fairness review"
 REVIEW_AID = (
     "This report is an aid to a surface review, not a release decision. The measurements compare the surfaces "
     "with the tolerance profile named below; whether a surface is fit for tooling is decided by your "
     "organisation's own surface quality standard, its tolerances and the people who sign the review. Where "
     "that standard differs from the profile used here, the standard governs."
 )
-
-FIGURES_PER_PAGE = 2
-# The overview picture shares the chapter's first page with the verdict: a little smaller.
-OVERVIEW_WIDTH = 360
-
-# the window's verdict colours (one palette); the two "not checked" states have their own
-_VERDICT_COLOURS = {PASS: VERDICT["pass"], FAIL: VERDICT["fail"], UNREADABLE: "#7a4b00", ERROR: "#5a5a5a"}
-_VERDICT_WORDS = {
-    PASS: "PASS: no finding over tolerance",
-    FAIL: "FAIL: findings over tolerance",
-    UNREADABLE: "NOT CHECKED: the file cannot be read",
-    ERROR: "NOT CHECKED: the analysis stopped on an internal error",
-}
-
-
-NOWRAP_CHARS = 12
-NOWRAP = ' style="white-space: nowrap;"'
+# The overview picture shares the chapter's findings page: a little smaller.
+OVERVIEW_WIDTH = 380
 SEAMS_NOTE = (
-    '<p style="font-size: 8pt;">Largest values along each seam: gap between the faces, angle between their '
-    "normals, and jump of the cross-seam normal curvature, absolute and relative to the larger of the two. "
-    "class: the continuity reached under the profile's tolerances (G2, G1, G0, or broken).</p>"
-)
-SIGN_NOTE = (
-    f'<p style="font-size: 8pt;">Sign of every curvature in this report (maps, sections, graphs, combs, '
-    f"tables): {CURVATURE_SIGN}, exactly as in the window's colour map.</p>"
+    "Largest values along each seam: the gap between the faces, the angle between their normals, and the jump "
+    "of the normal curvature across the seam (Jump), in 1/mm and as a share of the larger of the two curvatures. "
+    "Continuity reached: the highest class whose tolerances the seam meets (none: the faces do not meet in "
+    "position)."
 )
 FIGURES_NOTE = (
-    '<p style="font-size: 8pt;">pieces: monotone pieces of the curvature plot (a fair curve has few; Farin, '
-    "<i>Curves and Surfaces for CAGD</i>, 5th ed., sec. 23.1). int (dk/ds)^2 ds: curvature variation along the "
-    "curve, 1/mm^3 (after Moreton and Sequin's minimum variation idea).</p>"
+    "Inflections and extrema: how many points along the curve where the curvature changes sign, and where it "
+    "is largest or smallest. Monotone pieces: stretches along which the curvature only rises or only falls; a "
+    "fair curve has few (Farin, Curves and Surfaces for CAGD, 5th ed., sec. 23.1). Variation: the integral "
+    "\u222b(dk/ds)\u00b2 ds of the squared rate of change of curvature along the curve, smaller for a fairer curve "
+    "(after Moreton and Sequin's minimum variation idea)."
 )
-TOOLING_NOTE = (
-    '<p style="font-size: 8pt;">draft: asin(n . pull) with the outward normal, signed (positive: the face '
-    "leaves with the mould half moving along +pull); short: area with |draft| below the limit. undercut: "
-    "area whose straight path out along its release direction meets the part again. radius: tightest concave "
-    "bend (1 / largest positive principal curvature); no reach: area a ball-end cutter of the profile's radius "
-    "cannot finish. Sharp inside creases are not curvature and are not judged here. The limits are common "
-    "practice; your organisation's tooling standard decides.</p>"
+
+
+SIGN_NOTE = (
+    f"Sign of every curvature in this report (maps, sections, graphs, combs, tables): {CURVATURE_SIGN}, exactly "
+    "as in the window's colour map."
 )
-# Column widths (percent) of the tables whose text columns would otherwise wrap mid-word.
-WIDTHS = {
-    "seam": (7, 27, 8, 9, 9, 9, 9, 8, 14),
-    "#": (4, 30, 12, 9, 11, 8, 9, 17),
-}
 
 
-def _nowrap(text: str) -> str:
-    # Short cells (numbers, classes, verdicts, labels like "y = -10.67") must not break mid-word.
-    return NOWRAP if len(text) <= NOWRAP_CHARS else ""
+def model_name(review: FileReview) -> str:
+    """The name a file goes by on the page: its file name."""
+    return os.path.basename(review.source) or review.source
 
 
-def _width(percent: int | None) -> str:
-    return f' width="{percent}%"' if percent else ""
+@dataclass(frozen=True)
+class Chapter:
+    """What the sections of one file's chapter are written from."""
+
+    review: FileReview
+    figures: dict[str, Figure]
+    image_src: Callable[[str], str]
+    width: int
 
 
-def _table(header: Sequence[str], rows: Sequence[Sequence[str]], empty: str) -> str:
-    if not rows:
-        return f"<p><i>{escape(empty)}</i></p>"
-    widths = WIDTHS.get(header[0])
-    widths = widths if widths and len(widths) == len(header) else [None] * len(header)
-    head = "".join(
-        # One word per line, none broken: a header is never wider than its longest word.
-        f'<th bgcolor="#e4e8ec" align="left"{_width(w)}{NOWRAP}>{"<br/>".join(map(escape, h.split()))}</th>'
-        for h, w in zip(header, widths, strict=True)
+def _files_detail(reviews: Sequence[FileReview]) -> str:
+    checked = sum(r.status == "checked" for r in reviews)
+    over = sum(len(r.failures) for r in reviews)
+    done = "checked" if checked == len(reviews) else f"{checked} checked"
+    if len(reviews) == 1:
+        done = "checked" if checked else "not checked"
+    return f"{plural(len(reviews), 'file')} {done}; {count_words(over, 'finding')} over tolerance"
+
+
+def _profile_part(review: FileReview) -> str:
+    return "".join(
+        [
+            blocks.heading("Tolerance profile and sections"),
+            blocks.paragraph(f"Profile in force: {profile_origin(review.profile)}."),
+            blocks.table(
+                ["Requirement", "Basis"], profile_rows(review.profile), "The profile sets no values.", WIDTHS["profile"]
+            ),
+            blocks.paragraph(sections_sentence(review.sections_spec)),
+        ]
     )
-    body = []
-    for row in rows:
-        cells = []
-        for cell in row:
-            text = escape(str(cell))
-            if cell in (FAIL, "FAIL"):
-                text = f'<b><font color="{_VERDICT_COLOURS[FAIL]}">FAIL</font></b>'
-            elif cell in (PASS, "PASS"):
-                text = f'<font color="{_VERDICT_COLOURS[PASS]}">pass</font>'
-            cells.append(f"<td{_nowrap(str(cell))}>{text}</td>")
-        body.append("<tr>" + "".join(cells) + "</tr>")
-    return (
-        '<table border="1" cellspacing="0" cellpadding="3" width="100%" style="border-collapse: collapse; '
-        f'font-size: 8pt;"><thead><tr>{head}</tr></thead><tbody>{"".join(body)}</tbody></table>'
-    )
-
-
-def _kv(pairs: Sequence[tuple[str, str]]) -> str:
-    rows = "".join(
-        f'<tr><td bgcolor="#f0f2f4" width="28%"><b>{escape(k)}</b></td><td>{escape(str(v))}</td></tr>' for k, v in pairs
-    )
-    return f'<table border="1" cellspacing="0" cellpadding="3" width="100%" style="font-size: 9pt;">{rows}</table>'
-
-
-def _verdict_box(verdict: str, detail: str) -> str:
-    colour = _VERDICT_COLOURS[verdict]
-    return (
-        f'<table border="0" cellspacing="0" cellpadding="8" width="100%"><tr><td bgcolor="{colour}">'
-        f'<font color="white" size="5"><b>{escape(_VERDICT_WORDS[verdict])}</b></font><br/>'
-        f'<font color="white">{escape(detail)}</font></td></tr></table>'
-    )
-
-
-def _figure(fig: Figure, image_src: Callable[[str], str], width: int) -> str:
-    # Each picture in its own paragraph: Qt lays an inline image over the text above otherwise.
-    return (
-        f'<p align="center"><img src="{image_src(fig.name)}" width="{width}"/></p>'
-        f'<p style="font-size: 8pt;"><i>{escape(fig.caption)}</i></p>'
-    )
-
-
-def _profile_block(review: FileReview) -> str:
-    """Every value of the profile, with where it comes from."""
-    basis = review.profile.get("basis") or {}
-    rows = [
-        (str(k), "no limit" if v is None else str(v), str(basis.get(k, "")))
-        for k, v in review.profile.items()
-        if k != "basis"
-    ]
-    return _table(["setting", "value", "basis"], rows, "no profile values")
 
 
 def cover(reviews: Sequence[FileReview], created: str, version: str) -> str:
-    files = [
-        (
-            escape(r.source),
-            r.sha256 or "-",
-            f"{r.units} (file: {r.source_units})" if r.source_units else r.units,
-            r.verdict.upper() if r.verdict != PASS else PASS,
-        )
-        for r in reviews
-    ]
     overall = overall_verdict({r.verdict for r in reviews})
     checked = [r for r in reviews if r.status == "checked"]
-    over = sum(len(r.failures) for r in reviews)
-    detail = f"{len(reviews)} file(s), {len(checked)} checked, {over} finding(s) over tolerance"
-    profile = checked[0] if checked else (reviews[0] if reviews else None)
     parts = [
-        '<h1 style="font-size: 20pt;">Surface fairness review</h1>',
-        f"<p>Written by Batten {escape(version)} on {escape(created)}.</p>",
-        _verdict_box(overall, detail),
-        '<table border="1" cellspacing="0" cellpadding="6" width="100%"><tr><td bgcolor="#fdf6e3">'
-        f"<b>About this report.</b> {escape(REVIEW_AID)}</td></tr></table>",
-        "<h3>Files reviewed</h3>",
-        _table(["file", "sha256", "units", "verdict"], [tuple(f) for f in files], "no files"),
+        blocks.heading(TITLE, level=1),
+        blocks.paragraph(f"Written by Batten {version} on {created}."),
+        blocks.verdict_box(overall, _files_detail(reviews)),
+        blocks.notice("About this report.", REVIEW_AID),
+        blocks.heading("Files reviewed"),
+        blocks.table(*file_rows(reviews), "No files were given.", WIDTHS["files"]),
     ]
-    if profile is not None:
-        spec = profile.sections_spec or "none"
-        parts += [
-            f"<h3>Tolerance profile and sections</h3><p>Sections cut: <b>{escape(spec)}</b></p>",
-            _profile_block(profile),
+    if checked or reviews:
+        parts.append(_profile_part((checked or reviews)[0]))
+    return "".join(parts)
+
+
+# -- the sections of a file's chapter -------------------------------------------------------------------
+def file_facts(ch: Chapter) -> str:
+    r = ch.review
+    if r.status != "checked":
+        return blocks.facts([("File", r.source), ("SHA-256 of the file", r.sha256 or "-")])
+    declared = f"{r.units} (the file declares {r.source_units})" if r.source_units else r.units
+    pairs = [
+        ("File", r.source),
+        ("SHA-256 of the file", r.sha256 or "-"),
+        ("Units", declared),
+        ("Faces", face_account_line(r.face_account) if r.face_account else plural(len(r.faces), "face")),
+        ("Model size", f"{quantity(r.model_size, 'mm')} (diagonal of the bounding box)"),
+        ("Sections", sections_sentence(r.sections_spec)),
+    ]
+    if r.profile:
+        pairs.append(("Tolerance profile", str(r.profile.get("title") or r.profile.get("name"))))
+    return blocks.facts(pairs)
+
+
+def verdict(ch: Chapter) -> str:
+    r = ch.review
+    detail = f"{count_words(len(r.failures), 'finding')} over tolerance, of {plural(len(r.findings), 'finding')} judged"
+    if r.review_file is not None:
+        accepted = sum(f.verdict == ACCEPTED for f in r.findings)
+        detail += f"; {plural(accepted, 'more finding')} over tolerance but accepted by reviewers"
+    return blocks.verdict_box(r.verdict, detail)
+
+
+def not_checked(review: FileReview) -> list[str]:
+    """What this check did not look at, and why: each a sentence."""
+    out = []
+    if not review.sections:
+        out.append("No section planes were cut, so no inflections or curvature extrema along sections were sought.")
+    if review.profile.get("section_inflections_max") is None and review.sections:
+        out.append("Inflections are listed and marked, not judged: the profile sets no limit for them.")
+    if review.free_edges:
+        out.append("Free edges (open boundaries) are listed for the reviewer, not judged.")
+    if not review.tooling:
+        out.append("Draft and undercut for tooling were not part of this check.")
+    if review.warnings:
+        out.append(
+            f"Reading and checking left {plural(len(review.warnings), 'note')}, listed at the end of this chapter "
+            "(faces that were skipped are named there with the reason)."
+        )
+    else:
+        out.append("Every face of the file was read and checked; none was skipped.")
+    return out
+
+
+def checked(ch: Chapter) -> str:
+    return "".join(
+        [
+            blocks.heading("What was checked"),
+            blocks.table(*checked_rows(ch.review), "Nothing was checked.", WIDTHS["checked"]),
+            blocks.paragraph("Not checked, or checked without a verdict:"),
+            blocks.bullets(not_checked(ch.review)),
         ]
+    )
+
+
+def findings(ch: Chapter) -> str:
+    header, rows = finding_rows(ch.review)
+    parts = [blocks.heading("Findings over tolerance"), blocks.table(header, rows, "None.", WIDTHS["findings"])]
+    within = len(ch.review.findings) - len(rows)
+    if within:
+        parts.append(blocks.paragraph(f"{plural(within, 'more finding')} within tolerance: see the tables below."))
+    if "findings" in ch.figures:
+        fig = ch.figures["findings"]
+        parts.append(blocks.figure(ch.image_src(fig.name), fig.caption, OVERVIEW_WIDTH))
     return "".join(parts)
 
 
-def _glance(review: FileReview) -> str:
-    summary = review.summary()
-    rows = [
-        (kind.replace("_", " "), str(c.get(PASS, 0)), str(c.get(FAIL, 0)))
-        + ((str(c.get(ACCEPTED, 0)),) if review.review_file is not None else ())
-        for kind, c in sorted(summary["counts"].items())
-    ]
-    detail = f"{len(review.failures)} finding(s) over tolerance of {len(review.findings)} measured"
-    accepted = sum(f.verdict == ACCEPTED for f in review.findings)
-    if review.review_file is not None:
-        detail += f"; {accepted} more over tolerance but accepted by reviewers (see Accepted by reviewers)"
-    curves = [c for s in review.sections for c in s.get("curves", ())]
-    inflections = sum(len(c.get("inflections", ())) for c in curves)
-    judged = "inflection" in summary["counts"]
-    facts = [
-        ("faces", str(len(review.faces))),
-        ("seams", f"{len(review.seams)} ({sum(s.get('verdict') == FAIL for s in review.seams)} over tolerance)"),
-        ("free edges", f"{len(review.free_edges)} (open boundary: listed, not judged)"),
-        ("sections", f"{len(review.sections)} planes, {len(curves)} curves"),
-        ("inflections", f"{inflections}" + ("" if judged else " (listed and marked; this profile sets no limit)")),
-    ]
+def dispositions(ch: Chapter) -> str:
+    """Accepted findings, open items and every decision of the review file (who, when, why)."""
+    review = ch.review
+    if review.review_file is None:
+        return ""
+    return "".join(
+        [
+            blocks.heading("Accepted by reviewers"),
+            blocks.paragraph(f"Review file: {review.review_file}"),
+            blocks.table(*review_parts.accepted_rows(review), "No finding over tolerance was accepted."),
+            blocks.heading("Open items"),
+            blocks.table(*review_parts.open_rows(review), "None: every finding over tolerance was accepted."),
+            blocks.heading("Reviewers' decisions"),
+            blocks.paragraph(review_parts.DISPOSITIONS_NOTE, small=True),
+            blocks.table(*review_parts.disposition_rows(review), "The review file records no decision."),
+        ]
+    )
+
+
+def seams(ch: Chapter) -> str:
+    header, rows = seam_rows(ch.review)
     parts = [
-        _verdict_box(review.verdict, detail),
-        "<h3>At a glance</h3>",
-        _kv(facts),
-        "<p></p>",
-        _table(
-            ["kind of finding", "within tolerance", "over tolerance"]
-            + (["accepted by reviewers"] if review.review_file is not None else []),
-            rows,
-            "nothing was judged",
-        ),
+        blocks.heading("Seams, worst first"),
+        blocks.table(header, rows, "The model has no seams between faces.", WIDTHS["seams"]),
     ]
+    if rows:
+        parts.append(blocks.paragraph(SEAMS_NOTE, small=True))
     return "".join(parts)
+
+
+def free_edges(ch: Chapter) -> str:
+    empty = "None: every edge of every face is shared with another face."
+    return blocks.heading("Free edges (open boundary)") + blocks.table(
+        *free_edge_rows(ch.review), empty, WIDTHS["free_edges"]
+    )
+
+
+def section_figures(ch: Chapter) -> str:
+    header, rows = figure_rows(ch.review)
+    parts = [
+        blocks.heading("Section curves: fairness figures"),
+        blocks.table(header, rows, "No sections were cut.", WIDTHS["figures"]),
+    ]
+    if rows:
+        parts.append(blocks.paragraph(FIGURES_NOTE, small=True))
+    return "".join(parts)
+
+
+def inflections(ch: Chapter) -> str:
+    empty = "None of the section curves has an inflection." if ch.review.sections else "No sections were cut."
+    return blocks.heading("Inflections of the section curves") + blocks.table(
+        *inflection_rows(ch.review), empty, WIDTHS["inflections"]
+    )
+
+
+def extrema(ch: Chapter) -> str:
+    empty = "No curvature extrema along the sections." if ch.review.sections else "No sections were cut."
+    header, rows = extrema_rows(ch.review)
+    parts = [
+        blocks.heading("Curvature extrema along the sections"),
+        blocks.table(header, rows, empty, WIDTHS["extrema"]),
+    ]
+    if rows:
+        parts.append(blocks.paragraph(SIGN_NOTE, small=True))
+    return "".join(parts)
+
+
+def faces(ch: Chapter) -> str:
+    header, rows = face_rows(ch.review)
+    table = blocks.table(header, rows, "The model has no faces.", WIDTHS["faces"])
+    note = blocks.paragraph(SIGN_NOTE, small=True) if rows else ""
+    return blocks.heading("Faces and their curvature") + table + note
+
+
+TOOLING_NOTE = (
+    "Draft: asin(n . pull) with the outward normal, signed (positive: the face leaves with the mould half moving "
+    "along +pull); short: area with |draft| below the limit. Undercut: area whose straight path out along its "
+    "release direction meets the part again. Radius: tightest concave bend (1 / largest positive principal "
+    "curvature); no reach: area a ball-end cutter of the profile's radius cannot finish. Sharp inside creases are "
+    "not curvature and are not judged here. The limits are common practice; your organisation's tooling standard "
+    "decides."
+)
+
+
+def tooling(ch: Chapter) -> str:
+    r = ch.review
+    if not r.tooling:
+        return ""
+    return "".join(
+        [
+            blocks.heading("Release to tooling"),
+            blocks.facts(tooling_facts(r)),
+            blocks.table(*tooling_rows(r), "The model has no faces."),
+            blocks.paragraph(TOOLING_NOTE, small=True),
+            blocks.heading("Undercut regions"),
+            blocks.table(*undercut_rows(r), "None found."),
+        ]
+    )
+
+
+def notes(ch: Chapter) -> str:
+    if not ch.review.warnings:
+        return ""
+    return blocks.heading("Notes from reading and checking") + blocks.bullets(ch.review.warnings)
+
+
+def pictures(ch: Chapter) -> str:
+    shown = [f for f in ch.figures.values() if f.name != "findings"]
+    if not shown:
+        return ""
+    parts = [blocks.heading("Pictures", new_page=True)]
+    parts += [blocks.figure(ch.image_src(f.name), f.caption, ch.width) for f in shown]
+    return "".join(parts)
+
+
+# The sections of a file's chapter, in reading order.
+CHAPTER: tuple[Callable[[Chapter], str], ...] = (
+    file_facts,
+    verdict,
+    checked,
+    findings,
+    dispositions,
+    seams,
+    free_edges,
+    section_figures,
+    inflections,
+    extrema,
+    faces,
+    tooling,
+    notes,
+    pictures,
+)
 
 
 def file_part(review: FileReview, figures: Sequence[Figure], image_src: Callable[[str], str], width: int) -> str:
     """The chapter of one file."""
-    head = f'<h2 style="page-break-before: always; font-size: 15pt;">{escape(review.source)}</h2>'
-    meta = _kv(
-        [
-            ("file", review.source),
-            ("sha256", review.sha256 or "-"),
-            ("units", f"{review.units} (declared in file: {review.source_units or '-'})"),
-            ("faces", face_account_line(review.face_account) if review.face_account else str(len(review.faces))),
-            ("model size (box diagonal)", f"{review.model_size:.4g} mm"),
-            ("sections", review.sections_spec or "none"),
-        ]
-    )
+    head = blocks.heading(model_name(review), level=2, new_page=True)
     if review.status != "checked":
-        return head + meta + _verdict_box(review.verdict, review.error or "unknown cause")
-    by_name = {f.name: f for f in figures}
-    parts = [head, meta, _glance(review)]
-    header, rows = finding_rows(review)
-    parts += ["<h3>Findings over tolerance</h3>", _table(header, rows, "none")]
-    within = sum(f.verdict == PASS for f in review.findings)
-    if within:
-        parts.append(f"<p>{within} more finding(s) within tolerance: see the tables below.</p>")
-    if "findings" in by_name:
-        parts.append(_figure(by_name["findings"], image_src, OVERVIEW_WIDTH))
-    if review.review_file is not None:
-        parts.append(dispositions_part(review))
-    parts += ["<h3>Seams (worst first)</h3>", _table(*seam_rows(review), "no seams"), SEAMS_NOTE]
-    parts += ["<h3>Free edges</h3>", _table(*free_edge_rows(review), "no free edges")]
-    parts += ["<h3>Sections: fairness figures</h3>", _table(*figure_rows(review), "no sections"), FIGURES_NOTE]
-    parts += ["<h3>Inflections</h3>", _table(*inflection_rows(review), "no inflections found")]
-    parts += ["<h3>Curvature extrema</h3>", _table(*extrema_rows(review), "no curvature extrema found"), SIGN_NOTE]
-    parts += ["<h3>Faces and curvature ranges</h3>", _table(*face_rows(review), "no faces"), SIGN_NOTE]
-    if review.tooling:
-        parts += ["<h3>Release to tooling</h3>", _kv(tooling_facts(review)), "<p></p>"]
-        parts += [_table(*tooling_rows(review), "no faces"), TOOLING_NOTE]
-        parts += ["<h3>Undercut regions</h3>", _table(*undercut_rows(review), "none found")]
-    if review.warnings:
-        parts.append(
-            "<h3>Notes from reading and checking</h3><ul>"
-            + "".join(f"<li>{escape(w)}</li>" for w in review.warnings)
-            + "</ul>"
+        return (
+            head
+            + file_facts(Chapter(review, {}, image_src, width))
+            + blocks.verdict_box(review.verdict, review.error or "unknown cause")
         )
-    shown = [f for f in figures if f.name != "findings"]
-    for pair in range(0, len(shown), FIGURES_PER_PAGE):
-        # A fixed number of pictures per page keeps each caption with its picture.
-        title = "Pictures" if pair == 0 else "Pictures (continued)"
-        parts.append(f'<h3 style="page-break-before: always;">{title}</h3>')
-        parts += [_figure(f, image_src, width) for f in shown[pair : pair + FIGURES_PER_PAGE]]
-    return "".join(parts)
+    chapter = Chapter(review, {f.name: f for f in figures}, image_src, width)
+    return head + "".join(section(chapter) for section in CHAPTER)
 
 
 def image_key(file_index: int, name: str) -> str:
@@ -279,52 +343,41 @@ def image_key(file_index: int, name: str) -> str:
     return f"f{file_index}-{name}"
 
 
-def dispositions_part(review: FileReview) -> str:
-    """Accepted findings, open items and every disposition of the review file (who, when, why)."""
-    return "".join(
-        [
-            f"<h3>Accepted by reviewers</h3><p>Review file: {escape(review.review_file or '-')}</p>",
-            _table(*review_parts.accepted_rows(review), "no finding over tolerance was accepted"),
-            "<h3>Open items</h3>",
-            _table(*review_parts.open_rows(review), "none: every finding over tolerance was accepted"),
-            "<h3>Dispositions</h3>",
-            f'<p style="font-size: 8pt;">{escape(review_parts.DISPOSITIONS_NOTE)}</p>',
-            _table(*review_parts.disposition_rows(review), "the review file records no disposition"),
-        ]
-    )
-
-
 def comparison_part(comparison) -> str:
     """The chapter comparing two revisions: faces, deviation, findings, fairness trend."""
-    seams, families = review_parts.trend_rows(comparison)
+    seam_trend, families = review_parts.trend_rows(comparison)
     return "".join(
         [
-            '<h2 style="page-break-before: always; font-size: 15pt;">Comparison with the previous revision</h2>',
-            _kv(review_parts.comparison_summary(comparison)),
-            "<h3>Findings since the previous revision</h3>",
-            _table(*review_parts.finding_change_rows(comparison), "no finding over tolerance in either revision"),
-            "<h3>Deviation by face</h3>",
-            f'<p style="font-size: 8pt;">{escape(review_parts.DEVIATION_NOTE)}</p>',
-            _table(*review_parts.deviation_rows(comparison), "no face measured"),
-            "<h3>Faces</h3>",
-            _table(*review_parts.face_change_rows(comparison), "no faces"),
-            "<h3>Seams, before and after</h3>",
-            _table(*seams, "no seams"),
-            "<h3>Section families, before and after</h3>",
-            _table(*families, "no sections"),
-            FIGURES_NOTE,
+            blocks.heading("Comparison with the previous revision", level=2, new_page=True),
+            blocks.facts(review_parts.comparison_summary(comparison)),
+            blocks.heading("Findings since the previous revision"),
+            blocks.table(
+                *review_parts.finding_change_rows(comparison), "No finding over tolerance in either revision."
+            ),
+            blocks.heading("Deviation by face"),
+            blocks.paragraph(review_parts.DEVIATION_NOTE, small=True),
+            blocks.table(*review_parts.deviation_rows(comparison), "No face was measured."),
+            blocks.heading("Faces"),
+            blocks.table(*review_parts.face_change_rows(comparison), "The models have no faces."),
+            blocks.heading("Seams, before and after"),
+            blocks.table(*seam_trend, "Neither revision has seams between faces."),
+            blocks.heading("Section families, before and after"),
+            blocks.table(*families, "No sections were cut."),
+            blocks.paragraph(FIGURES_NOTE, small=True),
         ]
     )
+
+
+SIGN_OFF = "Review sign-off"
 
 
 def sign_off(reviewers: Sequence[str] = ()) -> str:
     """The sign-off block: one set of lines per reviewer named in the review file (or one blank set)."""
-    names = list(reviewers) or [""]
-    blocks = []
-    for name in names:
-        rows = [("reviewed by", name), ("role", ""), ("date", ""), ("decision and remarks", ""), ("signature", "")]
-        blocks.append(_kv(rows) + "<p></p>")
-    return '<h3 style="page-break-before: always;">Review sign-off</h3>' + "".join(blocks)
+    parts = [blocks.heading(SIGN_OFF, level=2, new_page=True)]
+    for name in list(reviewers) or [""]:
+        rows = [("Reviewed by", name), ("Role", ""), ("Date", ""), ("Decision and remarks", ""), ("Signature", "")]
+        parts.append(blocks.facts(rows))
+    return "".join(parts)
 
 
 def document(
@@ -344,6 +397,6 @@ def document(
         body.append(file_part(review, figs, lambda name, i=index: image_src(image_key(i, name)), image_width))
     body.append(sign_off(tuple(dict.fromkeys(name for r in reviews for name in r.reviewers))))
     return (
-        '<html><head><meta charset="utf-8"/><title>Surface fairness review</title></head>'
+        f'<html><head><meta charset="utf-8"/><title>{TITLE}</title></head>'
         '<body style="font-family: sans-serif; font-size: 10pt;">' + "".join(body) + "</body></html>"
     )

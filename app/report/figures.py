@@ -4,8 +4,9 @@ The faces, the curvature map with its legend, the reflection lines, the seams
 and the section combs are drawn by :class:`app.render.scene.Scene` from a
 :class:`app.state.Session` holding the checked model, with the window's
 settings (the window passes its own when it exports a report): what the
-reviewer saw on screen is what the board reads. Numbered markers on the model
-match the numbers of the findings table.
+reviewer saw on screen is what the board reads. The cameras look from the
+model's principal axes (:mod:`app.report.views`); numbered labels on the model
+match the numbers of the findings table, and numbers that would overlap share one.
 """
 
 from __future__ import annotations
@@ -27,9 +28,20 @@ from geometry.conventions import CURVATURE_SIGN
 from geometry.model import Model
 from geometry.tooling import analyse_tooling
 
+from .settings_text import family_words
+from .views import View, choose_views, merge_labels, screen_positions
+from .wording import free_planes, section_name
+from .wording import number as number_text
+
 IMAGE_SIZE = (1000, 700)
-ZOOM = 1.2
-VIEWS = (("iso", "isometric view"), ("top", "view from +z"), ("front", "view from -y"))
+ZOOM = 1.0
+# The curvature views leave the legend room at the right.
+ZOOM_WITH_LEGEND = 0.82
+MARKER_FONT = 22
+# The picture is printed at about half its size: the legend's text is set larger than on screen.
+LEGEND_FONT = (24, 22)  # title, labels
+# Curvature plots span at least +-this (1/mm): a radius of 10 m.
+PLOT_SPAN_MIN = 1e-4
 
 
 @dataclass(frozen=True)
@@ -39,13 +51,10 @@ class Figure:
     png: bytes
 
 
-def _set_view(plotter, view: str, zoom: float = ZOOM) -> None:
-    if view == "top":
-        plotter.view_xy()
-    elif view == "front":
-        plotter.view_xz()
-    else:
-        plotter.view_isometric()
+def _set_view(plotter, view: View, zoom: float = ZOOM) -> None:
+    """Look at the whole scene from ``view.toward`` with ``view.up`` up, framed to fit."""
+    centre = np.asarray(plotter.center, float)
+    plotter.camera_position = [tuple(centre + view.toward), tuple(centre), tuple(view.up)]
     plotter.reset_camera()
     plotter.camera.zoom(zoom)
 
@@ -70,13 +79,17 @@ def _markers(review: FileReview) -> tuple[np.ndarray, list[str]]:
 
 
 def _add_markers(plotter, review: FileReview) -> None:
+    """Number the findings at their places; numbers that would overlap in this view share one label."""
     points, labels = _markers(review)
     if labels:
+        camera = plotter.camera
+        screen = screen_positions(points, camera.position, camera.focal_point, camera.up, camera.view_angle)
+        merged = merge_labels(screen, labels)
         plotter.add_point_labels(
-            points,
-            labels,
+            points[[anchor for anchor, _ in merged]],
+            [text for _, text in merged],
             name="finding-numbers",
-            font_size=20,
+            font_size=MARKER_FONT,
             point_color=colours.VERDICT["fail"],
             point_size=14,
             text_color="black",
@@ -137,18 +150,31 @@ class _Pictures:
         self.sections = session.sections, session.section_places
         session.show_sections((), ())
         self.scene.update_sections()
-        _add_markers(self.plotter, review)
+        mesh = self.scene.faces.mesh if self.scene.faces is not None else None
+        self.views = choose_views(mesh.points, mesh.point_data["Normals"]) if mesh is not None and mesh.n_points else ()
 
-    def show(self, mode: Mode, view: str, sections: bool = False) -> None:
+    def show(self, mode: Mode, view: View, sections: bool = False) -> None:
         session = self.session
         session.show_sections(*(self.sections if sections else ((), ())))
         self.scene.update_sections()
-        _set_view(self.plotter, view)
+        _set_view(self.plotter, view, ZOOM_WITH_LEGEND if mode == Mode.CURVATURE else ZOOM)
+        _add_markers(self.plotter, self.review)
         session.set_camera(self.scene.camera())
         session.set_display(mode=mode)
         self.scene.update_surface()
 
+    @property
+    def marker_words(self) -> str:
+        return " Numbered labels: the findings over tolerance of the same number." if _markers(self.review)[1] else ""
+
     def take(self, name: str, caption: str) -> Figure:
+        # Legend text for a picture printed at half size; set just before the shot (a new bar resets it).
+        for bar in self.plotter.scalar_bars.values():
+            bar.UnconstrainedFontSizeOn()  # the sizes below, not sizes fitted to the bar
+            bar.GetTitleTextProperty().SetFontSize(LEGEND_FONT[0])
+            bar.GetLabelTextProperty().SetFontSize(LEGEND_FONT[1])
+            bar.SetPosition(0.8, 0.1)
+            bar.SetPosition2(0.07, 0.72)
         return Figure(name, caption, _png(self.plotter))
 
     def close(self) -> None:
@@ -157,35 +183,37 @@ class _Pictures:
 
 def findings_view(pictures: _Pictures) -> Figure:
     """Where the findings are: shaded model, seams by verdict, numbered markers."""
-    pictures.show(Mode.SHADED, "iso")
+    view = pictures.views[0]
+    pictures.show(Mode.SHADED, view)
     caption = (
         "Seams within tolerance (green), seams over tolerance (red), free edges (amber), in the window's colours; "
-        "numbers match the findings table."
+        f"{view.words} (model axes)." + pictures.marker_words
     )
     return pictures.take("findings", caption)
 
 
 def curvature_views(pictures: _Pictures) -> list[Figure]:
-    """Mean curvature from each of :data:`VIEWS`, with the window's map, range and legend."""
+    """Mean curvature from each of the chosen views, with the window's map, range and legend."""
     figures = []
-    for view, words in VIEWS:
+    for view in pictures.views:
         pictures.show(Mode.CURVATURE, view)
-        low, high = pictures.session.colour_limits()
+        low, high = (number_text(v, 3) for v in pictures.session.colour_limits())
         caption = (
-            f"Mean curvature H (1/mm), {words}, as the window shows it: colour range {low:.3g} to {high:.3g} 1/mm "
-            f"(larger values show in the end colours); {CURVATURE_SIGN}. Numbered markers: findings over tolerance."
+            f"Mean curvature H, {view.words} (model axes), as the window shows it: colours from {low} to {high} "
+            f"1/mm (larger values show in the end colours); {CURVATURE_SIGN}." + pictures.marker_words
         )
-        figures.append(pictures.take(f"curvature-{view}", caption))
+        figures.append(pictures.take(f"curvature-{view.name}", caption))
     return figures
 
 
 def stripe_view(pictures: _Pictures) -> Figure:
-    """Reflection lines seen from the isometric view, with the window's stripe settings."""
-    pictures.show(Mode.REFLECTION, "iso")
+    """Reflection lines seen from the oblique view, with the window's stripe settings."""
+    view = pictures.views[0]
+    pictures.show(Mode.REFLECTION, view)
     stripes = pictures.session.display.stripes
     caption = (
         f"Reflection lines as the window draws them: light lines along {stripes.direction}, {stripes.count} per "
-        f"180 degrees of reflected-ray angle, light share {stripes.width:g}; isometric view. Lines should run "
+        f"180° of reflected-ray angle, light share {stripes.width:g}; {view.words} (model axes). Lines should run "
         "smooth and unbroken across seams; a break or kink shows a tangent or curvature defect."
     )
     return pictures.take("stripes", caption)
@@ -195,11 +223,12 @@ def comb_view(pictures: _Pictures) -> Figure | None:
     """Curvature combs of every section curve, as the window draws them."""
     if not pictures.sections[0]:
         return None
-    pictures.show(Mode.SHADED, "iso", sections=True)
+    view = pictures.views[0]
+    pictures.show(Mode.SHADED, view, sections=True)
     caption = (
         "Curvature combs of the check's sections, drawn as in the window: teeth on the convex side (away from the "
         "centre of curvature), length proportional to |k|, with their envelope; pink dots: inflections, where the "
-        "comb changes side; blue dots: curvature extrema."
+        f"comb changes side; blue dots: curvature extrema; {view.words} (model axes)."
     )
     return pictures.take("combs", caption)
 
@@ -238,8 +267,9 @@ def _png_of(fig) -> bytes:
 def family_plot(review: FileReview, family: str, number: int) -> Figure | None:
     """Signed curvature against arc length for every curve of one section family (matplotlib, no display)."""
     members = {i for i, s in enumerate(review.sections) if s.get("family") == family}
+    planes = free_planes(review.sections)
     curves = [
-        (c, review.sections[plane].get("label", str(plane + 1)))
+        (c, section_name(review.sections[plane], planes))
         for c, (plane, _) in zip(review.section_curves, review.section_places, strict=True)
         if plane in members and c.points.shape[0] > 1
     ]
@@ -263,13 +293,18 @@ def family_plot(review: FileReview, family: str, number: int) -> Figure | None:
     ax.axhline(0.0, color="0.4", lw=0.8)
     ax.set_xlabel("arc length s along the section (mm)")
     ax.set_ylabel("curvature k (1/mm)")
-    ax.ticklabel_format(axis="y", style="sci", scilimits=(-2, 2))
+    # Plain 1/mm ticks: no "1e-2" offset above the axis for the reader to multiply in; flat sections get a
+    # small fixed span instead of rounding noise stretched over the whole axis.
+    low, high = ax.get_ylim()
+    if high - low < 2 * PLOT_SPAN_MIN:
+        ax.set_ylim(-PLOT_SPAN_MIN, PLOT_SPAN_MIN)
+    ax.ticklabel_format(axis="y", style="plain", useOffset=False)
     ax.grid(True, lw=0.3)
     ax.legend(fontsize=7, loc="upper left", bbox_to_anchor=(1.01, 1.0), borderaxespad=0.0)
     fig.tight_layout()
     caption = (
-        f"Section family '{family}': curvature along each curve (one colour per plane), {CURVATURE_SIGN}; pink "
-        "dots: inflections. A fair curve shows few monotone pieces and no sign change it was not designed with."
+        f"Sections of {family_words(family)}: curvature along each curve (one colour per plane), {CURVATURE_SIGN}; "
+        "pink dots: inflections. A fair curve shows few monotone pieces and no sign change it was not designed with."
     )
     return Figure(f"family-{number}", caption, _png_of(fig))
 
@@ -296,7 +331,7 @@ def render_figures(
     session = report_session(model, review, stripes, section)
     session.show_sections(review.section_curves, review.section_places)
     pictures = _Pictures(session, review)
-    if pictures.scene.faces is None or pictures.scene.faces.mesh.n_cells == 0:
+    if pictures.scene.faces is None or pictures.scene.faces.mesh.n_cells == 0 or not pictures.views:
         pictures.close()
         return ()
     try:

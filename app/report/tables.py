@@ -1,47 +1,108 @@
 """Rows of the report's tables, as text, from a :class:`FileReview`.
 
-Each function returns ``(header, rows)``; numbers are formatted here once so the
-PDF and the HTML show the same digits.
+Each function returns ``(header, rows)``. A header names its unit in
+parentheses, or every cell carries its own; identifiers sit in a ``No.``
+column; faces go by their names. Numbers are formatted here once, so the PDF
+and the HTML show the same digits.
 """
 
 from __future__ import annotations
 
-from app.review.result import FAIL, FileReview
+from app.review.result import FAIL, PASS, FileReview, Finding
 
-# Measured values below this are rounding noise of exact joins; tables say so instead of printing 12 digits.
-ROUNDING_LEVEL = 1e-9
+from .wording import ROUNDING_LEVEL, count_words, curve_name, face_name, free_planes, number, plural, point, quantity
+
+# The release-to-tooling tables' names for the same formatting.
+num, xyz = number, point
+# The column of identifiers: a table's only number column without a unit.
+ID_HEADER = "No."
+# measure of a finding -> what was measured, in words
+MEASURE_WORDS = {
+    "gap": "largest gap between the faces (G0)",
+    "angle": "largest angle between the normals (G1)",
+    "curvature jump": "largest curvature jump across the seam, of the larger curvature (G2)",
+    "continuity": "continuity class",
+    "inflections": "inflections on the section curve",
+}
+# "broken": the faces do not even meet in position.
+# Column widths (percent of the page) of each table, so names and places get the room and numbers do not.
+WIDTHS = {
+    "findings": (5, 27, 26, 12, 9, 21),
+    "seams": (5, 27, 8, 10, 10, 10, 10, 12, 8),
+    "free_edges": (6, 30, 12, 26, 26),
+    "figures": (19, 16, 8, 10, 8, 12, 13, 14),
+    "inflections": (30, 18, 30, 22),
+    "extrema": (24, 12, 14, 11, 11, 28),
+    "faces": (5, 17, 9, 10, 16, 16, 16, 11),
+    "checked": (22, 40, 19, 19),
+    "files": (55, 12, 20, 13),
+    "profile": (70, 30),
+}
+CONTINUITY_WORDS = {"broken": "none", "G0": "G0", "G1": "G1", "G2": "G2", "G3": "G3"}
 
 
-def num(value, digits: int = 4) -> str:
-    """A number for a table cell: ``-`` for missing, 4 significant digits."""
+def face_names(review: FileReview) -> list[str]:
+    return [f.name for f in review.faces]
+
+
+def finding_value(value, unit: str, limit: bool = False) -> str:
+    """A finding's measured value or tolerance with its unit (``0.02 mm``, ``100%``, ``3 inflections``)."""
     if value is None:
-        return "-"
-    try:
-        value = float(value)
-    except (TypeError, ValueError):
-        return str(value)
-    if value != value:  # NaN
-        return "-"
-    if 0 < abs(value) < ROUNDING_LEVEL:
-        return "< 1e-9" if value > 0 else "> -1e-9"
-    return f"{value:.{digits}g}"
+        return "no limit"
+    if unit == "fraction":
+        return quantity(100.0 * float(value), "%", 3)
+    if unit == "deg":
+        return quantity(value, "°")
+    if unit == "count":
+        if limit and int(value) == 0:
+            return "none"
+        return plural(int(value), "inflection")
+    return quantity(value, unit)
 
 
-def xyz(point) -> str:
-    if point is None:
-        return "-"
-    return "(" + ", ".join(f"{float(c):.2f}" for c in point) + ")"
+def _seam_by_id(review: FileReview) -> dict:
+    return {s.get("id", i): s for i, s in enumerate(review.seams)}
+
+
+def finding_place(review: FileReview, finding: Finding) -> str:
+    """Where a finding is, for people: the seam and its faces, or the section curve."""
+    ref = finding.ref or {}
+    if "seam" in ref:
+        seam = _seam_by_id(review).get(ref["seam"], {})
+        names = seam_faces(review, seam)
+        reached = seam.get("continuity", "?")
+        reached = "not even G0" if reached == "broken" else reached
+        return f"seam {ref['seam']} between {names}: reaches {reached}"
+    if "section" in ref and ref["section"] < len(review.sections):
+        section = review.sections[ref["section"]]
+        curves = len(section.get("curves", ()))
+        return "section " + curve_name(section, int(ref.get("curve", 0)), curves, free_planes(review.sections))
+    return finding.subject
 
 
 def finding_rows(review: FileReview):
     """The findings over tolerance, numbered as the markers in the pictures."""
-    header = ["#", "subject", "measure", "value", "tolerance", "unit", "verdict", "where (mm)"]
+    header = [ID_HEADER, "Where", "What was measured", "Measured", "Allowed", "Position x, y, z (mm)"]
     rows = [
-        (str(n), f.subject, f.measure, num(f.value), num(f.limit), f.unit, f.verdict, xyz(f.where))
+        (
+            str(n),
+            finding_place(review, f),
+            MEASURE_WORDS.get(f.measure, f.measure),
+            finding_value(f.value, f.unit),
+            finding_value(f.limit, f.unit, limit=True),
+            point(f.where),
+        )
         for n, f in enumerate(review.findings, start=1)
         if f.verdict == FAIL
     ]
     return header, rows
+
+
+def seam_faces(review: FileReview, seam: dict) -> str:
+    names = seam.get("face_names")
+    if not names:
+        names = [face_name(i, face_names(review)) for i in seam.get("faces", ())]
+    return " and ".join(str(n) for n in names) if len(names) == 2 else " / ".join(map(str, names))
 
 
 def _seam_badness(seam: dict) -> tuple:
@@ -52,21 +113,32 @@ def _seam_badness(seam: dict) -> tuple:
 
 
 def seam_rows(review: FileReview):
-    header = ["seam", "faces", "length mm", "gap mm", "angle deg", "jump 1/mm", "jump rel", "class", "verdict"]
+    header = [
+        ID_HEADER,
+        "Faces",
+        "Length (mm)",
+        "Gap (mm)",
+        "Angle (°)",
+        "Jump (1/mm)",
+        "Relative jump (%)",
+        "Continuity reached",
+        "Verdict",
+    ]
     order = sorted(range(len(review.seams)), key=lambda i: _seam_badness(review.seams[i]))
     rows = []
     for i in order:
         s = review.seams[i]
+        rel = s.get("curvature_jump_rel_max")
         rows.append(
             (
                 str(s.get("id", i)),
-                " / ".join(str(f) for f in s.get("face_names") or s.get("faces", ())),
-                num(s.get("length")),
-                num(s.get("gap_max")),
-                num(s.get("angle_max_deg")),
-                num(s.get("curvature_jump_max")),
-                num(s.get("curvature_jump_rel_max")),
-                str(s.get("continuity", "-")),
+                seam_faces(review, s),
+                number(s.get("length")),
+                number(s.get("gap_max")),
+                number(s.get("angle_max_deg")),
+                number(s.get("curvature_jump_max")),
+                number(None if rel is None else 100.0 * float(rel), 3),
+                CONTINUITY_WORDS.get(s.get("continuity"), str(s.get("continuity", "-"))),
                 str(s.get("verdict", "-")),
             )
         )
@@ -74,117 +146,183 @@ def seam_rows(review: FileReview):
 
 
 def free_edge_rows(review: FileReview):
-    header = ["edge", "face", "length mm", "from (mm)", "to (mm)", "verdict"]
+    header = [ID_HEADER, "Face", "Length (mm)", "From x, y, z (mm)", "To x, y, z (mm)"]
+    names = face_names(review)
     rows = []
     for i, e in enumerate(review.free_edges):
         pts = e.get("points") or []
         rows.append(
             (
                 str(e.get("id", i)),
-                str(e.get("face", "-")),
-                num(e.get("length")),
-                xyz(e.get("start", pts[0] if pts else None)),
-                xyz(e.get("end", pts[-1] if pts else None)),
-                str(e.get("verdict", "-")),
+                e.get("face_name") or face_name(e.get("face", "-"), names),
+                number(e.get("length")),
+                point(e.get("start", pts[0] if pts else None)),
+                point(e.get("end", pts[-1] if pts else None)),
             )
         )
     return header, rows
 
 
 def _curves(review: FileReview):
-    for si, section in enumerate(review.sections):
-        for ci, curve in enumerate(section.get("curves", ())):
-            yield si, section, ci, curve
+    """(curve name, curve) of every section curve, in order."""
+    planes = free_planes(review.sections)
+    for section in review.sections:
+        curves = section.get("curves", ())
+        for ci, curve in enumerate(curves):
+            yield curve_name(section, ci, len(curves), planes), curve
+
+
+def _faces_of(review: FileReview, indices) -> str:
+    names = face_names(review)
+    return ", ".join(face_name(i, names) for i in indices) or "-"
 
 
 def figure_rows(review: FileReview):
     header = [
-        "section",
-        "curve",
-        "faces",
-        "length mm",
-        "inflections",
-        "extrema",
-        "pieces",
-        "max |k| 1/mm",
-        "int (dk/ds)^2 ds",
+        "Section curve",
+        "Faces crossed",
+        "Length (mm)",
+        "Inflections",
+        "Extrema",
+        "Monotone pieces",
+        "Largest |k| (1/mm)",
+        "Variation (1/mm\u00b3)",
     ]
     rows = []
-    for _, section, ci, c in _curves(review):
+    for name, c in _curves(review):
         fig = c.get("figures", {})
         rows.append(
             (
-                section.get("label", "-"),
-                str(ci + 1),
-                ",".join(str(f) for f in c.get("faces", ())),
-                num(c.get("length")),
+                name,
+                _faces_of(review, c.get("faces", ())),
+                number(c.get("length")),
                 str(fig.get("inflections", len(c.get("inflections", ())))),
                 str(fig.get("extrema", len(c.get("extrema", ())))),
                 str(fig.get("monotone_pieces", "-")),
-                num(fig.get("max_abs_curvature")),
-                num(fig.get("curvature_variation")),
+                number(fig.get("max_abs_curvature")),
+                number(fig.get("curvature_variation")),
             )
         )
     return header, rows
 
 
 def inflection_rows(review: FileReview):
-    header = ["section", "curve", "s mm", "point (mm)", "face", "(u, v)"]
-    rows = []
-    for _, section, ci, c in _curves(review):
-        for p in c.get("inflections", ()):
-            uv = p.get("uv")
-            rows.append(
-                (
-                    section.get("label", "-"),
-                    str(ci + 1),
-                    num(p.get("s")),
-                    xyz(p.get("point")),
-                    str(p.get("face", "-")),
-                    "-" if uv is None else f"({num(uv[0])}, {num(uv[1])})",
-                )
-            )
+    header = ["Section curve", "Arc length s (mm)", "Point x, y, z (mm)", "Face"]
+    names = face_names(review)
+    rows = [
+        (name, number(p.get("s")), point(p.get("point")), face_name(p.get("face", "-"), names))
+        for name, c in _curves(review)
+        for p in c.get("inflections", ())
+    ]
     return header, rows
+
+
+def _radius(curvature, flat: float) -> str:
+    if curvature is None or abs(float(curvature)) < flat:
+        return "flat"
+    return number(1.0 / abs(float(curvature)))
+
+
+def _flat_level(review: FileReview) -> float:
+    return float(review.profile.get("flat_curvature_per_mm") or 1e-6)
 
 
 def extrema_rows(review: FileReview):
-    header = ["section", "curve", "s mm", "curvature 1/mm", "radius mm", "kind", "point (mm)"]
+    header = ["Section curve", "Arc length s (mm)", "Curvature k (1/mm)", "Radius (mm)", "Kind", "Point x, y, z (mm)"]
+    flat = _flat_level(review)
     rows = []
-    for _, section, ci, c in _curves(review):
+    for name, c in _curves(review):
         for p in c.get("extrema", ()):
             k = p.get("curvature")
-            radius = None if not k else 1.0 / abs(float(k))
-            kind = "-" if "maximum" not in p else ("max" if p["maximum"] else "min")
-            rows.append(
-                (
-                    section.get("label", "-"),
-                    str(ci + 1),
-                    num(p.get("s")),
-                    num(k),
-                    num(radius),
-                    kind,
-                    xyz(p.get("point")),
-                )
-            )
+            kind = "-" if "maximum" not in p else ("maximum" if p["maximum"] else "minimum")
+            rows.append((name, number(p.get("s")), number(k), _radius(k, flat), kind, point(p.get("point"))))
     return header, rows
 
 
+def _span(pair) -> str:
+    # A curvature range ending within rounding noise of zero ends at zero.
+    low, high = (0.0 if abs(float(v)) < ROUNDING_LEVEL else v for v in pair)
+    return f"{number(low, 3)} to {number(high, 3)}"
+
+
 def face_rows(review: FileReview):
-    header = ["face", "name", "degrees", "poles", "k1 min..max", "k2 min..max", "K min..max", "min radius mm"]
+    header = [
+        ID_HEADER,
+        "Face",
+        "Degree u \u00d7 v",
+        "Control points u \u00d7 v",
+        "k1, lowest to highest (1/mm)",
+        "k2, lowest to highest (1/mm)",
+        "Gaussian K, lowest to highest (1/mm\u00b2)",
+        "Smallest radius (mm)",
+    ]
     rows = []
     for f in review.faces:
         c = f.curvature
-        span = (lambda a: f"{num(a[0], 3)} .. {num(a[1], 3)}") if c else None
         rows.append(
             (
                 str(f.id),
-                f.name or "-",
-                f"{f.degrees[0]} x {f.degrees[1]}",
-                f"{f.poles[0]} x {f.poles[1]}",
-                span(c.k1) if c else "-",
-                span(c.k2) if c else "-",
-                span(c.gaussian) if c else "-",
-                num(c.min_radius) if c else "-",
+                f.name or f"face {f.id}",
+                f"{f.degrees[0]} \u00d7 {f.degrees[1]}",
+                f"{f.poles[0]} \u00d7 {f.poles[1]}",
+                _span(c.k1) if c else "-",
+                _span(c.k2) if c else "-",
+                _span(c.gaussian) if c else "-",
+                ("flat" if c.min_radius is None else number(c.min_radius)) if c else "-",
+            )
+        )
+    return header, rows
+
+
+def checked_rows(review: FileReview):
+    """What the check measured and judged, each count saying what it counts."""
+    header = ["Check", "What was measured", "Within tolerance", "Over tolerance"]
+    counts = review.summary()["counts"]
+    seams = counts.get("seam", {})
+    rows = [
+        (
+            "Seam continuity",
+            count_words(len(review.seams), "seam") + " between faces",
+            plural(seams.get(PASS, 0), "seam"),
+            plural(seams.get(FAIL, 0), "seam"),
+        )
+    ]
+    curves = [c for _, c in _curves(review)]
+    found = sum(len(c.get("inflections", ())) for c in curves)
+    measured = (
+        f"{plural(len(review.sections), 'section plane')} cut, {plural(len(curves), 'section curve')}, "
+        f"{plural(found, 'inflection')} on them"
+    )
+    if "inflection" in counts:
+        judged = counts["inflection"]
+        rows.append(
+            (
+                "Inflections of section curves",
+                measured,
+                plural(judged.get(PASS, 0), "curve"),
+                plural(judged.get(FAIL, 0), "curve"),
+            )
+        )
+    else:
+        rows.append(("Inflections of section curves", measured, "listed, not judged", "-"))
+    length = sum(float(e.get("length") or 0.0) for e in review.free_edges)
+    edges = count_words(len(review.free_edges), "free edge")
+    rows.append(("Open boundary", f"{edges}, {quantity(length, 'mm')} in all", "listed, not judged", "-"))
+    return header, rows
+
+
+def file_rows(reviews):
+    """The cover's list of files: name, faces, findings over tolerance, verdict."""
+    header = ["File", "Faces", "Findings over tolerance", "Verdict"]
+    rows = []
+    for r in reviews:
+        checked = r.status == "checked"
+        rows.append(
+            (
+                r.source,
+                plural(len(r.faces), "face") if checked else "-",
+                plural(len(r.failures), "finding") if checked else "not checked",
+                r.verdict,
             )
         )
     return header, rows

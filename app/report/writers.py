@@ -13,12 +13,14 @@ from geometry import __version__
 from geometry.errors import BattenError
 
 from .atomic import write_atomically
-from .document import document, image_key
+from .document import TITLE, document, image_key, model_name
 from .figures import Figure
+from .pages import MARGIN_MM, print_pages
 
 FORMATS = {".pdf": "pdf", ".html": "html", ".htm": "html"}
 RESOURCE_SCHEME = "batten-image"
-PAGE_MARGIN_MM = 15.0
+# More files than this: the cover's running header counts them instead of naming them.
+MODELS_IN_HEADER = 3
 
 _app = None  # the QApplication this module made, kept alive for later reports
 
@@ -57,16 +59,27 @@ def html_bytes(
     return document(reviews, figures, src, created, __version__, comparison=comparison).encode("utf-8")
 
 
+def running_header(reviews: Sequence[FileReview], created: str):
+    """``header(page, chapter) -> (left, right)`` for :func:`app.report.pages.print_pages`."""
+    names = [model_name(r) for r in reviews]
+    everything = ", ".join(names) if len(names) <= MODELS_IN_HEADER else f"{len(names)} files"
+
+    def header(_page: int, chapter: str) -> tuple[str, str]:
+        return f"{TITLE}: {chapter or everything}", f"Batten {__version__}, {created}"
+
+    return header
+
+
 def write_pdf_file(target: str, reviews, figures, created: str, comparison=None) -> None:
-    """Lay the document out with QTextDocument and print it to ``target`` with QPdfWriter (A4)."""
+    """Lay the document out with QTextDocument and paint it to ``target`` with QPdfWriter (A4)."""
     _gui_application()
     from PySide6.QtCore import QMarginsF, QUrl
     from PySide6.QtGui import QImage, QPageLayout, QPageSize, QPdfWriter, QTextDocument
 
     writer = QPdfWriter(target)
     writer.setPageSize(QPageSize(QPageSize.PageSizeId.A4))
-    writer.setPageMargins(QMarginsF(*(PAGE_MARGIN_MM,) * 4), QPageLayout.Unit.Millimeter)
-    writer.setTitle("Surface fairness review")
+    writer.setPageMargins(QMarginsF(*(MARGIN_MM,) * 4), QPageLayout.Unit.Millimeter)
+    writer.setTitle(TITLE)
     writer.setCreator(f"Batten {__version__}")
     doc = QTextDocument()
     for name, png in _images(figures).items():
@@ -77,7 +90,7 @@ def write_pdf_file(target: str, reviews, figures, created: str, comparison=None)
         reviews, figures, lambda name: f"{RESOURCE_SCHEME}:{name}", created, __version__, comparison=comparison
     )
     doc.setHtml(html)
-    doc.print_(writer)
+    print_pages(writer, doc, running_header(reviews, created), [model_name(r) for r in reviews])
     del doc, writer  # the PDF is finished when the writer goes
     if not Path(target).stat().st_size:
         raise BattenError(f"{target}: Qt wrote an empty PDF")

@@ -1,0 +1,201 @@
+"""The PDF's pages: the document laid out on A4, headings and pictures kept with what follows, a running
+header with the model's name and a footer with the page number on every page.
+
+QTextDocument paginates but knows no "keep with next"; :func:`keep_together`
+supplies it: after layout, a heading or a picture whose following block (a
+table's first body row, a caption) lands on a later page gets a page break
+before it, and the layout runs on from there. Pages are then painted one by
+one, clipped, between a header and a footer of our own, as QTextDocument's own
+``print`` would do without them.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable, Sequence
+
+# Layout resolution of the document (Qt's default screen resolution: image widths are in these pixels).
+LAYOUT_DPI = 96.0
+MM_PER_INCH = 25.4
+A4_MM = (210.0, 297.0)
+MARGIN_MM = 15.0
+# Room for the running header and the footer inside the margins.
+BAND_MM = 7.0
+HEADER_POINT_SIZE = 7.5
+OBJECT_CHAR = "\ufffc"  # a block made of this character alone holds an inline image
+
+
+def _px(mm: float) -> float:
+    return mm / MM_PER_INCH * LAYOUT_DPI
+
+
+def _is_picture(block) -> bool:
+    text = block.text().strip()
+    return bool(text) and set(text) == {OBJECT_CHAR}
+
+
+def _keeps_with_next(block) -> bool:
+    return block.blockFormat().headingLevel() > 0 or _is_picture(block)
+
+
+def _breaks_before(block) -> bool:
+    from PySide6.QtGui import QTextFormat
+
+    policy = block.blockFormat().pageBreakPolicy()
+    return bool(policy & QTextFormat.PageBreakFlag.PageBreak_AlwaysBefore)
+
+
+def _first_body_block(block):
+    """The block whose page a kept block must share: past a table's header rows to its first body row."""
+    from PySide6.QtGui import QTextCursor
+
+    table = QTextCursor(block).currentTable()
+    if table is None:
+        return block
+    first = min(table.format().headerRowCount(), table.rows() - 1)
+    return table.cellAt(first, 0).firstCursorPosition().block()
+
+
+def _group_end(block):
+    """The last block a kept block must share a page with (a chain of headings and a picture and caption)."""
+    nxt = block.next()
+    while nxt.isValid() and not nxt.text().strip() and not _is_picture(nxt):
+        nxt = nxt.next()
+    if not nxt.isValid():
+        return block
+    if _keeps_with_next(nxt) and not _breaks_before(nxt):
+        return _group_end(nxt)
+    return _first_body_block(nxt)
+
+
+def keep_together(doc, page_height: float) -> int:
+    """Break the page before every heading or picture separated from what follows it.
+
+    Parameters
+    ----------
+    doc : QTextDocument
+        Laid out with a page size (``doc.setPageSize``).
+    page_height : float
+        Height of one page in layout pixels.
+
+    Returns
+    -------
+    int
+        How many page breaks were added.
+    """
+    from PySide6.QtGui import QTextBlockFormat, QTextCursor, QTextFormat
+
+    layout = doc.documentLayout()
+    added = 0
+    block = doc.begin()
+    while block.isValid():
+        if _keeps_with_next(block):
+            top = layout.blockBoundingRect(block).top()
+            end = layout.blockBoundingRect(_group_end(block)).bottom()
+            first_page = int(top // page_height)
+            # A group taller than a page cannot be kept together; leave it where it falls.
+            spans = int((end - 1.0) // page_height) > first_page
+            at_top = top <= first_page * page_height + 1.0
+            if spans and not at_top and end - top < page_height:
+                fmt = QTextBlockFormat()
+                fmt.setPageBreakPolicy(QTextFormat.PageBreakFlag.PageBreak_AlwaysBefore)
+                QTextCursor(block).mergeBlockFormat(fmt)
+                # Lay out again from here: positions read after a format change are stale otherwise.
+                doc.markContentsDirty(block.position(), doc.characterCount() - block.position())
+                added += 1
+        block = block.next()
+    return added
+
+
+def _finish_layout(doc) -> None:
+    """Lay the whole document out afresh: block formats changed after layout leave later blocks unpainted."""
+    doc.markContentsDirty(0, doc.characterCount())
+    layout = doc.documentLayout()
+    block = doc.begin()
+    while block.isValid():
+        layout.blockBoundingRect(block)
+        block = block.next()
+
+
+def chapter_pages(doc, page_height: float) -> list[tuple[int, str]]:
+    """(first page, title) of every level-2 heading, in order."""
+    layout = doc.documentLayout()
+    found = []
+    block = doc.begin()
+    while block.isValid():
+        if block.blockFormat().headingLevel() == 2:
+            found.append((int(layout.blockBoundingRect(block).top() // page_height), block.text().strip()))
+        block = block.next()
+    return found
+
+
+def print_pages(
+    writer,
+    doc,
+    header: Callable[[int, str], tuple[str, str]],
+    chapters_named: Sequence[str],
+) -> int:
+    """Lay ``doc`` out on the writer's pages and paint them with a running header and footer.
+
+    Parameters
+    ----------
+    writer : QPdfWriter
+        With its page size and margins set.
+    doc : QTextDocument
+    header : callable
+        ``header(page_index, chapter_title) -> (left, right)``: the header's two texts.
+    chapters_named : sequence of str
+        Level-2 headings that name a model; the pages under any other heading (or
+        before the first) belong to the whole review.
+
+    Returns
+    -------
+    int
+        Number of pages.
+    """
+    from PySide6.QtCore import QPointF, QRectF, QSizeF, Qt
+    from PySide6.QtGui import QFont, QPainter
+
+    width_mm = A4_MM[0] - 2 * MARGIN_MM
+    height_mm = A4_MM[1] - 2 * MARGIN_MM - 2 * BAND_MM
+    page = QSizeF(_px(width_mm), _px(height_mm))
+    doc.setPageSize(page)
+    keep_together(doc, page.height())
+    _finish_layout(doc)
+    count = doc.pageCount()
+    chapters = chapter_pages(doc, page.height())
+    named = set(chapters_named)
+
+    painter = QPainter(writer)
+    scale = writer.resolution() / LAYOUT_DPI
+    band = _px(BAND_MM)
+    font = QFont(doc.defaultFont())
+    font.setPointSizeF(HEADER_POINT_SIZE)  # points of the PDF device: drawn before the layout's scale
+    left_align = int(Qt.AlignmentFlag.AlignLeft | Qt.AlignmentFlag.AlignVCenter)
+    right_align = int(Qt.AlignmentFlag.AlignRight | Qt.AlignmentFlag.AlignVCenter)
+    width = page.width() * scale
+    try:
+        for index in range(count):
+            if index:
+                writer.newPage()
+            title = ""
+            for first, name in chapters:
+                if first <= index:
+                    title = name if name in named else ""
+            left, right = header(index, title)
+            painter.setFont(font)
+            top = QRectF(0.0, 0.0, width, band * 0.7 * scale)
+            painter.drawText(top, left_align, left)
+            painter.drawText(top, right_align, right)
+            painter.drawLine(QPointF(0.0, band * 0.75 * scale), QPointF(width, band * 0.75 * scale))
+            foot = QRectF(0.0, (band + page.height() + band * 0.3) * scale, width, band * 0.7 * scale)
+            painter.drawText(foot, int(Qt.AlignmentFlag.AlignCenter), f"Page {index + 1} of {count}")
+            painter.save()
+            painter.scale(scale, scale)
+            painter.translate(0.0, band - index * page.height())
+            clip = QRectF(0.0, index * page.height(), page.width(), page.height())
+            painter.setClipRect(clip)
+            doc.drawContents(painter, clip)
+            painter.restore()
+    finally:
+        painter.end()
+    return count
