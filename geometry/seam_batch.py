@@ -20,8 +20,8 @@ from .seam_tolerance import SeamTolerance, classify
 MAX_SPACING_MM = 1.0
 MIN_SAMPLES, MAX_SAMPLES = 129, 4097
 # Refinement of each maximum: grid points per round and rounds; the bracket
-# (two sample spacings) shrinks 16-fold per round, to about 1e-6 spacings.
-ZOOM_POINTS, ZOOM_ROUNDS = 33, 5
+# (two sample spacings) shrinks 4-fold per round, to about 2e-6 spacings.
+ZOOM_POINTS, ZOOM_ROUNDS = 9, 10
 # Measures refined to their maximum; their keys in the plain-dict "worst".
 REFINED = ("gap", "angle", "curvature_jump", "curvature_jump_rel", "iso_curvature_jump", "curvature_derivative_jump")
 SAMPLED = (

@@ -20,10 +20,10 @@ parameters. At an arc-length fraction ``tau`` of a seam:
    curvature across the seam on each side and its jump, and the iso-curve
    jumps where both sides are iso-parameter lines.
 
-Everything is vectorised over every sample of every seam: each stage makes one
-call per face (:meth:`NurbsSurface.derivatives_at`,
-:func:`geometry.probe.closest_parameters`) with all that face's points,
-whichever seams they belong to.
+Everything is vectorised over every sample of every seam: each stage is one
+compiled call over every face of the model at once
+(:func:`geometry.compiled_eval.derivatives`,
+:func:`geometry.compiled_inversion.invert` on a :class:`SurfacePack`).
 """
 
 from __future__ import annotations
@@ -31,6 +31,8 @@ from __future__ import annotations
 import numpy as np
 
 from .adjacency import SeamPair
+from .compiled_eval import SurfacePack, derivatives
+from .compiled_inversion import invert
 from .model import Model
 from .seam_boundary import BoundaryCurve
 from .seam_measures import DEGENERATE_SPEED, INWARD_OFFSET, ISO_ALIGNED_DEG, ORIENTATION_VOTES, _iso_curvature
@@ -46,10 +48,6 @@ CROSSING_SINE = 1e-3
 MAX_STEP_GAPS = 1e3
 # A gap below this (mm) needs no alternation: far below any position tolerance.
 ALTERNATE_ABOVE_MM = 1e-6
-# Point inversion: at most this many Newton steps; converged when a step moves
-# less than this fraction of the domain.
-NEWTON_ITERATIONS = 8
-NEWTON_STEP = 1e-13
 # |Su x Sv| relative to |Su| |Sv| below this: no tangent plane (a pole).
 DEGENERATE_SINE = 1e-10
 
@@ -105,7 +103,8 @@ class EdgeSeams:
         self.model = model
         self.pairs = list(pairs)
         self.flat_curvature = float(flat_curvature)
-        self.domains = np.array([np.ravel(f.surface.domain) for f in model.faces]).reshape(-1, 4)
+        self.pack = SurfacePack.of([f.surface for f in model.faces])
+        self.domains = self.pack.domains
         counts = np.array([p.points.shape[0] for p in self.pairs])
         self.start = np.concatenate([[0], np.cumsum(counts)[:-1]]).astype(int)
         self.count = counts
@@ -177,49 +176,17 @@ class EdgeSeams:
 
         Notes
         -----
-        Point inversion, The NURBS Book (2nd ed.), sec. 6.1, eq. 6.6: Newton's
-        method on ``Su . r = 0``, ``Sv . r = 0`` with ``r = S(u, v) - P``,
-        clamped to the domain. The starts (the p-curves' parameters, or the
-        previous foot) lie within a chord's sag of the answer, so a few steps
-        converge; each step is one call per face over all active points.
+        Point inversion, The NURBS Book (2nd ed.), sec. 6.1, eq. 6.6, compiled,
+        every point of every face in one call (:func:`geometry.compiled_inversion.invert`).
         """
-        uv = np.array(uv, dtype=float)
-        active = np.arange(faces.size)
-        for _ in range(NEWTON_ITERATIONS):
-            if active.size == 0:
-                break
-            d = self._derivatives(faces[active], uv[active], np.full(active.size, 2))
-            r = d[0, 0] - points[active]
-            su, sv = d[1, 0], d[0, 1]
-            f, g = dot(su, r), dot(sv, r)
-            a = dot(su, su) + dot(r, d[2, 0])
-            b = dot(su, sv) + dot(r, d[1, 1])
-            c = dot(sv, sv) + dot(r, d[0, 2])
-            det = a * c - b * b
-            ok = np.abs(det) > 1e-300
-            safe = np.where(ok, det, 1.0)
-            step = np.stack([np.where(ok, -(c * f - b * g) / safe, 0.0), np.where(ok, -(a * g - b * f) / safe, 0.0)], 1)
-            new = self._clip(faces[active], uv[active] + step)
-            moved = np.abs(new - uv[active]).sum(axis=1)
-            uv[active] = new
-            active = active[moved > NEWTON_STEP * self._span(faces[active])]
-        return uv
-
-    def _clip(self, faces: np.ndarray, uv: np.ndarray) -> np.ndarray:
-        box = self.domains[faces]
-        return np.stack([np.clip(uv[:, 0], box[:, 0], box[:, 1]), np.clip(uv[:, 1], box[:, 2], box[:, 3])], 1)
-
-    def _span(self, faces: np.ndarray) -> np.ndarray:
-        box = self.domains[faces]
-        return np.maximum(box[:, 1] - box[:, 0], box[:, 3] - box[:, 2])
+        u, v = invert(self.pack, faces, points, uv[:, 0], uv[:, 1])
+        return np.stack([u, v], axis=1)
 
     def _derivatives(self, faces: np.ndarray, uv: np.ndarray, order: np.ndarray) -> np.ndarray:
-        """Derivatives up to order 3 (zero beyond each sample's ``order``), shape (4, 4, k, 3)."""
+        """Derivatives up to order 3 (the highest ``order`` asked), shape (4, 4, k, 3); one compiled call."""
         out = np.zeros((4, 4, faces.size, 3))
-        for face, idx in _by_face(faces):
-            top = int(order[idx].max())
-            d = self.model.faces[face].surface.derivatives_at(uv[idx, 0], uv[idx, 1], top)
-            out[: top + 1, : top + 1, idx] = d
+        top = int(order.max(initial=0))
+        out[: top + 1, : top + 1] = derivatives(self.pack, faces, uv[:, 0], uv[:, 1], top)
         return out
 
     def _inside(self, faces: np.ndarray, uv: np.ndarray) -> np.ndarray:
@@ -231,15 +198,16 @@ class EdgeSeams:
     def _feet(self, seam: np.ndarray, at: dict) -> tuple[np.ndarray, np.ndarray]:
         """Parameters of the two feet (see the module notes, steps 2 and 3), shape (k, 2) each."""
         fa, fb = self.face_a[seam], self.face_b[seam]
-        both = np.concatenate([fa, fb])
-        uv = self._project(both, np.concatenate([at["edge"], at["edge"]]), np.concatenate([at["uv_a"], at["uv_b"]]))
-        # Then each foot onto the other surface: where one face ends exactly on
-        # the edge (its foot clamped to its boundary), the other foot comes to
-        # that same edge point, whatever the polyline's own small error.
-        pa, pb = self._points(both[: seam.size], uv[: seam.size]), self._points(both[seam.size :], uv[seam.size :])
-        uv = self._project(both, np.concatenate([pb, pa]), uv)
-        uv_a, uv_b = uv[: seam.size], uv[seam.size :]
-        pa, pb = self._points(fa, uv_a), self._points(fb, uv_b)
+        # The edge point onto face a, that foot onto face b, and that one back
+        # onto face a: where either face ends exactly on the edge (its foot
+        # clamped to its boundary), both feet come to that same edge point,
+        # whatever the polyline's own small error.
+        uv_a = self._project(fa, at["edge"], at["uv_a"])
+        pa = self._points(fa, uv_a)
+        uv_b = self._project(fb, pa, at["uv_b"])
+        pb = self._points(fb, uv_b)
+        uv_a = self._project(fa, pb, uv_a)
+        pa = self._points(fa, uv_a)
         gap = np.linalg.norm(pa - pb, axis=1)
         active = np.flatnonzero(gap > ALTERNATE_ABOVE_MM)
         for _ in range(ALTERNATIONS):
@@ -297,16 +265,13 @@ class EdgeSeams:
         return middle + step
 
     def _points(self, faces: np.ndarray, uv: np.ndarray) -> np.ndarray:
-        out = np.empty((faces.size, 3))
-        for face, idx in _by_face(faces):
-            out[idx] = self.model.faces[face].surface.points_at(uv[idx, 0], uv[idx, 1])
-        return out
+        return derivatives(self.pack, faces, uv[:, 0], uv[:, 1], 0)[0, 0]
 
     # -- orientation ------------------------------------------------------
     def _inward_turn(self, faces, uv, slope, d, normal, tangent) -> np.ndarray:
         """Sign of (n x T) . inward across the boundary: +1, -1, or 0 when undecided."""
-        spans = np.array([[np.subtract(*self.model.faces[f].surface.domain[k])[()] for k in (0, 1)] for f in faces])
-        spans = np.abs(spans)
+        box = self.domains[faces]
+        spans = np.stack([box[:, 1] - box[:, 0], box[:, 3] - box[:, 2]], axis=1)
         perp = np.stack([-slope[:, 1], slope[:, 0]], axis=1)
         perp = perp / np.maximum(np.linalg.norm(perp / spans, axis=1, keepdims=True), 1e-300) * INWARD_OFFSET
         plus, minus = self._inside(faces, uv + perp), self._inside(faces, uv - perp)
