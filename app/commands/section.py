@@ -15,9 +15,9 @@ from __future__ import annotations
 import argparse
 import json
 import math
-import os
 import sys
-import tempfile
+
+from .reading import add_read_options, read_budget
 
 
 def add_arguments(parser: argparse.ArgumentParser) -> None:
@@ -38,6 +38,7 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
         "--point-spacing", type=float, metavar="MM", help="mm between curve points (default: model size / 400)"
     )
     parser.add_argument("--json", metavar="OUT", help="write the JSON to OUT instead of printing it")
+    add_read_options(parser)
 
 
 def _check(args: argparse.Namespace) -> None:
@@ -55,31 +56,16 @@ def _check(args: argparse.Namespace) -> None:
         raise BattenError("--point-spacing must be a positive number of mm")
 
 
-def write_atomically(path: str, text: str) -> None:
-    """Write ``text`` to ``path`` through a temporary file in the same folder and os.replace."""
-    from geometry.errors import BattenError
-
-    folder = os.path.dirname(os.path.abspath(path))
-    if not os.path.isdir(folder):
-        raise BattenError(f"{path}: the folder {folder} does not exist")
-    fd, tmp = tempfile.mkstemp(prefix=".batten-", suffix=".json.tmp", dir=folder)
-    try:
-        with os.fdopen(fd, "w", encoding="utf-8") as out:
-            out.write(text)
-        os.replace(tmp, path)
-    except OSError as exc:
-        if os.path.exists(tmp):
-            os.unlink(tmp)
-        raise BattenError(f"{path}: cannot write ({exc.strerror or exc})") from exc
-
-
 def run(args: argparse.Namespace) -> int:
     from geometry.conventions import CURVATURE_SIGN
     from geometry.io import read_model
+    from geometry.io.files import check_writable, write_atomically
     from geometry.sections import SectionEngine
 
     _check(args)
-    model = read_model(args.file)
+    if args.json:
+        check_writable(args.json, inputs=[args.file])
+    model = read_model(args.file, read_budget(args))
     engine = SectionEngine(model, point_spacing=args.point_spacing)
     point, normal = args.plane[:3], args.plane[3:]
     family = engine.family(point, normal, args.count, args.spacing or 0.0)
@@ -98,7 +84,7 @@ def run(args: argparse.Namespace) -> int:
         out["warnings"] = list(model.warnings)
     text = json.dumps(out, indent=1) + "\n"
     if args.json:
-        write_atomically(args.json, text)
+        write_atomically(args.json, text, inputs=[args.file])
         print(f"{len(curves)} curves on {len(family)} planes written to {args.json}", file=sys.stderr)
     else:
         sys.stdout.write(text)

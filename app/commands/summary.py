@@ -11,6 +11,8 @@ import argparse
 import json
 import sys
 
+from .reading import add_read_options, read_budget
+
 
 def add_arguments(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("file", help="STEP, IGES or JSON surface model")
@@ -22,6 +24,7 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
         metavar="N",
         help="total samples (default: as many as batten check and the window use)",
     )
+    add_read_options(parser)
 
 
 def face_rows(model, budget: int | None = None) -> list[dict]:
@@ -87,7 +90,7 @@ def run(args: argparse.Namespace) -> int:
 
     if args.samples is not None and args.samples < 1000:
         raise BattenError("--samples must be at least 1000")
-    model = read_model(args.file)
+    model = read_model(args.file, read_budget(args))
     rows = face_rows(model, args.samples)
     if args.json:
         doc = {

@@ -26,6 +26,7 @@ from pathlib import Path
 from types import MappingProxyType
 
 from geometry.errors import ReadError
+from geometry.io.files import read_regular
 from geometry.seam_tolerance import CLASSES, SeamTolerance
 
 DEFAULT_PROFILE = "class-a"
@@ -42,6 +43,8 @@ TOOLING_KEYS = (PULL_KEY, DRAFT_KEY, CUTTER_KEY)
 # Without a [tooling] table: no pull (no draft or undercut check: the pull belongs to each part),
 # 1 degree of draft and a 1 mm ball-end cutter, the conservative ends of common practice.
 TOOLING_DEFAULTS = MappingProxyType({PULL_KEY: None, DRAFT_KEY: 1.0, CUTTER_KEY: 1.0})
+# A profile is a few hundred bytes; anything much larger is not one.
+MAX_PROFILE_BYTES = 1_000_000
 
 
 class ProfileError(ReadError):
@@ -114,12 +117,10 @@ def shipped_path(name: str) -> Path:
 
 def _read_toml(path: Path) -> dict:
     try:
-        with open(path, "rb") as fh:
-            return tomllib.load(fh)
-    except FileNotFoundError:
-        raise ProfileError(str(path), "no such profile file") from None
-    except OSError as exc:
-        raise ProfileError(str(path), f"cannot be read ({exc.strerror or exc})") from None
+        text = read_regular(str(path), MAX_PROFILE_BYTES, "profile").decode("utf-8")
+        return tomllib.loads(text)
+    except ReadError as exc:
+        raise ProfileError(exc.path, "no such profile file" if exc.reason == "no such file" else exc.reason) from None
     except (tomllib.TOMLDecodeError, UnicodeDecodeError) as exc:
         raise ProfileError(str(path), f"is not valid TOML ({exc})") from None
 

@@ -11,8 +11,8 @@ from pathlib import Path
 from app.review.result import FileReview
 from geometry import __version__
 from geometry.errors import BattenError
+from geometry.io.files import pdf_complete, write_atomically
 
-from .atomic import write_atomically
 from .document import document, image_key
 from .figures import Figure
 
@@ -78,9 +78,7 @@ def write_pdf_file(target: str, reviews, figures, created: str, comparison=None)
     )
     doc.setHtml(html)
     doc.print_(writer)
-    del doc, writer  # the PDF is finished when the writer goes
-    if not Path(target).stat().st_size:
-        raise BattenError(f"{target}: Qt wrote an empty PDF")
+    del doc, writer  # the PDF is finished when the writer goes; the atomic writer checks it is complete
 
 
 def write_report(
@@ -89,6 +87,7 @@ def write_report(
     figures: Sequence[Sequence[Figure]] | None = None,
     created: str | None = None,
     comparison=None,
+    inputs: Sequence[str] = (),
 ) -> Path:
     """Write one review document covering ``reviews`` (in order), atomically.
 
@@ -104,6 +103,8 @@ def write_report(
         Time stamp printed on the cover; default now (UTC).
     comparison : app.review.comparison.Comparison, optional
         A comparison with the previous revision, given its own chapter.
+    inputs : sequence of str, optional
+        The files the reviews read; the report never replaces one of them.
 
     Returns
     -------
@@ -120,8 +121,13 @@ def write_report(
     figures = list(figures) if figures is not None else [() for _ in reviews]
     created = created or now_stamp()
     if fmt == "html":
-        return write_atomically(path, html_bytes(reviews, figures, created, comparison))
-    return write_atomically(path, lambda tmp: write_pdf_file(tmp, reviews, figures, created, comparison))
+        return write_atomically(path, html_bytes(reviews, figures, created, comparison), inputs=inputs)
+    return write_atomically(
+        path,
+        lambda tmp: write_pdf_file(tmp, reviews, figures, created, comparison),
+        inputs=inputs,
+        verify=pdf_complete,
+    )
 
 
 def now_stamp() -> str:

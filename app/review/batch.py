@@ -19,6 +19,7 @@ from pathlib import Path
 
 from geometry import __version__
 from geometry.errors import BattenError
+from geometry.io.files import check_writable
 
 from .result import ACCEPTED, ERROR, FAIL, PASS, UNREADABLE, FileReview, check_document, face_account_line
 from .runner import ReviewSettings, file_sha256, review_file
@@ -72,6 +73,12 @@ def check_one(path: str, settings: ReviewSettings, pictures: bool, progress: boo
     return review, figures
 
 
+def _inputs(options: BatchOptions) -> tuple[str, ...]:
+    """Every file the run reads: the models and a profile file; no output may replace one."""
+    profile = options.settings.profile
+    return (*options.files, *([profile] if profile and os.path.exists(profile) else []))
+
+
 def _check_outputs(options: BatchOptions) -> None:
     for kind in ("report", "json"):
         target = getattr(options, kind)
@@ -79,9 +86,9 @@ def _check_outputs(options: BatchOptions) -> None:
             continue
         if Path(target).suffix.lower() not in OUTPUT_SUFFIXES[kind]:
             raise BattenError(f"{target}: --{kind} must end in {' or '.join(OUTPUT_SUFFIXES[kind])}")
-        folder = Path(target).parent
-        if not folder.is_dir():
-            raise BattenError(f"{target}: folder {folder} does not exist")
+        check_writable(target, inputs=_inputs(options))
+    if options.report and options.json and os.path.abspath(options.report) == os.path.abspath(options.json):
+        raise BattenError(f"{options.json}: --json and --report name the same file")
 
 
 def _workers(options: BatchOptions) -> int:
@@ -181,8 +188,8 @@ def run_batch(options: BatchOptions) -> list[str]:
         before any work starts).
     """
     from app.profiles import get_profile
-    from app.report.atomic import write_atomically
     from app.report.writers import now_stamp
+    from geometry.io.files import write_atomically
 
     from .spec import parse_spec
 
@@ -194,7 +201,7 @@ def run_batch(options: BatchOptions) -> list[str]:
     reviews = [r for r, _ in results]
     created = now_stamp()
     if options.json:
-        write_atomically(options.json, json_text(reviews, created))
+        write_atomically(options.json, json_text(reviews, created), inputs=_inputs(options))
         if options.progress:
             _say(f"wrote {options.json}")
     if options.report:
@@ -202,7 +209,7 @@ def run_batch(options: BatchOptions) -> list[str]:
 
         if options.progress:
             _say(f"writing {options.report}")
-        write_report(options.report, reviews, [f for _, f in results], created)
+        write_report(options.report, reviews, [f for _, f in results], created, inputs=_inputs(options))
         if options.progress:
             _say(f"wrote {options.report}")
     _print_summary(reviews)

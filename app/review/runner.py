@@ -14,7 +14,7 @@ from pathlib import Path
 
 from app.profiles import get_profile
 from geometry.errors import BattenError, ReadError
-from geometry.io import read_model
+from geometry.io import ReadBudget, read_model
 from geometry.model import Model
 
 from . import findings
@@ -48,6 +48,8 @@ class ReviewSettings:
         cache keyed on the settings sees a changed review file.
     review_source : str
         Where that text came from, for messages and the report.
+    read_budget : ReadBudget
+        Time and memory limits of reading each file.
     """
 
     profile: str | None = None
@@ -63,6 +65,8 @@ class ReviewSettings:
         from .review_file import loads
 
         return loads(self.review_text, self.review_source)
+
+    read_budget: ReadBudget = ReadBudget()
 
 
 def _quiet(_: str) -> None:
@@ -162,13 +166,13 @@ def review_file(
     """
     progress(f"{Path(path).name}: reading")
     try:
-        model = load_for_review(path)
+        model = load_for_review(path, settings.read_budget)
     except ReadError as exc:
         return _unreadable(path, exc.reason), None
     return review_model(model, settings, progress), model
 
 
-def load_for_review(path: str) -> Model:
+def load_for_review(path: str, budget: ReadBudget | None = None) -> Model:
     """Read a model to check: its source and digest filled in, at least one face.
 
     Raises
@@ -177,7 +181,7 @@ def load_for_review(path: str) -> Model:
         Naming the file and the cause, for any file that cannot be checked.
     """
     try:
-        model = read_model(path)
+        model = read_model(path, budget)
     except ReadError:
         raise
     except BattenError as exc:
