@@ -11,6 +11,7 @@ import json
 import math
 import multiprocessing
 import os
+import signal
 import sys
 from concurrent.futures import ProcessPoolExecutor, as_completed
 from concurrent.futures.process import BrokenProcessPool
@@ -108,7 +109,8 @@ def _pool_run(files: list[str], options: BatchOptions, workers: int, pictures: b
     # own kernel helper process (geometry.io.isolation), so a kernel crash marks only that file unreadable;
     # the helper stops when its worker exits.
     context = multiprocessing.get_context("spawn")
-    with ProcessPoolExecutor(workers, mp_context=context) as pool:
+    pool = ProcessPoolExecutor(workers, mp_context=context, initializer=_ignore_interrupts)
+    try:
         futures = {
             pool.submit(check_one, f, options.settings, pictures, options.progress): i for i, f in enumerate(files)
         }
@@ -121,7 +123,18 @@ def _pool_run(files: list[str], options: BatchOptions, workers: int, pictures: b
             done[0] += 1
             if options.progress:
                 _say(f"[{done[0]}/{done[1]}] {Path(files[index]).name}: {out[index][0].verdict}")
+    except BaseException:  # interrupted: stop the workers now rather than wait for their files
+        for process in list((getattr(pool, "_processes", None) or {}).values()):
+            process.terminate()
+        pool.shutdown(wait=False, cancel_futures=True)
+        raise
+    pool.shutdown()
     return out
+
+
+def _ignore_interrupts() -> None:
+    """In a worker: Ctrl-C reaches the whole process group; the parent decides and stops the workers."""
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
 
 
 def _run_all(options: BatchOptions) -> list[tuple[FileReview, tuple]]:

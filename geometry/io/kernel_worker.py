@@ -72,8 +72,22 @@ def serve(requests, answers) -> None:
         answers.flush()
 
 
+def _die_with_owner() -> None:
+    """Linux: be killed when the owner dies, even in the middle of a read that would never end."""
+    try:
+        import ctypes
+
+        libc = ctypes.CDLL(None, use_errno=True)
+        libc.prctl(1, signal.SIGKILL)  # PR_SET_PDEATHSIG
+    except (OSError, AttributeError):  # not Linux: the owner's exit handlers stop the helper
+        pass
+    if os.getppid() == 1:  # the owner is already gone
+        os._exit(0)
+
+
 def main() -> None:
     signal.signal(signal.SIGINT, signal.SIG_IGN)
+    _die_with_owner()
     # Load the kernel before any read, so the address-space limit bounds the work, not the libraries.
     import OCP.IGESControl  # noqa: F401
     import OCP.STEPControl  # noqa: F401
