@@ -19,6 +19,9 @@ from . import compiled_eval
 from .basis import validate_knots
 from .errors import SurfaceError
 
+# Largest ratio of two weights of one surface: beyond it the homogeneous products lose all precision.
+MAX_WEIGHT_RATIO = 1e12
+
 
 def _readonly(a: np.ndarray) -> np.ndarray:
     a.setflags(write=False)
@@ -72,6 +75,8 @@ class NurbsSurface:
                 raise SurfaceError(f"weights must have shape {(nu, nv)}, got {weights.shape}")
             if not np.all(np.isfinite(weights)) or np.any(weights <= 0):
                 raise SurfaceError("weights must be finite and positive")
+            if weights.max() > MAX_WEIGHT_RATIO * weights.min():
+                raise SurfaceError(f"weights differ by more than a factor {MAX_WEIGHT_RATIO:.0e}, beyond evaluation")
             if np.all(weights == weights.flat[0]):
                 weights = None  # equal weights: the surface is polynomial
         object.__setattr__(self, "degree_u", int(self.degree_u))

@@ -19,6 +19,11 @@ import sys
 
 from .reading import add_read_options, read_budget
 
+# Most parallel planes, and most curve points (model size / spacing, summed over the planes): each
+# point carries its curvature, comb and arc length, so two million stay within a few hundred MB.
+MAX_PLANES = 200
+MAX_CURVE_POINTS = 2_000_000
+
 
 def add_arguments(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("file", help="STEP, IGES or JSON surface model")
@@ -46,14 +51,28 @@ def _check(args: argparse.Namespace) -> None:
 
     if not all(math.isfinite(x) for x in args.plane):
         raise BattenError("--plane needs six finite numbers")
-    if not any(args.plane[3:]):
-        raise BattenError("--plane: the normal (NX NY NZ) must not be zero")
-    if args.count < 1:
-        raise BattenError(f"--count must be at least 1, got {args.count}")
+    if not math.isfinite(math.hypot(*args.plane[3:])) or not any(args.plane[3:]):
+        raise BattenError("--plane: the normal (NX NY NZ) must be a finite, non-zero vector")
+    if not 1 <= args.count <= MAX_PLANES:
+        raise BattenError(f"--count must be 1 to {MAX_PLANES}, got {args.count}")
     if args.count > 1 and (args.spacing is None or not math.isfinite(args.spacing) or args.spacing == 0):
         raise BattenError("--count above 1 needs a non-zero --spacing D (mm between the planes)")
     if args.point_spacing is not None and not (math.isfinite(args.point_spacing) and args.point_spacing > 0):
         raise BattenError("--point-spacing must be a positive number of mm")
+
+
+def _check_points(args: argparse.Namespace, size: float) -> None:
+    """Bound the curve points all planes may produce: about model size / spacing each."""
+    from geometry.errors import BattenError
+
+    if args.point_spacing is None:
+        return
+    smallest = args.count * max(size, 1e-9) / MAX_CURVE_POINTS
+    if args.point_spacing < smallest:
+        raise BattenError(
+            f"--point-spacing {args.point_spacing:g} mm gives more than {MAX_CURVE_POINTS} curve points on "
+            f"{args.count} plane(s) of this model (memory budget); the smallest that fits is {smallest:.3g} mm"
+        )
 
 
 def run(args: argparse.Namespace) -> int:
@@ -66,6 +85,7 @@ def run(args: argparse.Namespace) -> int:
     if args.json:
         check_writable(args.json, inputs=[args.file])
     model = read_model(args.file, read_budget(args))
+    _check_points(args, model.size)
     engine = SectionEngine(model, point_spacing=args.point_spacing)
     point, normal = args.plane[:3], args.plane[3:]
     family = engine.family(point, normal, args.count, args.spacing or 0.0)

@@ -8,6 +8,8 @@ pipeline say the same about the same model and settings.
 from __future__ import annotations
 
 import hashlib
+import os
+import stat
 from collections.abc import Callable
 from dataclasses import dataclass, replace
 from pathlib import Path
@@ -110,7 +112,9 @@ def review_model(model: Model, settings: ReviewSettings = ReviewSettings(), prog
     if pull is not None or profile.limit("cutter_radius_mm") is not None:
         progress(f"{name}: tooling checks" + (f" (pull {', '.join(f'{c:g}' for c in pull)})" if pull else ""))
     tooling = tooling_entry(model, run_tooling(model, profile, settings.pull), pull_source)
-    found = findings.worst_first([*findings.collect(seams, free_edges, sections, profile), *tooling_findings(tooling)])
+    found = findings.worst_first(
+        [*findings.collect(seams, free_edges, sections, profile, faces), *tooling_findings(tooling)]
+    )
     review = FileReview(
         source=model.source,
         status="checked",
@@ -137,9 +141,11 @@ def review_model(model: Model, settings: ReviewSettings = ReviewSettings(), prog
 
 
 def file_sha256(path: str) -> str | None:
-    """Hex sha256 of a file's bytes, or None when it cannot be opened."""
+    """Hex sha256 of a regular file's bytes, or None when it is not one or cannot be opened."""
     digest = hashlib.sha256()
     try:
+        if not stat.S_ISREG(os.stat(path).st_mode):  # /dev/zero would never end, a FIFO never start
+            return None
         with open(path, "rb") as fh:
             for block in iter(lambda: fh.read(1 << 20), b""):
                 digest.update(block)
