@@ -13,6 +13,7 @@ import importlib
 import os
 import signal
 import sys
+import warnings
 
 from geometry import BattenError, __version__
 
@@ -50,6 +51,15 @@ def _parser() -> argparse.ArgumentParser:
         module.add_arguments(sub)
         sub.set_defaults(_run=module.run)
     return parser
+
+
+def quiet_numerics() -> None:
+    """No numpy RuntimeWarning on the user's terminal: invalid samples are marked and reported, not warned about.
+
+    ``BATTEN_DEBUG=1`` shows them.
+    """
+    if not os.environ.get("BATTEN_DEBUG"):
+        warnings.simplefilter("ignore", RuntimeWarning)
 
 
 def _terminate(signum, _frame) -> None:
@@ -102,7 +112,9 @@ def _main(argv: list[str]) -> int:
         print(f"batten: the '{args._missing}' command is not available in this build", file=sys.stderr)
         return EXIT_INTERNAL
     try:
-        return int(args._run(args) or 0)
+        with warnings.catch_warnings():
+            quiet_numerics()
+            return int(args._run(args) or 0)
     except BattenError as exc:
         print(f"batten: {exc}", file=sys.stderr)
         return EXIT_BAD_INPUT

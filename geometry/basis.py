@@ -157,7 +157,10 @@ def validate_knots(knots: np.ndarray, degree: int, n_poles: int, name: str) -> n
         raise SurfaceError(f"{name}: degree must be a whole number >= 1, got {degree!r}")
     if degree > 25:
         raise SurfaceError(f"{name}: degree {degree} is beyond what any design surface uses (max 25)")
-    knots = np.array(knots, dtype=float).ravel()
+    try:
+        knots = np.array(knots, dtype=float).ravel()
+    except (TypeError, ValueError) as exc:
+        raise SurfaceError(f"{name}: knot vector must be numbers ({exc})") from None
     if not np.all(np.isfinite(knots)):
         raise SurfaceError(f"{name}: knot vector holds NaN or infinite values")
     if n_poles < degree + 1:

@@ -157,7 +157,7 @@ def _profile_block(review: FileReview) -> str:
 def cover(reviews: Sequence[FileReview], created: str, version: str) -> str:
     files = [
         (
-            escape(r.source),
+            r.source,  # _table escapes every cell
             r.sha256 or "-",
             f"{r.units} (file: {r.source_units})" if r.source_units else r.units,
             r.verdict.upper() if r.verdict != PASS else PASS,

@@ -45,6 +45,11 @@ def _images(figures: Sequence[Sequence[Figure]]) -> dict[str, bytes]:
     return {image_key(i, f.name): f.png for i, figs in enumerate(figures) for f in figs}
 
 
+def _printable(text: str) -> str:
+    """Text any encoder takes: bytes of a file name that were not UTF-8 (lone surrogates) become U+FFFD."""
+    return text.encode("utf-8", "surrogateescape").decode("utf-8", "replace")
+
+
 def html_bytes(
     reviews: Sequence[FileReview], figures: Sequence[Sequence[Figure]], created: str, comparison=None
 ) -> bytes:
@@ -54,7 +59,7 @@ def html_bytes(
     def src(name: str) -> str:
         return "data:image/png;base64," + base64.b64encode(images[name]).decode("ascii")
 
-    return document(reviews, figures, src, created, __version__, comparison=comparison).encode("utf-8")
+    return _printable(document(reviews, figures, src, created, __version__, comparison=comparison)).encode("utf-8")
 
 
 def write_pdf_file(target: str, reviews, figures, created: str, comparison=None) -> None:
@@ -76,7 +81,7 @@ def write_pdf_file(target: str, reviews, figures, created: str, comparison=None)
     html = document(
         reviews, figures, lambda name: f"{RESOURCE_SCHEME}:{name}", created, __version__, comparison=comparison
     )
-    doc.setHtml(html)
+    doc.setHtml(_printable(html))
     doc.print_(writer)
     del doc, writer  # the PDF is finished when the writer goes; the atomic writer checks it is complete
 

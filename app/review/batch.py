@@ -13,6 +13,7 @@ import multiprocessing
 import os
 import signal
 import sys
+import warnings
 from concurrent.futures import ProcessPoolExecutor, as_completed
 from concurrent.futures.process import BrokenProcessPool
 from dataclasses import dataclass, replace
@@ -135,6 +136,8 @@ def _pool_run(files: list[str], options: BatchOptions, workers: int, pictures: b
 def _ignore_interrupts() -> None:
     """In a worker: Ctrl-C reaches the whole process group; the parent decides and stops the workers."""
     signal.signal(signal.SIGINT, signal.SIG_IGN)
+    if not os.environ.get("BATTEN_DEBUG"):  # as the command line does (app.cli.quiet_numerics)
+        warnings.simplefilter("ignore", RuntimeWarning)
 
 
 def _run_all(options: BatchOptions) -> list[tuple[FileReview, tuple]]:
