@@ -20,7 +20,7 @@ import pytest
 from test_io_support import bilinear_record
 
 from app.cli import _terminate, main
-from app.state.profiles import ProfileError, load_profile
+from app.profiles import ProfileError, load_profile
 from geometry.errors import ReadError, WriteError
 from geometry.io import files, read_model
 from geometry.io.files import pdf_complete, read_regular, write_atomically

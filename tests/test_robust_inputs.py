@@ -17,9 +17,9 @@ from test_io_support import bilinear_record
 
 import geometry
 from app.cli import main
+from app.profiles import ProfileError, load_profile
 from app.review.findings import face_findings
 from app.review.runner import review_model
-from app.state.profiles import ProfileError, load_profile
 from geometry.errors import BattenError, ReadError, SurfaceError
 from geometry.io import ReadBudget, isolation, read_model
 from geometry.io.numbers import check_numbers
