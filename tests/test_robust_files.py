@@ -20,7 +20,7 @@ import pytest
 from test_io_support import bilinear_record
 
 from app.cli import _terminate, main
-from app.profiles import ProfileError, load_profile
+from app.profiles import ProfileError, read_profile
 from geometry.errors import ReadError, WriteError
 from geometry.io import files, read_model
 from geometry.io.files import pdf_complete, read_regular, write_atomically
@@ -136,13 +136,13 @@ def test_a_profile_must_be_a_small_regular_file(tmp_path):
     fifo = tmp_path / "p.toml"
     os.mkfifo(fifo)
     with pytest.raises(ProfileError, match="pipe"):
-        load_profile(fifo)
+        read_profile(fifo)
     with pytest.raises(ProfileError, match="character device"):
-        load_profile("/dev/zero")
+        read_profile("/dev/zero")
     big = tmp_path / "big.toml"
     big.write_bytes(b"#" * 2_000_000)
     with pytest.raises(ProfileError, match="larger than"):
-        load_profile(big)
+        read_profile(big)
 
 
 def test_a_file_larger_than_the_limit_is_refused_before_reading(tmp_path):

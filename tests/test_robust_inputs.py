@@ -17,7 +17,7 @@ from test_io_support import bilinear_record
 
 import geometry
 from app.cli import main
-from app.profiles import ProfileError, load_profile
+from app.profiles import ProfileError, read_profile
 from app.review.findings import face_findings
 from app.review.runner import review_model
 from geometry.errors import BattenError, ReadError, SurfaceError
@@ -112,7 +112,7 @@ def test_an_infinite_profile_value_is_refused(tmp_path, key):
     path = tmp_path / "p.toml"
     path.write_text(f'base = "class-a"\n[tolerance]\n{key} = inf\n')
     with pytest.raises(ProfileError, match=f"{key} must be above 0 and at most"):
-        load_profile(path)
+        read_profile(path)
 
 
 @pytest.mark.parametrize(
