@@ -155,7 +155,6 @@ def test_absurd_knots_and_weights_are_a_surface_error(knots, weights, words):
         lambda s: geometry.NurbsSurface("1", 1, [0, 0, 1, 1], [0, 0, 1, 1], np.reshape(GOOD, (2, 2, 3))),
         lambda s: geometry.curvature_on_grid(s, "abc", [0.5]),
         lambda s: geometry.curvature_at(s, ["a"], [0.5]),
-        lambda s: geometry.curvature_at(s, [0.1, 0.2], [0.5]),
     ],
 )
 def test_bad_arguments_to_the_api_raise_surface_error(build):

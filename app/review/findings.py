@@ -104,7 +104,7 @@ def face_findings(faces) -> list[Finding]:
     """
     return [
         Finding(
-            "face",
+            Kind.FACE,
             f"face {f.id} cannot be evaluated: {f.problem}",
             "valid samples",
             0.0,
