@@ -7,8 +7,8 @@ from pathlib import Path
 
 import numpy as np
 import pytest
-
 from app.report.atomic import write_atomically
+
 from app.review.review_file import ACCEPTED, TO_FIX, read_review_file
 from app.state import Mode, Session
 from app.state.revisions import compare_with, decide, finding_key, review_path_for
