@@ -11,7 +11,9 @@ from __future__ import annotations
 import argparse
 import importlib
 import os
+import signal
 import sys
+import warnings
 
 from geometry import BattenError, __version__
 
@@ -51,9 +53,54 @@ def _parser() -> argparse.ArgumentParser:
     return parser
 
 
+def quiet_numerics() -> None:
+    """No numpy RuntimeWarning on the user's terminal: invalid samples are marked and reported, not warned about.
+
+    ``BATTEN_DEBUG=1`` shows them.
+    """
+    if not os.environ.get("BATTEN_DEBUG"):
+        warnings.simplefilter("ignore", RuntimeWarning)
+
+
+def _terminate(signum, _frame) -> None:
+    raise SystemExit(128 + signum)
+
+
+def _as_a_program(argv: list[str]) -> None:
+    """Signals and streams for a run from the shell (not for a caller that passes ``argv``).
+
+    In headless commands SIGTERM unwinds like SIGINT does, so every
+    ``finally`` (temporary files, helper processes) runs; the window keeps Qt's
+    own handling. File names that are not valid UTF-8 print as the bytes they
+    are, not as an encoding error.
+    """
+    if argv and argv[0] in COMMANDS and argv[0] != DEFAULT_COMMAND:
+        signal.signal(signal.SIGTERM, _terminate)
+    for stream in (sys.stdout, sys.stderr):
+        if hasattr(stream, "reconfigure"):
+            stream.reconfigure(errors="surrogateescape")
+
+
+def _leaving() -> None:
+    """Once the answer is known, further interrupts must not print a trace from the clean-up at exit."""
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
+    signal.signal(signal.SIGTERM, signal.SIG_IGN)
+
+
 def main(argv: list[str] | None = None) -> int:
     """Run the command line; returns the process exit status."""
-    argv = list(sys.argv[1:] if argv is None else argv)
+    if argv is not None:
+        return _main(list(argv))
+    _as_a_program(sys.argv[1:])
+    try:
+        return _main(sys.argv[1:])
+    except KeyboardInterrupt:
+        return 130
+    finally:
+        _leaving()
+
+
+def _main(argv: list[str]) -> int:
     if argv and not argv[0].startswith("-") and argv[0] not in COMMANDS:
         argv.insert(0, DEFAULT_COMMAND)
     parser = _parser()
@@ -65,7 +112,9 @@ def main(argv: list[str] | None = None) -> int:
         print(f"batten: the '{args._missing}' command is not available in this build", file=sys.stderr)
         return EXIT_INTERNAL
     try:
-        return int(args._run(args) or 0)
+        with warnings.catch_warnings():
+            quiet_numerics()
+            return int(args._run(args) or 0)
     except BattenError as exc:
         print(f"batten: {exc}", file=sys.stderr)
         return EXIT_BAD_INPUT

@@ -140,6 +140,11 @@ def basis_matrices(knots: np.ndarray, degree: int, n_poles: int, u: np.ndarray, 
     return out
 
 
+# Knot magnitudes and relative domain width a surface may have (see validate_knots).
+MAX_KNOT = 1e12
+MIN_DOMAIN_RELATIVE = 1e-12
+
+
 def validate_knots(knots: np.ndarray, degree: int, n_poles: int, name: str) -> np.ndarray:
     """Check one knot vector and return it as a read-only float array.
 
@@ -152,7 +157,10 @@ def validate_knots(knots: np.ndarray, degree: int, n_poles: int, name: str) -> n
         raise SurfaceError(f"{name}: degree must be a whole number >= 1, got {degree!r}")
     if degree > 25:
         raise SurfaceError(f"{name}: degree {degree} is beyond what any design surface uses (max 25)")
-    knots = np.array(knots, dtype=float).ravel()
+    try:
+        knots = np.array(knots, dtype=float).ravel()
+    except (TypeError, ValueError) as exc:
+        raise SurfaceError(f"{name}: knot vector must be numbers ({exc})") from None
     if not np.all(np.isfinite(knots)):
         raise SurfaceError(f"{name}: knot vector holds NaN or infinite values")
     if n_poles < degree + 1:
@@ -161,10 +169,20 @@ def validate_knots(knots: np.ndarray, degree: int, n_poles: int, name: str) -> n
         raise SurfaceError(
             f"{name}: {n_poles} poles of degree {degree} need {n_poles + degree + 1} knots, got {knots.size}"
         )
+    # Derivatives scale with 1 / width^k: widths or magnitudes far from any design data overflow or
+    # underflow double precision (common practice: parameters are lengths or lie in [0, 1]).
+    top = float(np.abs(knots).max()) if knots.size else 0.0
+    if top > MAX_KNOT:
+        raise SurfaceError(
+            f"{name}: knot values up to {top:.3g}, beyond what can be evaluated (at most {MAX_KNOT:.0e})"
+        )
     if np.any(np.diff(knots) < 0):
         raise SurfaceError(f"{name}: knot vector is not non-decreasing")
     if not knots[degree] < knots[n_poles]:
         raise SurfaceError(f"{name}: parameter domain [{knots[degree]}, {knots[n_poles]}] is empty")
+    width = float(knots[n_poles] - knots[degree])
+    if width < MIN_DOMAIN_RELATIVE * max(1.0, top):
+        raise SurfaceError(f"{name}: parameter domain only {width:.3g} wide, too narrow to evaluate")
     inner = knots[degree + 1 : n_poles]
     if inner.size:
         _, counts = np.unique(inner, return_counts=True)

@@ -31,3 +31,7 @@ class ReadError(BattenError):
         self.path = str(path)
         self.reason = reason
         super().__init__(f"{self.path}: {reason}")
+
+
+class WriteError(BattenError):
+    """An output file could not be written; the previous file is kept and nothing partial is left."""

@@ -20,6 +20,18 @@ from .basis import validate_knots
 from .errors import SurfaceError
 
 
+def _numbers(values, name: str) -> np.ndarray:
+    """``values`` as a new float array, or a SurfaceError saying they are not numbers."""
+    try:
+        return np.array(values, dtype=float)
+    except (TypeError, ValueError) as exc:
+        raise SurfaceError(f"{name} must be an array of numbers ({exc})") from None
+
+
+# Largest ratio of two weights of one surface: beyond it the homogeneous products lose all precision.
+MAX_WEIGHT_RATIO = 1e12
+
+
 def _readonly(a: np.ndarray) -> np.ndarray:
     a.setflags(write=False)
     return a
@@ -57,7 +69,7 @@ class NurbsSurface:
     weights: np.ndarray | None = None
 
     def __post_init__(self):
-        poles = np.array(self.poles, dtype=float)
+        poles = _numbers(self.poles, "poles")
         if poles.ndim != 3 or poles.shape[2] != 3:
             raise SurfaceError(f"poles must have shape (nu, nv, 3), got {poles.shape}")
         if not np.all(np.isfinite(poles)):
@@ -67,11 +79,13 @@ class NurbsSurface:
         kv = validate_knots(self.knots_v, self.degree_v, nv, "v")
         weights = None
         if self.weights is not None:
-            weights = np.array(self.weights, dtype=float)
+            weights = _numbers(self.weights, "weights")
             if weights.shape != (nu, nv):
                 raise SurfaceError(f"weights must have shape {(nu, nv)}, got {weights.shape}")
             if not np.all(np.isfinite(weights)) or np.any(weights <= 0):
                 raise SurfaceError("weights must be finite and positive")
+            if weights.max() > MAX_WEIGHT_RATIO * weights.min():
+                raise SurfaceError(f"weights differ by more than a factor {MAX_WEIGHT_RATIO:.0e}, beyond evaluation")
             if np.all(weights == weights.flat[0]):
                 weights = None  # equal weights: the surface is polynomial
         object.__setattr__(self, "degree_u", int(self.degree_u))
@@ -110,7 +124,8 @@ class NurbsSurface:
     def clip_to_domain(self, u: np.ndarray, v: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
         """Parameters clipped into the domain (rounding outside it is harmless)."""
         (u0, u1), (v0, v1) = self.domain
-        return np.clip(np.asarray(u, float), u0, u1), np.clip(np.asarray(v, float), v0, v1)
+        u, v = _numbers(u, "u"), _numbers(v, "v")
+        return np.clip(u, u0, u1), np.clip(v, v0, v1)
 
     # -- evaluation --------------------------------------------------------
     def derivatives_grid(self, u: np.ndarray, v: np.ndarray, order: int = 2) -> np.ndarray:

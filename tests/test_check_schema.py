@@ -72,6 +72,7 @@ def test_typed_findings_write_the_schema_1_0_fields():
         Kind.DRAFT,
         Kind.UNDERCUT,
         Kind.CUTTER_REACH,
+        Kind.FACE,
     )
     assert set(finding_schema["properties"]["kind"]["enum"]) == {str(k) for k in judged_kinds}
     validator = jsonschema.Draft202012Validator({**finding_schema, "$defs": SCHEMA["$defs"]})

@@ -49,7 +49,7 @@ def test_user_file_by_path_with_a_base(tmp_path):
         ("name = 'x'\ncolour = 'red'\n", "unknown key"),
         ("name = 'x'\nrequired = 'G2'\n[tolerance]\nposition_mm = 0.01\n", "missing"),
         ("base = 'class-a'\n[tolerance]\nposition_mm = 'small'\n", "must be a number"),
-        ("base = 'class-a'\n[tolerance]\ntangent_deg = -1\n", "must be positive"),
+        ("base = 'class-a'\n[tolerance]\ntangent_deg = -1\n", "must be above 0"),
         ("base = 'class-a'\nrequired = 'G7'\n", "required must be one of"),
         ("base = 'class-a'\n[tolerance]\nwobble = 1\n", "unknown [tolerance] key"),
         ("base = 'nowhere'\n", "base must name a shipped profile"),

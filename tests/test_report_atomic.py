@@ -6,7 +6,8 @@ import os
 
 import pytest
 
-from app.report.atomic import WriteError, write_atomically
+from geometry.errors import WriteError
+from geometry.io.files import write_atomically
 
 
 def _leftovers(folder) -> list[str]:

@@ -8,11 +8,11 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from app.report.atomic import write_atomically
 from app.review.review_file import ACCEPTED, TO_FIX, read_review_file
 from app.state import Mode, Session
 from app.state.revisions import compare_with, decide, finding_key, review_path_for
 from geometry.errors import BattenError
+from geometry.io.files import write_atomically
 
 SAMPLES = Path(__file__).resolve().parents[1] / "sample_surfaces"
 

@@ -14,6 +14,8 @@ import argparse
 
 from app.commands import add_pull_argument
 
+from .reading import add_read_options, read_budget
+
 EXIT_OK, EXIT_FINDINGS, EXIT_BAD_INPUT, EXIT_INTERNAL = 0, 1, 2, 3
 
 SPEC_HELP = (
@@ -97,6 +99,7 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
         "gone are reported as stale",
     )
     parser.add_argument("--quiet", action="store_true", help="no progress lines on stderr")
+    add_read_options(parser)
 
 
 def run(args: argparse.Namespace) -> int:
@@ -118,6 +121,7 @@ def run(args: argparse.Namespace) -> int:
             pull=None if args.pull is None else tuple(unit_pull(args.pull).tolist()),
             review_text=review_text,
             review_source=args.review or "",
+            read_budget=read_budget(args),
         ),
         report=args.report,
         json=args.json,

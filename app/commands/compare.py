@@ -67,9 +67,9 @@ def run(args: argparse.Namespace) -> int:
     if args.json:
         import json
 
-        from app.report.atomic import write_atomically
         from app.review.comparison import SCHEMA_ID, SCHEMA_VERSION
         from geometry import __version__
+        from geometry.io.files import write_atomically
 
         doc = {"schema": SCHEMA_ID, "schema_version": SCHEMA_VERSION, "batten_version": __version__}
         doc |= {"created": created, **comparison.to_dict()}

@@ -15,6 +15,8 @@ import sys
 
 from app.commands import add_pull_argument
 
+from .reading import add_read_options, read_budget
+
 
 def add_arguments(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("file", help="STEP, IGES or JSON surface model")
@@ -26,6 +28,7 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
         parser,
         "pull direction: adds draft_deg, asin(normal . pull) in degrees (positive: released along +pull)",
     )
+    add_read_options(parser)
 
 
 def run(args: argparse.Namespace) -> int:
@@ -41,7 +44,7 @@ def run(args: argparse.Namespace) -> int:
     if args.at is not None and args.uv is not None:
         raise BattenError("--uv goes with --face, not with --at")
     pull = None if args.pull is None else unit_pull(args.pull)
-    model = read_model(args.file)
+    model = read_model(args.file, read_budget(args))
     if args.at is not None:
         result = probe_point(model, np.array(args.at))
     else:

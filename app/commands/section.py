@@ -15,9 +15,14 @@ from __future__ import annotations
 import argparse
 import json
 import math
-import os
 import sys
-import tempfile
+
+from .reading import add_read_options, read_budget
+
+# Most parallel planes, and most curve points (model size / spacing, summed over the planes): each
+# point carries its curvature, comb and arc length, so two million stay within a few hundred MB.
+MAX_PLANES = 200
+MAX_CURVE_POINTS = 2_000_000
 
 
 def add_arguments(parser: argparse.ArgumentParser) -> None:
@@ -38,6 +43,7 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
         "--point-spacing", type=float, metavar="MM", help="mm between curve points (default: model size / 400)"
     )
     parser.add_argument("--json", metavar="OUT", help="write the JSON to OUT instead of printing it")
+    add_read_options(parser)
 
 
 def _check(args: argparse.Namespace) -> None:
@@ -45,41 +51,41 @@ def _check(args: argparse.Namespace) -> None:
 
     if not all(math.isfinite(x) for x in args.plane):
         raise BattenError("--plane needs six finite numbers")
-    if not any(args.plane[3:]):
-        raise BattenError("--plane: the normal (NX NY NZ) must not be zero")
-    if args.count < 1:
-        raise BattenError(f"--count must be at least 1, got {args.count}")
+    if not math.isfinite(math.hypot(*args.plane[3:])) or not any(args.plane[3:]):
+        raise BattenError("--plane: the normal (NX NY NZ) must be a finite, non-zero vector")
+    if not 1 <= args.count <= MAX_PLANES:
+        raise BattenError(f"--count must be 1 to {MAX_PLANES}, got {args.count}")
     if args.count > 1 and (args.spacing is None or not math.isfinite(args.spacing) or args.spacing == 0):
         raise BattenError("--count above 1 needs a non-zero --spacing D (mm between the planes)")
     if args.point_spacing is not None and not (math.isfinite(args.point_spacing) and args.point_spacing > 0):
         raise BattenError("--point-spacing must be a positive number of mm")
 
 
-def write_atomically(path: str, text: str) -> None:
-    """Write ``text`` to ``path`` through a temporary file in the same folder and os.replace."""
+def _check_points(args: argparse.Namespace, size: float) -> None:
+    """Bound the curve points all planes may produce: about model size / spacing each."""
     from geometry.errors import BattenError
 
-    folder = os.path.dirname(os.path.abspath(path))
-    if not os.path.isdir(folder):
-        raise BattenError(f"{path}: the folder {folder} does not exist")
-    fd, tmp = tempfile.mkstemp(prefix=".batten-", suffix=".json.tmp", dir=folder)
-    try:
-        with os.fdopen(fd, "w", encoding="utf-8") as out:
-            out.write(text)
-        os.replace(tmp, path)
-    except OSError as exc:
-        if os.path.exists(tmp):
-            os.unlink(tmp)
-        raise BattenError(f"{path}: cannot write ({exc.strerror or exc})") from exc
+    if args.point_spacing is None:
+        return
+    smallest = args.count * max(size, 1e-9) / MAX_CURVE_POINTS
+    if args.point_spacing < smallest:
+        raise BattenError(
+            f"--point-spacing {args.point_spacing:g} mm gives more than {MAX_CURVE_POINTS} curve points on "
+            f"{args.count} plane(s) of this model (memory budget); the smallest that fits is {smallest:.3g} mm"
+        )
 
 
 def run(args: argparse.Namespace) -> int:
     from geometry.conventions import CURVATURE_SIGN
     from geometry.io import read_model
+    from geometry.io.files import check_writable, write_atomically
     from geometry.sections import SectionEngine
 
     _check(args)
-    model = read_model(args.file)
+    if args.json:
+        check_writable(args.json, inputs=[args.file])
+    model = read_model(args.file, read_budget(args))
+    _check_points(args, model.size)
     engine = SectionEngine(model, point_spacing=args.point_spacing)
     point, normal = args.plane[:3], args.plane[3:]
     family = engine.family(point, normal, args.count, args.spacing or 0.0)
@@ -98,7 +104,7 @@ def run(args: argparse.Namespace) -> int:
         out["warnings"] = list(model.warnings)
     text = json.dumps(out, indent=1) + "\n"
     if args.json:
-        write_atomically(args.json, text)
+        write_atomically(args.json, text, inputs=[args.file])
         print(f"{len(curves)} curves on {len(family)} planes written to {args.json}", file=sys.stderr)
     else:
         sys.stdout.write(text)

@@ -11,6 +11,11 @@ import argparse
 import json
 import sys
 
+from .reading import add_read_options, read_budget
+
+# Most samples: about 500 bytes of curvature field each, so 2 M samples stay near 1 GB of memory.
+MAX_SUMMARY_SAMPLES = 2_000_000
+
 
 def add_arguments(parser: argparse.ArgumentParser) -> None:
     parser.add_argument("file", help="STEP, IGES or JSON surface model")
@@ -22,6 +27,7 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
         metavar="N",
         help="total samples (default: as many as batten check and the window use)",
     )
+    add_read_options(parser)
 
 
 def face_rows(model, budget: int | None = None) -> list[dict]:
@@ -48,6 +54,8 @@ def face_rows(model, budget: int | None = None) -> list[dict]:
         for key in ("k1", "k2", "gaussian", "mean"):
             row[key] = None if ranges is None else list(getattr(ranges, key))
         row["min_radius_mm"] = None if ranges is None else ranges.min_radius
+        if ranges is None:
+            row["problem"] = f"face {face.id} cannot be evaluated: {face.problem}"
         rows.append(row)
     return rows
 
@@ -77,6 +85,7 @@ def _table(model, rows) -> str:
             f"{k1[0]:>11.4g} {k1[1]:>11.4g} {k2[0]:>11.4g} {k2[1]:>11.4g} {radius:>10}"
         )
     lines += ["", f"Curvatures in 1/mm; {CURVATURE_SIGN}. Ranges over samples, a review aid."]
+    lines += [f"warning: {r['problem']}" for r in rows if r.get("problem")]
     lines += [f"warning: {w}" for w in model.warnings]
     return "\n".join(lines)
 
@@ -85,9 +94,11 @@ def run(args: argparse.Namespace) -> int:
     from geometry.errors import BattenError
     from geometry.io import read_model
 
-    if args.samples is not None and args.samples < 1000:
-        raise BattenError("--samples must be at least 1000")
-    model = read_model(args.file)
+    if args.samples is not None and not 1000 <= args.samples <= MAX_SUMMARY_SAMPLES:
+        raise BattenError(
+            f"--samples must be 1000 to {MAX_SUMMARY_SAMPLES} (the most that fit the memory budget), got {args.samples}"
+        )
+    model = read_model(args.file, read_budget(args))
     rows = face_rows(model, args.samples)
     if args.json:
         doc = {

@@ -26,6 +26,7 @@ from pathlib import Path
 from types import MappingProxyType
 
 from geometry.errors import ReadError
+from geometry.io.files import read_regular
 from geometry.seam_tolerance import CLASSES, SeamTolerance
 
 DEFAULT_PROFILE = "class-a"
@@ -42,6 +43,17 @@ TOOLING_KEYS = (PULL_KEY, DRAFT_KEY, CUTTER_KEY)
 # Without a [tooling] table: no pull (no draft or undercut check: the pull belongs to each part),
 # 1 degree of draft and a 1 mm ball-end cutter, the conservative ends of common practice.
 TOOLING_DEFAULTS = MappingProxyType({PULL_KEY: None, DRAFT_KEY: 1.0, CUTTER_KEY: 1.0})
+# Open-closed ranges (low, high] of the numbers: finite, and wide enough for any organisation's standard
+# (common practice; a 100 mm gap or a 90 degree kink is no longer a tolerance but a different model).
+VALUE_RANGES = {
+    "position_mm": (0.0, 100.0),
+    "tangent_deg": (0.0, 90.0),
+    "curvature_relative": (0.0, 100.0),
+    "flat_curvature_per_mm": (0.0, 1.0),
+    "crease_deg": (0.0, 180.0),
+}
+# A profile is a few hundred bytes; anything much larger is not one.
+MAX_PROFILE_BYTES = 1_000_000
 
 
 class ProfileError(ReadError):
@@ -114,12 +126,10 @@ def shipped_path(name: str) -> Path:
 
 def _read_toml(path: Path) -> dict:
     try:
-        with open(path, "rb") as fh:
-            return tomllib.load(fh)
-    except FileNotFoundError:
-        raise ProfileError(str(path), "no such profile file") from None
-    except OSError as exc:
-        raise ProfileError(str(path), f"cannot be read ({exc.strerror or exc})") from None
+        text = read_regular(str(path), MAX_PROFILE_BYTES, "profile").decode("utf-8")
+        return tomllib.loads(text)
+    except ReadError as exc:
+        raise ProfileError(exc.path, "no such profile file" if exc.reason == "no such file" else exc.reason) from None
     except (tomllib.TOMLDecodeError, UnicodeDecodeError) as exc:
         raise ProfileError(str(path), f"is not valid TOML ({exc})") from None
 
@@ -129,8 +139,9 @@ def _number(path: Path, key: str, value, allow_none: bool = False):
         return None
     if isinstance(value, bool) or not isinstance(value, int | float):
         raise ProfileError(str(path), f"[tolerance] {key} must be a number, got {value!r}")
-    if not value > 0:
-        raise ProfileError(str(path), f"[tolerance] {key} must be positive, got {value!r}")
+    low, high = VALUE_RANGES[key]
+    if not (math.isfinite(value) and low < value <= high):
+        raise ProfileError(str(path), f"[tolerance] {key} must be above {low:g} and at most {high:g}, got {value!r}")
     return float(value)
 
 

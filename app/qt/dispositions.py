@@ -17,10 +17,10 @@ from PySide6.QtWidgets import (
     QVBoxLayout,
 )
 
-from app.report.atomic import write_atomically
 from app.review.review_file import ACCEPTED, TO_FIX
 from app.state import Session
 from app.state.revisions import decide, finding_key
+from geometry.io.files import write_atomically
 
 
 class DispositionEditor(QGroupBox):

@@ -3,8 +3,6 @@
 from __future__ import annotations
 
 import importlib.util
-import os
-import tempfile
 from dataclasses import replace
 
 import numpy as np
@@ -26,6 +24,7 @@ from app.render.scene import Scene
 from app.review.result import face_account_line
 from app.state import Mode, Session
 from app.state.recent import RecentFiles, default_store
+from geometry.io.files import check_writable, write_atomically
 
 from . import review_actions
 from .controls import DisplayPanel, SectionPanel
@@ -518,17 +517,11 @@ class MainWindow(QMainWindow):
 
     def save_image(self, path: str) -> None:
         """Screenshot of the 3-D view, written whole or not at all."""
-        folder = os.path.dirname(os.path.abspath(path))
-        suffix = os.path.splitext(path)[1] or ".png"
-        fd, tmp = tempfile.mkstemp(dir=folder, prefix=".batten-", suffix=suffix)
-        os.close(fd)
+        inputs = [self.session.model.source] if self.session.model is not None else []
         try:
-            self.view.screenshot(tmp)
-            os.replace(tmp, path)
+            write_atomically(path, lambda tmp: self.view.screenshot(tmp), inputs=inputs)
         except Exception as exc:
-            if os.path.exists(tmp):
-                os.remove(tmp)
-            QMessageBox.critical(self, "Cannot write the image", f"{path}: {exc}")
+            QMessageBox.critical(self, "Cannot write the image", str(exc))
 
     def export_report(self) -> None:
         if self.session.model is None:
@@ -543,10 +536,12 @@ class MainWindow(QMainWindow):
         from geometry.errors import BattenError
 
         QApplication.setOverrideCursor(Qt.CursorShape.WaitCursor)
+        inputs = [self.session.model.source]
         try:
+            check_writable(path, inputs)  # before the work, not after
             review, comparison = review_actions.report_inputs(self.session)
             figures = render_figures(self.session.model, review, self.session.display.stripes, self.session.section)
-            write_report(path, [review], [figures], comparison=comparison)
+            write_report(path, [review], [figures], comparison=comparison, inputs=inputs)
         except (BattenError, OSError) as exc:
             QMessageBox.critical(self, "Cannot write the report", str(exc))
         else:

@@ -11,8 +11,8 @@ from pathlib import Path
 from app.review.result import FileReview
 from geometry import __version__
 from geometry.errors import BattenError
+from geometry.io.files import pdf_complete, write_atomically
 
-from .atomic import write_atomically
 from .document import TITLE, document, image_key, model_name
 from .figures import Figure
 from .pages import MARGIN_MM, print_pages
@@ -47,6 +47,11 @@ def _images(figures: Sequence[Sequence[Figure]]) -> dict[str, bytes]:
     return {image_key(i, f.name): f.png for i, figs in enumerate(figures) for f in figs}
 
 
+def _printable(text: str) -> str:
+    """Text any encoder takes: bytes of a file name that were not UTF-8 (lone surrogates) become U+FFFD."""
+    return text.encode("utf-8", "surrogateescape").decode("utf-8", "replace")
+
+
 def html_bytes(
     reviews: Sequence[FileReview], figures: Sequence[Sequence[Figure]], created: str, comparison=None
 ) -> bytes:
@@ -56,7 +61,7 @@ def html_bytes(
     def src(name: str) -> str:
         return "data:image/png;base64," + base64.b64encode(images[name]).decode("ascii")
 
-    return document(reviews, figures, src, created, __version__, comparison=comparison).encode("utf-8")
+    return _printable(document(reviews, figures, src, created, __version__, comparison=comparison)).encode("utf-8")
 
 
 def running_header(reviews: Sequence[FileReview], created: str):
@@ -89,11 +94,9 @@ def write_pdf_file(target: str, reviews, figures, created: str, comparison=None)
     html = document(
         reviews, figures, lambda name: f"{RESOURCE_SCHEME}:{name}", created, __version__, comparison=comparison
     )
-    doc.setHtml(html)
+    doc.setHtml(_printable(html))
     print_pages(writer, doc, running_header(reviews, created), [model_name(r) for r in reviews])
-    del doc, writer  # the PDF is finished when the writer goes
-    if not Path(target).stat().st_size:
-        raise BattenError(f"{target}: Qt wrote an empty PDF")
+    del doc, writer  # the PDF is finished when the writer goes; the atomic writer checks it is complete
 
 
 def write_report(
@@ -102,6 +105,7 @@ def write_report(
     figures: Sequence[Sequence[Figure]] | None = None,
     created: str | None = None,
     comparison=None,
+    inputs: Sequence[str] = (),
 ) -> Path:
     """Write one review document covering ``reviews`` (in order), atomically.
 
@@ -117,6 +121,8 @@ def write_report(
         Time stamp printed on the cover; default now (UTC).
     comparison : app.review.comparison.Comparison, optional
         A comparison with the previous revision, given its own chapter.
+    inputs : sequence of str, optional
+        The files the reviews read; the report never replaces one of them.
 
     Returns
     -------
@@ -133,8 +139,13 @@ def write_report(
     figures = list(figures) if figures is not None else [() for _ in reviews]
     created = created or now_stamp()
     if fmt == "html":
-        return write_atomically(path, html_bytes(reviews, figures, created, comparison))
-    return write_atomically(path, lambda tmp: write_pdf_file(tmp, reviews, figures, created, comparison))
+        return write_atomically(path, html_bytes(reviews, figures, created, comparison), inputs=inputs)
+    return write_atomically(
+        path,
+        lambda tmp: write_pdf_file(tmp, reviews, figures, created, comparison),
+        inputs=inputs,
+        verify=pdf_complete,
+    )
 
 
 def now_stamp() -> str:

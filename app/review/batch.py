@@ -12,7 +12,9 @@ import json
 import math
 import multiprocessing
 import os
+import signal
 import time
+import warnings
 from collections.abc import Callable, Iterable
 from concurrent.futures import ProcessPoolExecutor, as_completed
 from concurrent.futures.process import BrokenProcessPool
@@ -23,6 +25,7 @@ from pathlib import Path
 
 from geometry import __version__
 from geometry.errors import BattenError
+from geometry.io.files import check_writable
 
 from .cache import ResultCache, cache_key
 from .discover import discover
@@ -90,6 +93,12 @@ def timed_check(path: str, settings: ReviewSettings, pictures: bool, progress: b
     return review, figures, time.perf_counter() - start
 
 
+def _inputs(options: BatchOptions) -> tuple[str, ...]:
+    """Every file the run reads: the models and a profile file; no output may replace one."""
+    profile = options.settings.profile
+    return (*options.files, *([profile] if profile and os.path.exists(profile) else []))
+
+
 def _check_outputs(options: BatchOptions) -> None:
     for kind in OUTPUT_SUFFIXES:
         target = getattr(options, kind)
@@ -97,9 +106,9 @@ def _check_outputs(options: BatchOptions) -> None:
             continue
         if Path(target).suffix.lower() not in OUTPUT_SUFFIXES[kind]:
             raise BattenError(f"{target}: --{kind} must end in {' or '.join(OUTPUT_SUFFIXES[kind])}")
-        folder = Path(target).parent
-        if not folder.is_dir():
-            raise BattenError(f"{target}: folder {folder} does not exist")
+        check_writable(target, inputs=_inputs(options))
+    if options.report and options.json and os.path.abspath(options.report) == os.path.abspath(options.json):
+        raise BattenError(f"{options.json}: --json and --report name the same file")
 
 
 def _crashed(path: str, reason: str) -> Outcome:
@@ -115,13 +124,27 @@ def _pool_run(work: list[tuple[int, str]], task: Callable[[str], Outcome], worke
     # own kernel helper process (geometry.io.isolation), so a kernel crash marks only that file unreadable;
     # the helper stops when its worker exits.
     context = multiprocessing.get_context("spawn")
-    with ProcessPoolExecutor(workers, mp_context=context) as pool:
+    pool = ProcessPoolExecutor(workers, mp_context=context, initializer=_ignore_interrupts)
+    try:
         futures = {pool.submit(task, path): index for index, path in work}
         for future in as_completed(futures):
             try:
                 yield futures[future], future.result()
             except BrokenProcessPool:
                 continue
+    except BaseException:  # interrupted: stop the workers now rather than wait for their files
+        for process in list((getattr(pool, "_processes", None) or {}).values()):
+            process.terminate()
+        pool.shutdown(wait=False, cancel_futures=True)
+        raise
+    pool.shutdown()
+
+
+def _ignore_interrupts() -> None:
+    """In a worker: Ctrl-C reaches the whole process group; the parent decides and stops the workers."""
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
+    if not os.environ.get("BATTEN_DEBUG"):  # as the command line does (app.cli.quiet_numerics)
+        warnings.simplefilter("ignore", RuntimeWarning)
 
 
 def _local_run(work: list[tuple[int, str]], task: Callable[[str], Outcome], jobs: int) -> Iterable:
@@ -227,8 +250,8 @@ def run_batch(options: BatchOptions) -> list[str]:
         (checked before any work starts).
     """
     from app.profiles import get_profile
-    from app.report.atomic import write_atomically
     from app.report.writers import now_stamp
+    from geometry.io.files import write_atomically
 
     from .spec import parse_spec
 
@@ -242,17 +265,18 @@ def run_batch(options: BatchOptions) -> list[str]:
     reviews = [r for r, _ in outcomes]
     created = now_stamp()
     say_done = say if options.progress else silent
+    inputs = _inputs(options)
     if options.json:
-        write_atomically(options.json, json_text(reviews, created))
+        write_atomically(options.json, json_text(reviews, created), inputs=inputs)
         say_done(f"wrote {options.json}")
     if options.junit:
-        write_atomically(options.junit, junit_text(reviews, runs, started, __version__))
+        write_atomically(options.junit, junit_text(reviews, runs, started, __version__), inputs=inputs)
         say_done(f"wrote {options.junit}")
     if options.report:
         from app.report.writers import write_report
 
         say_done(f"writing {options.report}")
-        write_report(options.report, reviews, [f for _, f in outcomes], created)
+        write_report(options.report, reviews, [f for _, f in outcomes], created, inputs=inputs)
         say_done(f"wrote {options.report}")
     print(verdict_table(reviews, [r.cached for r in runs]), end="")
     return [r.verdict for r in reviews]

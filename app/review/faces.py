@@ -13,7 +13,7 @@ import numpy as np
 
 from geometry import curvature_on_grid
 from geometry.differential import CurvatureField
-from geometry.model import Model
+from geometry.model import Face, Model
 from geometry.sampling import FaceGrid, model_grids
 
 # Samples over the whole model for the curvature ranges (the sampler spreads them by size and bending).
@@ -66,6 +66,7 @@ class FaceSummary:
     reversed: bool
     curvature: CurvatureRange | None
     loops: int = 0
+    problem: str = ""
 
     def to_dict(self) -> dict:
         return {
@@ -78,6 +79,7 @@ class FaceSummary:
             "trimmed": self.trimmed,
             "reversed": self.reversed,
             "curvature": None if self.curvature is None else self.curvature.to_dict(),
+            **({"problem": self.problem} if self.problem else {}),
         }
 
 
@@ -143,11 +145,25 @@ def curvature_range(field: CurvatureField, inside: np.ndarray) -> CurvatureRange
     )
 
 
+def unevaluable_reason(face: Face) -> str:
+    """Why no sample of a face has a regular tangent plane, in words (a degenerate control net or trim)."""
+    poles = face.surface.poles.reshape(-1, 3)
+    centred = poles - poles.mean(axis=0)
+    scale = float(np.abs(poles).max()) or 1.0
+    rank = int(np.linalg.matrix_rank(centred, tol=1e-12 * scale * len(poles)))
+    if rank == 0:
+        return "all control points coincide"
+    if rank == 1:
+        return "all control points lie on one line"
+    return "no sample inside its trim has a regular tangent plane (degenerate surface or trim)"
+
+
 def summarise_faces(model: Model, budget: int = SAMPLE_BUDGET) -> tuple[FaceSummary, ...]:
     """Description and curvature range of every face, in the model's order."""
     out = []
     for index, (face, (grid, field)) in enumerate(zip(model.faces, face_fields(model, budget), strict=True)):
         s = face.surface
+        curve = curvature_range(field, grid.inside)
         out.append(
             FaceSummary(
                 id=index,
@@ -158,8 +174,9 @@ def summarise_faces(model: Model, budget: int = SAMPLE_BUDGET) -> tuple[FaceSumm
                 rational=s.is_rational,
                 trimmed=face.is_trimmed,
                 reversed=face.reversed,
-                curvature=curvature_range(field, grid.inside),
+                curvature=curve,
                 loops=len(face.loops),
+                problem="" if curve is not None else unevaluable_reason(face),
             )
         )
     return tuple(out)

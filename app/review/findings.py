@@ -93,8 +93,35 @@ def inflection_findings(sections, profile: Profile) -> list[Finding]:
     return found
 
 
-def collect(seams, free_edges, sections, profile: Profile) -> tuple[Finding, ...]:
+def face_findings(faces) -> list[Finding]:
+    """A failing finding for every face no sample of which could be evaluated.
+
+    Such a face was not checked at all; a gate must not pass it in silence.
+
+    Parameters
+    ----------
+    faces : sequence of FaceSummary
+    """
+    return [
+        Finding(
+            Kind.FACE,
+            f"face {f.id} cannot be evaluated: {f.problem}",
+            "valid samples",
+            0.0,
+            None,
+            "samples",
+            FAIL,
+            None,
+            {"face": f.id},
+        )
+        for f in faces
+        if f.curvature is None
+    ]
+
+
+def collect(seams, free_edges, sections, profile: Profile, faces=()) -> tuple[Finding, ...]:
     """All findings of a review, those over tolerance first, worst (value / limit) first."""
-    found = [seam_finding(s, profile) for s in seams]
+    found = face_findings(faces)
+    found += [seam_finding(s, profile) for s in seams]
     found += inflection_findings(sections, profile)
     return worst_first(found)

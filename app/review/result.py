@@ -37,6 +37,7 @@ class Kind(StrEnum):
     DRAFT = "draft"  # a face's least draft against the profile's minimum
     UNDERCUT = "undercut"  # a region whose release path meets the part
     CUTTER_REACH = "cutter_reach"  # a face's tightest concave radius against the cutter
+    FACE = "face"  # a face no sample of which could be evaluated
 
 
 PASS, FAIL, ACCEPTED = Verdict.PASS, Verdict.FAIL, Verdict.ACCEPTED

@@ -8,13 +8,15 @@ pipeline say the same about the same model and settings.
 from __future__ import annotations
 
 import hashlib
+import os
+import stat
 from collections.abc import Callable
 from dataclasses import dataclass, replace
 from pathlib import Path
 
 from app.profiles import get_profile
 from geometry.errors import BattenError, ReadError
-from geometry.io import read_model
+from geometry.io import ReadBudget, read_model
 from geometry.model import Model
 
 from . import findings
@@ -48,6 +50,8 @@ class ReviewSettings:
         cache keyed on the settings sees a changed review file.
     review_source : str
         Where that text came from, for messages and the report.
+    read_budget : ReadBudget
+        Time and memory limits of reading each file.
     """
 
     profile: str | None = None
@@ -63,6 +67,8 @@ class ReviewSettings:
         from .review_file import loads
 
         return loads(self.review_text, self.review_source)
+
+    read_budget: ReadBudget = ReadBudget()
 
 
 def _quiet(_: str) -> None:
@@ -106,7 +112,9 @@ def review_model(model: Model, settings: ReviewSettings = ReviewSettings(), prog
     if pull is not None or profile.limit("cutter_radius_mm") is not None:
         progress(f"{name}: tooling checks" + (f" (pull {', '.join(f'{c:g}' for c in pull)})" if pull else ""))
     tooling = tooling_entry(model, run_tooling(model, profile, settings.pull), pull_source)
-    found = findings.worst_first([*findings.collect(seams, free_edges, sections, profile), *tooling_findings(tooling)])
+    found = findings.worst_first(
+        [*findings.collect(seams, free_edges, sections, profile, faces), *tooling_findings(tooling)]
+    )
     review = FileReview(
         source=model.source,
         status="checked",
@@ -133,9 +141,11 @@ def review_model(model: Model, settings: ReviewSettings = ReviewSettings(), prog
 
 
 def file_sha256(path: str) -> str | None:
-    """Hex sha256 of a file's bytes, or None when it cannot be opened."""
+    """Hex sha256 of a regular file's bytes, or None when it is not one or cannot be opened."""
     digest = hashlib.sha256()
     try:
+        if not stat.S_ISREG(os.stat(path).st_mode):  # /dev/zero would never end, a FIFO never start
+            return None
         with open(path, "rb") as fh:
             for block in iter(lambda: fh.read(1 << 20), b""):
                 digest.update(block)
@@ -162,13 +172,13 @@ def review_file(
     """
     progress(f"{Path(path).name}: reading")
     try:
-        model = load_for_review(path)
+        model = load_for_review(path, settings.read_budget)
     except ReadError as exc:
         return _unreadable(path, exc.reason), None
     return review_model(model, settings, progress), model
 
 
-def load_for_review(path: str) -> Model:
+def load_for_review(path: str, budget: ReadBudget | None = None) -> Model:
     """Read a model to check: its source and digest filled in, at least one face.
 
     Raises
@@ -177,7 +187,7 @@ def load_for_review(path: str) -> Model:
         Naming the file and the cause, for any file that cannot be checked.
     """
     try:
-        model = read_model(path)
+        model = read_model(path, budget)
     except ReadError:
         raise
     except BattenError as exc:

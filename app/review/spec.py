@@ -102,8 +102,9 @@ def parse_spec(spec: str) -> tuple[PlaneItem, ...]:
             raise SpecError(
                 f"sections: cannot read '{raw}'; write e.g. 'x:5', 'y=0,25' or 'plane:0,0,0,0,0,1' (see --help)"
             )
-    if sum(it.count or len(it.values) for it in items if it.kind != "plane") > MAX_PLANES:
-        raise SpecError(f"sections: more than {MAX_PLANES} planes")
+    total = sum(1 if it.kind == "plane" else it.count or len(it.values) for it in items)
+    if total > MAX_PLANES:
+        raise SpecError(f"sections: {total} planes asked for; at most {MAX_PLANES}")
     return tuple(items)
 
 

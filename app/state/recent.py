@@ -4,8 +4,10 @@ from __future__ import annotations
 
 import json
 import os
-import tempfile
 from pathlib import Path
+
+from geometry.errors import WriteError
+from geometry.io.files import write_atomically
 
 KEEP = 10
 
@@ -52,9 +54,6 @@ class RecentFiles:
             return
         try:
             self.store.parent.mkdir(parents=True, exist_ok=True)
-            fd, tmp = tempfile.mkstemp(dir=self.store.parent, prefix=".recent-", suffix=".json")
-            with os.fdopen(fd, "w", encoding="utf-8") as out:
-                json.dump(self.paths, out, indent=1)
-            os.replace(tmp, self.store)
-        except OSError:
+            write_atomically(self.store, json.dumps(self.paths, indent=1))
+        except (OSError, WriteError):
             pass  # a read-only home must not stop anyone opening files

@@ -12,8 +12,13 @@ from __future__ import annotations
 import hashlib
 import os
 
+import numpy as np
+
 from ..errors import BattenError, ReadError
 from ..model import Model
+from .budget import ReadBudget
+from .files import read_regular
+from .numbers import check_numbers
 from .occt_model import ShapeContents
 
 # Larger files are refused before the kernel is asked (a design model is tens of MB).
@@ -77,24 +82,13 @@ def content_format(head: bytes) -> str | None:
 
 
 def _read_bytes(path: str) -> bytes:
-    if not os.path.exists(path):
-        raise ReadError(path, "no such file")
-    if os.path.isdir(path):
-        raise ReadError(path, "is a folder, not a model file")
-    try:
-        size = os.path.getsize(path)
-        if size > MAX_FILE_BYTES:
-            raise ReadError(path, f"file is {size / 1e9:.1f} GB, larger than any model Batten reads")
-        with open(path, "rb") as handle:
-            data = handle.read()
-    except OSError as exc:
-        raise ReadError(path, f"cannot be read ({exc.strerror or exc})") from exc
+    data = read_regular(path, MAX_FILE_BYTES, "model")
     if not data.strip():
         raise ReadError(path, "file is empty")
     return data
 
 
-def _contents(path: str, fmt: str, data: bytes) -> tuple[ShapeContents, str]:
+def _contents(path: str, fmt: str, data: bytes, budget: ReadBudget | None) -> tuple[ShapeContents, str]:
     if fmt == "geomdl-json":
         from .geomdl_json import read_geomdl_json
 
@@ -103,15 +97,33 @@ def _contents(path: str, fmt: str, data: bytes) -> tuple[ShapeContents, str]:
     from .isolation import read_isolated
 
     warm_up_in_background()  # load the compiled kernels while the helper process reads
-    return read_isolated(fmt, path)
+    check_numbers(path, fmt, data)
+    return read_isolated(fmt, path, budget)
 
 
-def read_model(path) -> Model:
+def _finite_edges(contents: ShapeContents) -> ShapeContents:
+    """Leave out edges whose polyline or p-curves hold NaN (a damaged or cut-short file), with a warning."""
+    keep, dropped = [], 0
+    for edge in contents.edges:
+        if np.isfinite(edge.points).all() and all(np.isfinite(use.uv).all() for use in edge.uses):
+            keep.append(edge)
+        else:
+            dropped += 1
+    if not dropped:
+        return contents
+    note = f"{dropped} edge(s) with undefined points left out of the seam checks (damaged edge geometry)"
+    return ShapeContents(contents.faces, keep, [*contents.warnings, note], contents.n_input_faces)
+
+
+def read_model(path, budget: ReadBudget | None = None) -> Model:
     """Read a STEP, IGES or geomdl JSON file as a :class:`Model` in mm.
 
     Parameters
     ----------
     path : str or os.PathLike
+    budget : ReadBudget, optional
+        Time and memory limits of the CAD kernel's read (STEP, IGES); default
+        scaled to the file's size.
 
     Returns
     -------
@@ -134,7 +146,7 @@ def read_model(path) -> Model:
         # Named .igs or .stp but without the format's opening records: say so, not "holds no surface".
         raise ReadError(path, _NOT_SIGNED[fmt])
     try:
-        contents, units = _contents(path, fmt, data)
+        contents, units = _contents(path, fmt, data, budget)
     except ReadError:
         raise
     except BattenError as exc:
@@ -145,6 +157,7 @@ def read_model(path) -> Model:
         why = "; ".join(contents.warnings[:5])
         found = f"{contents.n_input_faces} face(s), none usable" if contents.n_input_faces else "no surfaces"
         raise ReadError(path, f"{found}{': ' + why if why else ''}")
+    contents = _finite_edges(contents)
     return Model(
         faces=tuple(contents.faces),
         edges=tuple(contents.edges),
@@ -157,4 +170,4 @@ def read_model(path) -> Model:
     )
 
 
-__all__ = ["ReadError", "detect_format", "read_model"]
+__all__ = ["ReadBudget", "ReadError", "detect_format", "read_model"]

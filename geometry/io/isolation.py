@@ -5,7 +5,13 @@ or hang on some damaged ones, which no exception handler in Python can catch.
 Readers therefore run in one long-lived helper process
 (:mod:`geometry.io.kernel_worker`, started on first use, reused for later files,
 restarted after a crash); a crash or a time-out becomes a
-:class:`geometry.errors.ReadError` and nothing already loaded is lost. The
+:class:`geometry.errors.ReadError` and nothing already loaded is lost.
+
+Each read runs under a :class:`ReadBudget`: a wall-clock limit (default scaled
+to the file's size) and an address-space limit the helper sets on itself with
+``setrlimit(RLIMIT_AS)``. Past the time limit the helper is killed and the next
+read starts a new one; past the memory limit the kernel's allocation fails
+inside the helper, which reports it (or dies, and is restarted). The
 helper is a plain ``python -m`` process, not a multiprocessing child, so scripts
 that call :func:`geometry.io.read_model` need no ``if __name__ == "__main__"``
 guard.
@@ -25,22 +31,23 @@ debugging the readers).
 from __future__ import annotations
 
 import atexit
+import contextlib
 import multiprocessing.util
 import os
 import pickle
 import select
 import subprocess
 import sys
+import tempfile
 import threading
 
 from ..errors import BattenError, ReadError
 from ..model import Edge, EdgeUse, Face
 from ..nurbs import NurbsSurface
+from .budget import ReadBudget
 from .kernel_worker import HEADER_BYTES
 from .occt_model import ShapeContents
 
-# Seconds a single file may take in the kernel before it is given up on.
-READ_TIMEOUT_S = 900.0
 # Seconds an idle helper gets to leave after its input closes, before it is killed.
 STOP_TIMEOUT_S = 10.0
 # Runs before multiprocessing joins a worker's own children and before lower priorities (default 0).
@@ -61,7 +68,7 @@ def _read(fmt: str, path: str) -> tuple[ShapeContents, str]:
     return read_iges(path)
 
 
-def read_in_worker(fmt: str, path: str):
+def read_in_worker(fmt: str, path: str, memory_bytes: int | None = None):
     """The reader's result, or ``("error", reason)``: exceptions do not all survive pickling."""
     try:
         return _read(fmt, path)
@@ -69,8 +76,17 @@ def read_in_worker(fmt: str, path: str):
         return ("error", exc.reason)
     except BattenError as exc:
         return ("error", str(exc))
+    except MemoryError:
+        return ("error", _memory_reason(memory_bytes))
     except Exception as exc:  # the kernel's own exceptions
+        if "OutOfMemory" in type(exc).__name__ or "OutOfMemory" in str(exc):
+            return ("error", _memory_reason(memory_bytes))
         return ("error", f"the {fmt.upper()} reader failed ({type(exc).__name__}: {exc})")
+
+
+def _memory_reason(memory_bytes: int | None) -> str:
+    limit = f"{memory_bytes / 1e9:.1f} GB" if memory_bytes else "the available"
+    return f"the CAD kernel needed more than {limit} of memory on this file (read budget; --read-memory raises it)"
 
 
 def _stop_at_exit() -> None:
@@ -162,8 +178,34 @@ def _refrozen(contents: ShapeContents) -> ShapeContents:
     return ShapeContents(faces, edges, list(contents.warnings), contents.n_input_faces, list(contents.skipped))
 
 
-def read_isolated(fmt: str, path: str) -> tuple[ShapeContents, str]:
+@contextlib.contextmanager
+def _kernel_path(path: str):
+    """A name the kernel can open: the file's own, or a link with a plain name when it is not valid UTF-8.
+
+    The kernel's bindings take text; a file name of undecodable bytes (held by
+    Python as lone surrogates) cannot cross them.
+    """
+    path = os.path.abspath(path)
+    try:
+        path.encode("utf-8")
+    except UnicodeEncodeError:
+        with tempfile.TemporaryDirectory(prefix="batten-read-") as folder:
+            link = os.path.join(folder, "model" + os.path.splitext(path)[1].encode("ascii", "replace").decode())
+            os.symlink(path, link)
+            yield link
+        return
+    yield path
+
+
+def read_isolated(fmt: str, path: str, budget: ReadBudget | None = None) -> tuple[ShapeContents, str]:
     """Run the ``fmt`` reader ("step" or "iges") on ``path`` in the helper process.
+
+    Parameters
+    ----------
+    fmt : str
+    path : str
+    budget : ReadBudget, optional
+        Time and memory limits; default scaled to the file's size.
 
     Returns
     -------
@@ -173,24 +215,38 @@ def read_isolated(fmt: str, path: str) -> tuple[ShapeContents, str]:
     Raises
     ------
     ReadError
-        The reader's own errors, and a crash or time-out of the kernel.
+        The reader's own errors, a crash of the kernel, or a read over budget.
     """
     if os.environ.get("BATTEN_READ_IN_PROCESS"):
-        return _read(fmt, path)
-    request = pickle.dumps((fmt, os.path.abspath(path)))
-    with _LOCK:
-        worker = _worker()
-        try:
-            worker.stdin.write(len(request).to_bytes(HEADER_BYTES, "little") + request)
-            worker.stdin.flush()
-            answer = _receive(worker, READ_TIMEOUT_S)
-        except OSError:  # the pipe broke: the worker is gone
-            answer = "crashed"
-        if isinstance(answer, str):
-            _stop_worker(graceful=False)
-            if answer == "crashed":
-                raise ReadError(path, f"the CAD kernel crashed reading the {fmt.upper()} file (damaged content)")
-            raise ReadError(path, f"the CAD kernel took longer than {READ_TIMEOUT_S:.0f} s on this file")
+        with _kernel_path(path) as kernel_path:
+            try:
+                return _read(fmt, kernel_path)
+            except ReadError as exc:
+                raise ReadError(path, exc.reason) from None
+    budget = budget or ReadBudget()
+    size = os.path.getsize(path)
+    timeout, memory = budget.timeout_for(size), budget.memory_for(size)
+    with _kernel_path(path) as kernel_path:
+        request = pickle.dumps((fmt, kernel_path, memory))
+        with _LOCK:
+            worker = _worker()
+            try:
+                worker.stdin.write(len(request).to_bytes(HEADER_BYTES, "little") + request)
+                worker.stdin.flush()
+                answer = _receive(worker, timeout)
+            except OSError:  # the pipe broke: the worker is gone
+                answer = "crashed"
+            if isinstance(answer, str):
+                _stop_worker(graceful=False)
+                if answer == "crashed":
+                    raise ReadError(
+                        path,
+                        f"the CAD kernel crashed reading the {fmt.upper()} file (damaged content, or more memory "
+                        f"than the {memory / 1e9:.1f} GB read budget; --read-memory raises it)",
+                    )
+                raise ReadError(
+                    path, f"the CAD kernel took longer than {timeout:.0f} s on this file (--read-timeout raises it)"
+                )
     result = pickle.loads(answer)
     if result[0] == "error":
         raise ReadError(path, result[1])

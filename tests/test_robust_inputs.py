@@ -1,0 +1,201 @@
+"""Hostile input under a budget: kernel hangs, absurd numbers, unbounded options, faces nothing can evaluate.
+
+Each test is one case of the fault campaign of issue 18. Limits are Batten's
+own (README, "Limits"); the expected behaviour is one clear line naming the
+cause, exit 2, or a failing finding, never a hang, a silent pass or exit 3.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+from pathlib import Path
+
+import numpy as np
+import pytest
+from test_io_support import bilinear_record
+
+import geometry
+from app.cli import main
+from app.profiles import ProfileError, read_profile
+from app.review.findings import face_findings
+from app.review.runner import review_model
+from geometry.errors import BattenError, ReadError, SurfaceError
+from geometry.io import ReadBudget, isolation, read_model
+from geometry.io.numbers import check_numbers
+from geometry.model import Face, Model, points_in_loops
+
+SAMPLES = Path(__file__).resolve().parents[1] / "sample_surfaces"
+GOOD = [[0, 0, 0], [0, 10, 0], [10, 0, 0], [10, 10, 2]]
+
+
+def _json_model(tmp_path: Path, *records) -> Path:
+    path = tmp_path / "m.json"
+    path.write_text(json.dumps({"shape": {"type": "surface", "data": list(records)}}))
+    return path
+
+
+@pytest.mark.parametrize("value", ["NaN", "nan", "INF", "-Infinity", "1.7976931348623157E400", "1" * 120 + "."])
+def test_a_step_number_that_hangs_the_kernel_is_refused_before_it(tmp_path, value):
+    # One CARTESIAN_POINT coordinate set to NaN made the kernel's transfer loop for 15 minutes.
+    text = (SAMPLES / "toaster_panel.stp").read_text()
+    bad = tmp_path / "bad.stp"
+    bad.write_text(text.replace("(140.", f"({value}", 1))
+    with pytest.raises(ReadError) as info:
+        read_model(bad)
+    assert "refused before conversion" in info.value.reason
+
+
+def test_names_and_ordinary_numbers_pass_the_number_check():
+    data = (SAMPLES / "toaster_panel.stp").read_bytes().replace(b"'side_panel'", b"'NaN 1e999 panel'")
+    check_numbers("x.stp", "step", data)  # strings are names, not numbers
+    check_numbers("x.igs", "iges", (SAMPLES / "toaster_panel.igs").read_bytes())
+
+
+def test_a_read_over_its_time_budget_stops_and_the_next_read_works(tmp_path, monkeypatch):
+    monkeypatch.delenv("BATTEN_READ_IN_PROCESS", raising=False)
+    # 1e6 in one pole: no hang, but the kernel crawls (about a minute); a one-second budget ends it.
+    slow = tmp_path / "slow.stp"
+    slow.write_text((SAMPLES / "toaster_panel.stp").read_text().replace("(140.", "(1e6", 1))
+    with pytest.raises(ReadError) as info:
+        read_model(slow, ReadBudget(timeout_s=1.0))
+    assert "took longer than 1 s" in info.value.reason and "--read-timeout" in info.value.reason
+    assert len(read_model(SAMPLES / "toaster_panel.stp").faces) == 1
+
+
+def test_a_read_over_its_memory_budget_is_a_read_error(monkeypatch):
+    monkeypatch.delenv("BATTEN_READ_IN_PROCESS", raising=False)
+    monkeypatch.setattr(ReadBudget, "memory_for", lambda self, size: 300_000_000)  # below what the kernel maps
+    with pytest.raises(ReadError, match="memory"):
+        isolation.read_isolated("step", str(SAMPLES / "dial_plate.stp"))
+    monkeypatch.undo()
+    assert len(read_model(SAMPLES / "dial_plate.stp").faces) == 1
+
+
+@pytest.mark.parametrize(
+    "argv, words",
+    [
+        (["--read-timeout", "nan"], "--read-timeout"),
+        (["--read-timeout", "0"], "1 to 1e+06 s"),
+        (["--read-memory", "1e9"], "1 to 1000 GB"),
+    ],
+)
+def test_read_budget_options_are_bounded(argv, words, capsys):
+    assert main(["summary", str(SAMPLES / "dial_plate.stp"), *argv]) == 2
+    assert words in capsys.readouterr().err
+
+
+@pytest.mark.parametrize(
+    "argv, words",
+    [
+        (["summary", "{model}", "--samples", "10000000"], "1000 to 2000000"),
+        (
+            ["section", "{model}", "--plane", "0", "0", "0", "0", "0", "1", "--count", "100000", "--spacing", "1"],
+            "1 to 200",
+        ),
+        (
+            ["section", "{model}", "--plane", "0", "0", "0", "0", "0", "1", "--point-spacing", "1e-7"],
+            "smallest that fits",
+        ),
+        (["section", "{model}", "--plane", "0", "0", "0", "1e308", "1e308", "0"], "non-zero"),
+        (["check", "{model}", "--sections", ";".join(["plane:0,0,0,0,0,1"] * 201)], "201 planes"),
+    ],
+)
+def test_options_are_bounded_before_work_with_the_largest_value_that_fits(tmp_path, argv, words, capsys):
+    model = str(SAMPLES / "dial_plate.stp")
+    assert main([a.replace("{model}", model) for a in argv]) == 2
+    assert words in capsys.readouterr().err
+
+
+@pytest.mark.parametrize("key", ["position_mm", "tangent_deg", "curvature_relative", "flat_curvature_per_mm"])
+def test_an_infinite_profile_value_is_refused(tmp_path, key):
+    path = tmp_path / "p.toml"
+    path.write_text(f'base = "class-a"\n[tolerance]\n{key} = inf\n')
+    with pytest.raises(ProfileError, match=f"{key} must be above 0 and at most"):
+        read_profile(path)
+
+
+@pytest.mark.parametrize(
+    "points, reason",
+    [
+        ([[1, 2, 3]] * 4, "all control points coincide"),
+        ([[0, 0, 0], [1, 1, 1], [2, 2, 2], [3, 3, 3]], "all control points lie on one line"),
+    ],
+)
+def test_a_face_with_no_valid_sample_fails_the_gate(tmp_path, points, reason):
+    model = read_model(_json_model(tmp_path, bilinear_record(points), bilinear_record(GOOD)))
+    review = review_model(model)
+    failing = [f for f in review.failures if f.kind == "face"]
+    assert [f.subject for f in failing] == [f"face 0 cannot be evaluated: {reason}"]
+    assert review.verdict == "fail"
+    assert face_findings(review.faces) == failing
+
+
+@pytest.mark.parametrize(
+    "knots, weights, words",
+    [
+        ([0, 0, 1e-200, 1e-200], None, "too narrow"),  # gave ZeroDivisionError in the curvature code
+        ([0, 0, 1e300, 1e300], None, "beyond what can be evaluated"),
+        ([-1e308, -1e308, 1e308, 1e308], None, "beyond what can be evaluated"),  # gave a NaN conversion error
+        ([0, 0, 1, 1], [1e300, 1, 1, 1e300], "weights differ"),
+    ],
+)
+def test_absurd_knots_and_weights_are_a_surface_error(knots, weights, words):
+    w = None if weights is None else np.reshape(weights, (2, 2))
+    with pytest.raises(SurfaceError, match=words):
+        geometry.NurbsSurface(1, 1, knots, [0, 0, 1, 1], np.reshape(GOOD, (2, 2, 3)), w)
+
+
+@pytest.mark.parametrize(
+    "build",
+    [
+        lambda s: geometry.NurbsSurface(1, 1, [0, 0, 1, 1], [0, 0, 1, 1], "abc"),
+        lambda s: geometry.NurbsSurface(1, 1, "abcd", [0, 0, 1, 1], np.reshape(GOOD, (2, 2, 3))),
+        lambda s: geometry.NurbsSurface(1, 1, [0, 0, 1, 1], [0, 0, 1, 1], np.reshape(GOOD, (2, 2, 3)), "ab"),
+        lambda s: geometry.NurbsSurface("1", 1, [0, 0, 1, 1], [0, 0, 1, 1], np.reshape(GOOD, (2, 2, 3))),
+        lambda s: geometry.curvature_on_grid(s, "abc", [0.5]),
+        lambda s: geometry.curvature_at(s, ["a"], [0.5]),
+    ],
+)
+def test_bad_arguments_to_the_api_raise_surface_error(build):
+    surface = geometry.NurbsSurface(1, 1, [0, 0, 1, 1], [0, 0, 1, 1], np.reshape(GOOD, (2, 2, 3)))
+    with pytest.raises(SurfaceError):
+        build(surface)
+
+
+def test_a_truncated_iges_is_read_or_refused_never_an_internal_error(tmp_path, capsys):
+    # Cut at byte 5063 the kernel returned an edge whose p-curve ends in NaN; the seam code then failed.
+    cut = tmp_path / "cut.igs"
+    cut.write_bytes((SAMPLES / "toaster_panel.igs").read_bytes()[:5063])
+    model = read_model(cut)
+    assert all(np.isfinite(use.uv).all() for edge in model.edges for use in edge.uses)
+    assert main(["check", str(cut), "--quiet", "--jobs", "1", "--sections", "none"]) in (0, 1, 2)
+    assert "internal error" not in capsys.readouterr().out
+
+
+def test_trim_classification_memory_does_not_grow_with_points_times_edges():
+    # 300k points against a 2000-edge loop: blocks keep the temporaries small; the answer matches a circle.
+    t = np.linspace(0, 2 * math.pi, 2000, endpoint=False)
+    loop = np.stack([0.5 + 0.4 * np.cos(t), 0.5 + 0.4 * np.sin(t)], axis=1)
+    rng = np.random.default_rng(7)
+    uv = rng.random((300_000, 2))
+    inside = points_in_loops(uv, (loop,))
+    radius = np.hypot(uv[:, 0] - 0.5, uv[:, 1] - 0.5)
+    clear = np.abs(radius - 0.4) > 1e-3  # away from the polygon's chords
+    np.testing.assert_array_equal(inside[clear], radius[clear] < 0.4)
+
+
+def test_face_inside_uses_the_same_blocks():
+    surface = geometry.NurbsSurface(1, 1, [0, 0, 1, 1], [0, 0, 1, 1], np.reshape(GOOD, (2, 2, 3)))
+    face = Face(surface, loops=(np.array([[0.25, 0.25], [0.75, 0.25], [0.75, 0.75], [0.25, 0.75]]),))
+    u, v = np.meshgrid(np.linspace(0, 1, 101), np.linspace(0, 1, 101), indexing="ij")
+    expected = (u > 0.25) & (u < 0.75) & (v > 0.25) & (v < 0.75)
+    assert (Model((face,)).faces[0].inside(u, v) == expected).sum() >= expected.size - 4 * 101
+
+
+def test_budget_defaults_scale_with_the_file():
+    budget = ReadBudget()
+    assert budget.timeout_for(10_000_000) > budget.timeout_for(10_000)
+    assert budget.memory_for(100_000_000) > budget.memory_for(10_000)
+    with pytest.raises(BattenError):
+        ReadBudget(timeout_s=math.inf)
