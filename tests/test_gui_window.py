@@ -360,3 +360,45 @@ def test_curvature_map_is_smooth_point_data_on_the_dense_grid(qtbot, window):
     assert mapper.GetScalarModeAsString() in ("Default", "UsePointData")
     assert mapper.GetInterpolateScalarsBeforeMapping()  # colours interpolated across each triangle
     assert window.scene.surface_actor.prop.interpolation.name in ("GOURAUD", "PHONG")
+
+
+def typed(qtbot, box, value: float) -> None:
+    """Replace a spin box's text by typing, as a person would, and commit it with Enter."""
+    box.lineEdit().selectAll()
+    qtbot.keyClicks(box.lineEdit(), f"{value:g}")
+    qtbot.keyClick(box.lineEdit(), Qt.Key_Return)
+
+
+def shown_range(w: MainWindow) -> tuple[np.ndarray, np.ndarray]:
+    """The range the map's mapper colours by, and the one the legend's lookup table labels."""
+    bar = w.view.scalar_bars[w.scene.legend]
+    return np.array(w.scene.surface_actor.mapper.scalar_range), np.array(bar.GetLookupTable().GetRange())
+
+
+def test_typed_colour_range_narrows_map_and_legend(qtbot, window):
+    open_and_wait(qtbot, window, SAMPLES / "steamer_body.stp")
+    panel = window.display_panel
+    window.session.set_display(mode=Mode.CURVATURE)
+    auto = np.array(window.session.colour_limits())
+    panel.auto_range.setChecked(False)
+    for reach in (float(f"{share * auto[1]:.3g}") for share in (0.5, 2.0, 0.25)):
+        typed(qtbot, panel.low, -reach)
+        typed(qtbot, panel.high, reach)
+        qtbot.wait(30)
+        mapper, legend = shown_range(window)
+        np.testing.assert_allclose(mapper, (-reach, reach), rtol=1e-6)
+        np.testing.assert_allclose(legend, (-reach, reach), rtol=1e-6)
+        assert panel.range_message.text() == ""
+    shoot(window, "steamer_body-narrowed-range")
+    # an inverted range is not applied and the window says why
+    typed(qtbot, panel.low, 1.0)
+    assert "must be below" in panel.range_message.text()
+    np.testing.assert_allclose(shown_range(window)[1], (-reach, reach), rtol=1e-6)
+    shoot(window, "steamer_body-inverted-range")
+    panel.auto_range.setChecked(True)
+    qtbot.wait(30)
+    assert panel.range_message.text() == ""
+    np.testing.assert_allclose((panel.low.value(), panel.high.value()), auto, rtol=1e-6)
+    mapper, legend = shown_range(window)
+    np.testing.assert_allclose(mapper, auto, rtol=1e-6)
+    np.testing.assert_allclose(legend, auto, rtol=1e-6)

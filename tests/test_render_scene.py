@@ -124,3 +124,29 @@ def test_legend_survives_opening_another_model(scene, session):
     session.set_display(mode=Mode.SHADED)
     scene.update_surface()
     assert not any(b.GetVisibility() for b in scene.plotter.scalar_bars.values())
+
+
+def legend_ranges(scene) -> tuple[tuple[float, float], tuple[float, float]]:
+    """The range the surface's mapper colours by, and the range its legend's lookup table labels."""
+    bar = scene.plotter.scalar_bars[scene.legend]
+    return tuple(scene.surface_actor.mapper.scalar_range), tuple(bar.GetLookupTable().GetRange())
+
+
+@pytest.mark.parametrize("mode", [Mode.CURVATURE, Mode.DEVIATION])
+def test_a_narrowed_range_reaches_map_and_legend(scene, session, mode):
+    # pyvista shares a bar per title and only widens it: narrowing used to leave map and legend wide.
+    session.set_display(mode=mode)
+    scene.update_surface()
+    auto = session.colour_limits()
+    for limits in [(-0.5 * auto[1], 0.5 * auto[1]), (-2 * auto[1], 2 * auto[1]), (0.25 * auto[1], 0.5 * auto[1])]:
+        session.set_colour_range(False, *limits)
+        scene.update_surface()
+        mapper, legend = legend_ranges(scene)
+        assert_allclose(mapper, limits)
+        assert_allclose(legend, limits)
+    session.set_colour_range(True)
+    scene.update_surface()
+    mapper, legend = legend_ranges(scene)
+    assert_allclose(mapper, auto)
+    assert_allclose(legend, auto)
+    assert len(scene.plotter.scalar_bars) == 1

@@ -13,6 +13,7 @@ from PySide6.QtWidgets import (
     QDoubleSpinBox,
     QFormLayout,
     QGroupBox,
+    QLabel,
     QPushButton,
     QSpinBox,
     QVBoxLayout,
@@ -56,6 +57,9 @@ class DisplayPanel(QWidget):
         # Gaussian curvature of a 100 mm radius is 1e-4 1/mm^2: keep eight decimals
         self.low = _spin(-1e6, 1e6, 1e-4, 8)
         self.high = _spin(-1e6, 1e6, 1e-4, 8)
+        # says why a typed range is not shown (empty while the range in force is the one typed)
+        self.range_message = QLabel("")
+        self.range_message.setStyleSheet("color: #b71c1c")
         self.stripe_count = _spin(1, 200, 1)
         self.stripe_width = _spin(0.05, 0.95, 0.05, 2)
         self.stripe_direction = QComboBox()
@@ -76,6 +80,7 @@ class DisplayPanel(QWidget):
         form.addRow(self.auto_range)
         form.addRow("From", self.low)
         form.addRow("To", self.high)
+        form.addRow(self.range_message)
         form.addRow(self.seams)
         stripes = QGroupBox("Light stripes")
         sform = QFormLayout(stripes)
@@ -127,10 +132,17 @@ class DisplayPanel(QWidget):
             self.suggest.setCurrentIndex(0)
 
     def _range_changed(self, *_):
+        low, high = self.low.value(), self.high.value()
         if self.auto_range.isChecked():
+            self.range_message.setText("")
             self.session.set_colour_range(True)
-        elif self.low.value() < self.high.value():
-            self.session.set_colour_range(False, self.low.value(), self.high.value())
+        elif low < high:
+            self.range_message.setText("")
+            self.session.set_colour_range(False, low, high)
+        else:
+            # short enough for the panel's width; the whole story in the tooltip
+            self.range_message.setText("Not applied: From must be below To")
+            self.range_message.setToolTip(f"From {low:g} is not below To {high:g}; the map keeps its last range.")
 
     def refresh(self, *_):
         d = self.session.display
@@ -161,6 +173,7 @@ class DisplayPanel(QWidget):
         self.stripe_direction.setCurrentIndex(self.stripe_direction.findData(d.stripes.direction))
         self.seams.setChecked(d.show_seams)
         del blockers
+        self.range_message.setText("")  # the boxes show the range in force again
         valued = d.mode in VALUE_MODES
         self.measure.setEnabled(d.mode == Mode.CURVATURE)
         self.auto_range.setEnabled(valued)

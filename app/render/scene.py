@@ -101,10 +101,20 @@ class Scene:
         self.plotter.reset_camera()
 
     def _remove_legend(self) -> None:
-        # Hide rather than remove: a later map with the same title reuses its bar.
-        for bar in self.plotter.scalar_bars.values():
-            bar.SetVisibility(False)
+        # Remove rather than hide: pyvista shares one bar per title and only ever widens a shared
+        # bar's range, so a reused bar would keep a wider range than a narrowed map shows.
+        for title in list(self.plotter.scalar_bars.keys()):
+            self.plotter.remove_scalar_bar(title, render=False)
         self.legend = None
+
+    def _pin_legend(self, limits: tuple[float, float]) -> None:
+        """Make the map and its legend show exactly ``limits`` (one lookup table for both)."""
+        mapper = self.surface_actor.mapper
+        mapper.scalar_range = limits
+        mapper.lookup_table.scalar_range = limits
+        bar = self.plotter.scalar_bars[self.legend]
+        bar.SetLookupTable(mapper.lookup_table)
+        bar.SetVisibility(True)
 
     def update_surface(self) -> None:
         """Re-show the faces in the session's display mode."""
@@ -135,10 +145,9 @@ class Scene:
                 scalar_bar_args=LEGEND | {"title": self.legend},
                 **common,
             )
-            bar = self.plotter.scalar_bars[self.legend]
-            bar.SetVisibility(True)
-            # Digits for this range (a bar reused for another model keeps its first format otherwise).
-            bar.SetLabelFormat(tick_format(*limits, LEGEND["n_labels"]))
+            self._pin_legend(limits)
+            # Digits for this range.
+            self.plotter.scalar_bars[self.legend].SetLabelFormat(tick_format(*limits, LEGEND["n_labels"]))
         elif mode == Mode.DRAFT and self.session.tooling is not None:
             # the draft view draws the check's own grids (one analysis for window, check and report)
             added = add_tooling(self.plotter, self.session.tooling, self.session.model.bounds, LEGEND)
@@ -146,7 +155,7 @@ class Scene:
             self.surface = self.surface_actor.mapper.dataset
             self.actors.update({f"tooling {name}": actor for name, actor in added.items()})
             self.legend = LEGEND_TITLE
-            self.plotter.scalar_bars[self.legend].SetVisibility(True)
+            self._pin_legend(tuple(self.surface_actor.mapper.scalar_range))
         elif mode in STRIPE_MODES:
             self.update_stripes(render=False)
             self.surface_actor = self.plotter.add_mesh(
