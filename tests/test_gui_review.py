@@ -50,7 +50,7 @@ def test_compare_with_shows_the_deviation_map(qtbot, window):
     assert low == -high and high == pytest.approx(session.review.deviation.reach)
     window.session.set_colour_range(False, -1.0, 1.0)  # a user range, still centred on 0
     assert session.colour_limits() == (-1.0, 1.0)
-    assert "deviation" in window.scene.legend
+    assert "deviation" in window.scene.legend.lower()
     assert shoot(window, "review-deviation-map").stat().st_size > 10_000
 
 

@@ -68,7 +68,7 @@ def test_an_unwritable_output_is_found_before_the_work(tmp_path, monkeypatch, ca
     def never(*_args, **_kwargs):
         raise AssertionError("the check ran although its output cannot be written")
 
-    monkeypatch.setattr("app.review.batch._run_all", never)
+    monkeypatch.setattr("app.review.batch._check_all", never)
     model = _model(tmp_path)
     status = main(["check", str(model), "--json", str(tmp_path / "no" / "such" / "out.json")])
     assert status == 2

@@ -54,9 +54,8 @@ def test_names_and_ordinary_numbers_pass_the_number_check():
 
 def test_a_read_over_its_time_budget_stops_and_the_next_read_works(tmp_path, monkeypatch):
     monkeypatch.delenv("BATTEN_READ_IN_PROCESS", raising=False)
-    # 1e6 in one pole: no hang, but the kernel crawls (about a minute); a one-second budget ends it.
-    slow = tmp_path / "slow.stp"
-    slow.write_text((SAMPLES / "toaster_panel.stp").read_text().replace("(140.", "(1e6", 1))
+    # The large sample (336 faces) takes the kernel several seconds to read: a one-second budget ends it.
+    slow = SAMPLES / "appliance_range.stp"
     with pytest.raises(ReadError) as info:
         read_model(slow, ReadBudget(timeout_s=1.0))
     assert "took longer than 1 s" in info.value.reason and "--read-timeout" in info.value.reason

@@ -110,9 +110,9 @@ def test_json_is_written_atomically(tmp_path):
 @pytest.mark.parametrize(
     "extra, message",
     [
-        (["--plane", "0", "0", "0", "0", "0", "0"], "must not be zero"),
+        (["--plane", "0", "0", "0", "0", "0", "0"], "non-zero vector"),
         (["--plane", "0", "0", "0", "0", "0", "1", "--count", "2"], "needs a non-zero --spacing"),
-        (["--plane", "0", "0", "0", "0", "0", "1", "--count", "0"], "at least 1"),
+        (["--plane", "0", "0", "0", "0", "0", "1", "--count", "0"], "must be 1 to 200"),
         (["--plane", "0", "0", "nan", "0", "0", "1"], "finite"),
         (["--plane", "0", "0", "0", "0", "0", "1", "--json", "/no/such/folder/out.json"], "does not exist"),
     ],

@@ -101,7 +101,7 @@ class MainWindow(QMainWindow):
         s.subscribe("section", self._section_settings_changed)
         s.subscribe("selection", self._selection_changed)
         s.subscribe("seams", lambda _: self.scene.update_seams())
-        s.subscribe("tooling", lambda _: self.scene.update_surface())
+        s.subscribe("tooling", self._tooling_changed)
         s.subscribe("profile", lambda _: self._update_status())
         s.subscribe("curve", lambda _: self._show_graph())
         s.subscribe("recent", self._fill_recent)
@@ -277,6 +277,11 @@ class MainWindow(QMainWindow):
             return
         self.session.adopt_seams(loaded)
         self.seams_measured.emit(self._job_path)
+
+    def _tooling_changed(self, _=None) -> None:
+        # Only the draft view draws the tooling analysis; other views keep their surface (and camera) as they are.
+        if self.session.display.mode == Mode.DRAFT:
+            self.scene.update_surface()
 
     def _remeasure_seams(self) -> None:
         """Measure the seams on screen under the profile in force, in a worker thread."""

@@ -8,11 +8,11 @@ Nothing heavy (Qt, pyvista) is imported until a report is written.
 from __future__ import annotations
 
 
-def write_report(path, reviews, figures=None, created=None):
+def write_report(path, reviews, figures=None, created=None, comparison=None, inputs=()):
     """See :func:`app.report.writers.write_report`."""
     from .writers import write_report as _write
 
-    return _write(path, reviews, figures, created)
+    return _write(path, reviews, figures, created, comparison=comparison, inputs=inputs)
 
 
 def render_figures(model, review, stripes=None, section=None):
