@@ -266,12 +266,12 @@ def faces(ch: Chapter) -> str:
 
 
 TOOLING_NOTE = (
-    "Draft: asin(n . pull) with the outward normal, signed (positive: the face leaves with the mould half moving "
-    "along +pull); short: area with |draft| below the limit. Undercut: area whose straight path out along its "
-    "release direction meets the part again. Radius: tightest concave bend (1 / largest positive principal "
-    "curvature); no reach: area a ball-end cutter of the profile's radius cannot finish. Sharp inside creases are "
-    "not curvature and are not judged here. The limits are common practice; your organisation's tooling standard "
-    "decides."
+    "Draft: the angle between the surface and the pull direction, asin(n \u00b7 pull) with the outward normal, "
+    "signed (positive: the face leaves with the mould half moving along the pull); short of draft: area whose "
+    "|draft| is below the limit. Undercut: area whose straight path out along its release direction meets the "
+    "part again. Tightest concave radius: 1 / the largest positive principal curvature; out of cutter reach: area "
+    "a ball-end cutter of the profile's radius cannot finish. Sharp inside creases are not curvature and are not "
+    "judged here. The limits are common practice; your organisation's tooling standard decides."
 )
 
 

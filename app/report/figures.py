@@ -241,14 +241,15 @@ def draft_view(pictures: _Pictures, model: Model) -> Figure | None:
     # the check's own analysis again (same grids, same limits): the picture shows what the tables say
     analysis = analyse_tooling(model, tooling["pull"], tooling["draft_min_deg"], tooling["cutter_radius_mm"])
     pictures.session.show_tooling(analysis)
-    pictures.show(Mode.DRAFT, "iso")
+    view = pictures.views[0]
+    pictures.show(Mode.DRAFT, view)
     limit, span = draft_span(analysis)
     pull = ", ".join(f"{c:.3g}" for c in tooling["pull"])
     caption = (
         f"Draft against the pull ({pull}) (green arrow) as the window shows it, degrees, from -{span:g} to {span:g}: "
         f"blue faces leave along +pull, green along -pull; pale to red: below the {limit:g} degree limit. Black "
         f"lines: zero draft (where a parting line can run). Overlays: undercut ({UNDERCUT_NAME}), out of the "
-        f"cutter's reach ({OUT_OF_REACH_NAME}). Numbers: findings over tolerance."
+        f"cutter's reach ({OUT_OF_REACH_NAME}). Numbers: findings over tolerance; {view.words} (model axes)."
     )
     return pictures.take("draft", caption)
 

@@ -338,33 +338,33 @@ def tooling_facts(review: FileReview) -> list[tuple[str, str]]:
     if not t:
         return []
     pull = "none (no draft or undercut check)" if t["pull"] is None else f"{xyz(t['pull'])} (from {t['pull_source']})"
-    limit = "not judged" if t["draft_min_deg"] is None else f"{num(t['draft_min_deg'])} deg"
+    limit = "not judged" if t["draft_min_deg"] is None else f"{num(t['draft_min_deg'])}\u00b0"
     cutter = "not judged" if t["cutter_radius_mm"] is None else f"{num(t['cutter_radius_mm'])} mm ball end"
     radius = t["concave_radius_mm"]
     return [
-        ("pull direction", pull),
-        ("least draft", limit),
+        ("Pull direction", pull),
+        ("Least draft required", limit),
         (
-            "area short of draft",
-            "-" if t["insufficient_area_mm2"] is None else f"{num(t['insufficient_area_mm2'])} mm^2",
+            "Area short of draft",
+            "-" if t["insufficient_area_mm2"] is None else f"{num(t['insufficient_area_mm2'])} mm\u00b2",
         ),
-        ("undercut area", "-" if t["undercut_area_mm2"] is None else f"{num(t['undercut_area_mm2'])} mm^2"),
-        ("cutter", cutter),
-        ("tightest concave radius", "nothing concave" if radius is None else f"{num(radius)} mm"),
+        ("Undercut area", "-" if t["undercut_area_mm2"] is None else f"{num(t['undercut_area_mm2'])} mm\u00b2"),
+        ("Ball-end cutter", cutter),
+        ("Tightest concave radius", "nothing concave" if radius is None else f"{num(radius)} mm"),
     ]
 
 
 def tooling_rows(review: FileReview):
     """Per face: draft range, least draft, area short of draft, undercut area, concave radius, area out of reach."""
     header = [
-        "face",
-        "area mm^2",
-        "draft deg",
-        "least |draft|",
-        "short mm^2",
-        "undercut mm^2",
-        "radius mm",
-        "no reach mm^2",
+        "Face",
+        "Area (mm\u00b2)",
+        "Draft range (\u00b0)",
+        "Least |draft| (\u00b0)",
+        "Short of draft (mm\u00b2)",
+        "Undercut (mm\u00b2)",
+        "Tightest concave radius (mm)",
+        "Out of cutter reach (mm\u00b2)",
     ]
     rows = []
     for f in (review.tooling or {}).get("faces", ()):
@@ -385,7 +385,7 @@ def tooling_rows(review: FileReview):
 
 
 def undercut_rows(review: FileReview):
-    header = ["region", "face", "area mm^2", "centre (mm)"]
+    header = ["Region", "Face", "Area (mm\u00b2)", "Centre x, y, z (mm)"]
     regions = (review.tooling or {}).get("undercuts", ())
     rows = [
         (str(i + 1), f"{r['face']} {r['name']}".strip(), num(r["area_mm2"]), xyz(r["centre"]))
