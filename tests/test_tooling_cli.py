@@ -112,3 +112,14 @@ def test_probe_adds_the_signed_draft(capsys):
         assert main(["probe", str(TRAY), "--at", "70", "0", "12", "--pull", "0", "0", pull]) == 0
         out = json.loads(capsys.readouterr().out)
         assert out["draft_deg"] == pytest.approx(want, abs=DRAFT_TOL_DEG)
+
+
+def test_report_with_a_pull_draws_the_draft_picture(tmp_path):
+    # Regression: the draft picture once asked for a view by name and the report lost every picture.
+    from app.report.figures import render_figures
+    from app.review.runner import ReviewSettings, review_file
+
+    review, model = review_file(str(TRAY), ReviewSettings(pull=(0.0, 0.0, 1.0)))
+    figures = render_figures(model, review)
+    assert "draft" in [f.name for f in figures]
+    assert "model axes" in next(f.caption for f in figures if f.name == "draft")
