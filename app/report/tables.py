@@ -357,6 +357,7 @@ def tooling_facts(review: FileReview) -> list[tuple[str, str]]:
 def tooling_rows(review: FileReview):
     """Per face: draft range, least draft, area short of draft, undercut area, concave radius, area out of reach."""
     header = [
+        "No.",
         "Face",
         "Area (mm\u00b2)",
         "Draft range (\u00b0)",
@@ -371,7 +372,8 @@ def tooling_rows(review: FileReview):
         span = f["draft_range_deg"]
         rows.append(
             (
-                f"{f['face']} {f['name']}".strip(),
+                str(f["face"]),
+                f["name"] or "-",
                 num(f["area_mm2"]),
                 "-" if span is None else f"{num(span[0])} .. {num(span[1])}",
                 num(f["least_draft_deg"]),
@@ -385,10 +387,10 @@ def tooling_rows(review: FileReview):
 
 
 def undercut_rows(review: FileReview):
-    header = ["Region", "Face", "Area (mm\u00b2)", "Centre x, y, z (mm)"]
+    header = ["Region", "No.", "Face", "Area (mm\u00b2)", "Centre x, y, z (mm)"]
     regions = (review.tooling or {}).get("undercuts", ())
     rows = [
-        (str(i + 1), f"{r['face']} {r['name']}".strip(), num(r["area_mm2"]), xyz(r["centre"]))
+        (str(i + 1), str(r["face"]), r["name"] or "-", num(r["area_mm2"]), xyz(r["centre"]))
         for i, r in enumerate(regions)
     ]
     return header, rows
