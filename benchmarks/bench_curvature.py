@@ -91,7 +91,7 @@ COLD_SCRIPT = """
 import time, numpy as np
 t0 = time.perf_counter()
 import geometry
-from geometry.primitives import torus
+from geometry.nurbs.primitives import torus
 t1 = time.perf_counter()
 geometry.curvature_on_grid(torus(50.0, 10.0), np.linspace(0, 1, 10), np.linspace(0, 1, 10))
 t2 = time.perf_counter()

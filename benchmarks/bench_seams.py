@@ -1,10 +1,10 @@
 """Every seam of a model at once against one seam at a time, in the same run.
 
 Batten measures the seams of a file's shared edges in batches
-(:mod:`geometry.seam_batch`, :mod:`geometry.seam_edges`): every stage is one
+(:mod:`geometry.seams.batch`, :mod:`geometry.seams.edges`): every stage is one
 call per face over all that face's points, whichever seam they belong to. The
 reference is the straightforward loop, one seam at a time
-(:func:`geometry.seams.measure_seam` on each seam's edge, as the check measured
+(:func:`geometry.seams.check.measure_seam` on each seam's edge, as the check measured
 seams before), on the same model and adjacency. Both are timed warm (a first
 call on the smallest seams compiles and caches whatever the core compiles).
 
@@ -19,10 +19,9 @@ import sys
 import time
 from pathlib import Path
 
-from geometry.adjacency import find_seams
 from geometry.io import read_model
-from geometry.seam_tolerance import SeamTolerance
-from geometry.seams import measure_seam, measure_seams
+from geometry.seams import SeamTolerance, find_seams
+from geometry.seams.check import measure_seam, measure_seams
 
 ROOT = Path(__file__).resolve().parents[1]
 CORPUS_FILE = ROOT / ".." / "shared" / "corpus" / "k1-inch-52bspline.stp"

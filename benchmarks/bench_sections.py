@@ -1,7 +1,7 @@
 """Moving a section plane across a 20-face model: time per step of sections and combs.
 
 The cached path (what the window does while a plane is dragged) keeps one
-:class:`geometry.sections.SectionEngine`, so a step re-marches the cached
+:class:`geometry.sections.engine.SectionEngine`, so a step re-marches the cached
 grids, refines and evaluates the curve points, and builds the combs. The
 reference in the same run builds the engine afresh at every step (sampling
 every face again), which is what a step would cost without the cache. A third
@@ -18,10 +18,9 @@ import time
 
 import numpy as np
 
-from geometry.combs import curvature_comb, scale_for_longest_tooth
 from geometry.model import Face, Model
 from geometry.nurbs import NurbsSurface
-from geometry.sections import SectionEngine
+from geometry.sections import SectionEngine, curvature_comb, scale_for_longest_tooth
 
 TARGET_MS = 20.0
 STEPS = 40

@@ -3,10 +3,10 @@
 numpy and scipy only; nothing here imports Qt, VTK, pyvista or the app.
 """
 
-from .differential import CurvatureField, curvature_at, curvature_on_grid
 from .errors import BattenError, ReadError, SurfaceError
-from .interop import from_geomdl
-from .nurbs import NurbsSurface
+from .nurbs.differential import CurvatureField, curvature_at, curvature_on_grid
+from .nurbs.interop import from_geomdl
+from .nurbs.surface import NurbsSurface
 
 __all__ = [
     "BattenError",

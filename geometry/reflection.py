@@ -8,7 +8,7 @@ vertices.
 
 All inputs are arrays of samples with the component axis last: ``points`` and
 ``normals`` of shape (..., 3). Normals are unit normals with the face orientation
-applied (see :mod:`geometry.differential`).
+applied (see :mod:`geometry.nurbs.differential`).
 """
 
 from __future__ import annotations

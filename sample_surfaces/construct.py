@@ -1,6 +1,6 @@
 """Exact NURBS constructions used by the sample builder (numpy only).
 
-Everything here makes or cuts :class:`geometry.nurbs.NurbsSurface` objects
+Everything here makes or cuts :class:`geometry.nurbs.surface.NurbsSurface` objects
 without approximation: knot insertion (Boehm), splitting a surface at knots
 into pieces that meet with the continuity of the original, rational arcs and
 tensor-product nets whose (x, y) follow the parameters exactly.

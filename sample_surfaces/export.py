@@ -1,6 +1,6 @@
 """Write sample products as STEP (AP214) and IGES (5.3) through the OCP kernel.
 
-Each :class:`~geometry.nurbs.NurbsSurface` becomes a ``Geom_BSplineSurface`` and
+Each :class:`~geometry.nurbs.surface.NurbsSurface` becomes a ``Geom_BSplineSurface`` and
 a face; faces meant to meet are sewn (``BRepBuilderAPI_Sewing``) so the STEP file
 carries shared edges; face and product names go through an XCAF document so
 STEP holds them (``PRODUCT`` and ``ADVANCED_FACE`` names); IGES gets each face's

@@ -28,7 +28,7 @@ from pathlib import Path
 import numpy as np
 
 from geometry.nurbs import NurbsSurface
-from geometry.primitives import bilinear
+from geometry.nurbs.primitives import bilinear
 
 from .construct import arc_profile, clamped_knots, extrude_profile, greville, split_surface
 from .export import SampleFace

@@ -9,9 +9,9 @@ import numpy as np
 import pytest
 from numpy.testing import assert_allclose
 
-from geometry.adjacency import default_search_distance, find_seams
 from geometry.model import Edge, EdgeUse, Face, Model
 from geometry.seams import check_seams
+from geometry.seams.adjacency import default_search_distance, find_seams
 from tests.test_seams_shapes import offset_pair, plane
 
 LENGTH = 1e-9  # mm
@@ -123,8 +123,8 @@ def test_trimmed_hole_filled_by_a_disc(vertices):
 
 
 def test_closed_surface_meets_itself_along_its_closure():
-    # geometry.primitives builds exact circles of revolution (rational quadratic arcs)
-    from geometry import primitives
+    # geometry.nurbs.primitives builds exact circles of revolution (rational quadratic arcs)
+    from geometry.nurbs import primitives
 
     radius, height = 10.0, 30.0
     report = check_seams(Model((Face(primitives.cylinder(radius, height)),)))
@@ -136,7 +136,7 @@ def test_closed_surface_meets_itself_along_its_closure():
 
 
 def test_sphere_poles_are_neither_seams_nor_free_edges():
-    from geometry import primitives
+    from geometry.nurbs import primitives
 
     report = check_seams(Model((Face(primitives.sphere(5.0)),)))
     (seam,) = report.seams  # the meridian where the surface closes

@@ -5,7 +5,7 @@ import pytest
 from numpy.testing import assert_allclose
 from scipy.interpolate import BSpline
 
-from geometry.basis import basis_matrices, find_spans, nonzero_basis_derivatives
+from geometry.nurbs.basis import basis_matrices, find_spans, nonzero_basis_derivatives
 
 RTOL = 1e-12
 ATOL = 1e-12

@@ -12,8 +12,8 @@ from numpy.testing import assert_allclose
 from scipy.interpolate import BSpline
 
 import geometry
-from geometry.compiled_eval import SurfacePack, basis_rows, derivatives
-from geometry.compiled_inversion import invert
+from geometry.nurbs.compiled_eval import SurfacePack, basis_rows, derivatives
+from geometry.nurbs.compiled_inversion import invert
 from tests.surface_factories import random_geomdl_nurbs
 
 RTOL = 1e-9

@@ -27,10 +27,9 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from geometry.differential import curvature_at
 from geometry.io import read_model
-from geometry.seam_tolerance import SeamTolerance
-from geometry.seams import check_seams
+from geometry.nurbs import curvature_at
+from geometry.seams import SeamTolerance, check_seams
 
 CORPUS = Path(__file__).resolve().parents[1] / ".." / "shared" / "corpus"
 FILES = sorted(p.name for p in CORPUS.glob("*") if p.suffix.lower() in (".stp", ".step", ".igs", ".iges"))

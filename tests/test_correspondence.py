@@ -2,9 +2,9 @@
 
 import numpy as np
 
-from geometry.correspondence import pair_faces
+from geometry.compare import pair_faces
 from geometry.model import Face, Model
-from geometry.primitives import bilinear
+from geometry.nurbs.primitives import bilinear
 
 
 def _patch(x0: float, z: float = 0.0, name: str = "") -> Face:

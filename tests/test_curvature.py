@@ -12,7 +12,8 @@ from geomdl import operations
 from numpy.testing import assert_allclose
 
 import geometry
-from geometry import NurbsSurface, curvature_at, curvature_on_grid, primitives
+from geometry import NurbsSurface, curvature_at, curvature_on_grid
+from geometry.nurbs import primitives
 from tests.surface_factories import random_geomdl_nurbs
 
 RTOL = 1e-10

@@ -14,9 +14,9 @@ import pytest
 from geomdl import operations
 
 import geometry
-from geometry.deviation import model_deviation, signed_distances
+from geometry.compare import model_deviation, signed_distances
 from geometry.model import Face, Model
-from geometry.primitives import bilinear, cylinder
+from geometry.nurbs.primitives import bilinear, cylinder
 from tests.surface_factories import random_geomdl_nurbs
 
 EXACT = 1e-9  # mm

@@ -19,7 +19,7 @@ from shapes import cylinder, sphere
 
 from geometry.errors import BattenError
 from geometry.model import Face, Model
-from geometry.primitives import bilinear, revolve
+from geometry.nurbs.primitives import bilinear, revolve
 from geometry.tooling import (
     INSUFFICIENT,
     RELEASE_MINUS,

@@ -12,7 +12,7 @@ import sys
 CODE = """
 import sys
 import geometry.io, geometry.io.step, geometry.io.iges, geometry.io.geomdl_json
-import geometry.sampling, geometry.probe
+import geometry.model.sampling, geometry.model.probe
 import app.commands.probe, app.commands.summary
 bad = sorted(m for m in sys.modules if m.split('.')[0] in ('OCP', 'PySide6', 'vtk', 'pyvista', 'vtkmodules'))
 print(','.join(bad))

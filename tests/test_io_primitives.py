@@ -16,7 +16,7 @@ import pytest
 from test_io_support import cylinder, sphere, torus, write_iges, write_step
 
 from geometry.io import read_model
-from geometry.probe import probe_point
+from geometry.model import probe_point
 
 # Probed at parameters refined to ~1e-15 on exact rational surfaces: only the
 # rounding of the written file and of the evaluation remain.

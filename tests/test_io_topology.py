@@ -13,8 +13,8 @@ import numpy as np
 import pytest
 from test_io_support import box, plate_with_hole, sphere, write_iges, write_step
 
-from geometry.differential import curvature_at
 from geometry.io import read_model
+from geometry.nurbs import curvature_at
 
 EDGE_ATOL_MM = 1e-9
 
@@ -75,7 +75,7 @@ def test_plate_with_hole_is_trimmed(tmp_path):
 
 def _uv_of(face, xy):
     """(u, v) of the point above xy on a planar face (degree-1 net: bilinear in u, v)."""
-    from geometry.probe import closest_parameters
+    from geometry.model import closest_parameters
 
     z = face.surface.poles[0, 0, 2]
     (u0, u1), (v0, v1) = face.surface.domain

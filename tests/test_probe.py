@@ -18,9 +18,8 @@ from app.cli import EXIT_BAD_INPUT, main
 from geometry.errors import BattenError
 from geometry.io import read_model
 from geometry.io.occt_curves import EDGE_CHORD_MM
-from geometry.model import Face, Model
+from geometry.model import Face, Model, closest_parameters, probe_point, probe_uv
 from geometry.nurbs import NurbsSurface
-from geometry.probe import closest_parameters, probe_point, probe_uv
 
 PARAM_ATOL = 1e-10
 

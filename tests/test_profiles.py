@@ -8,7 +8,7 @@ import pytest
 
 from app.profiles import ProfileError, get_profile, read_profile, shipped_names, shipped_path
 from geometry.errors import BattenError
-from geometry.seam_tolerance import SeamTolerance
+from geometry.seams import SeamTolerance
 
 
 def test_shipped_profiles_load_and_say_where_their_values_come_from():

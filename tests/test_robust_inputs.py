@@ -23,7 +23,8 @@ from app.review.runner import review_model
 from geometry.errors import BattenError, ReadError, SurfaceError
 from geometry.io import ReadBudget, isolation, read_model
 from geometry.io.numbers import check_numbers
-from geometry.model import Face, Model, points_in_loops
+from geometry.model import Face, Model
+from geometry.model.topology import points_in_loops
 
 SAMPLES = Path(__file__).resolve().parents[1] / "sample_surfaces"
 GOOD = [[0, 0, 0], [0, 10, 0], [10, 0, 0], [10, 10, 2]]

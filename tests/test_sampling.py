@@ -15,8 +15,8 @@ from test_io_support import plate_with_hole, write_step
 from geometry.io import read_model
 from geometry.io.occt_curves import EDGE_CHORD_MM
 from geometry.model import Face, Model
+from geometry.model.sampling import DEFAULT_BUDGET, face_grid, model_grids, trimmed_mesh
 from geometry.nurbs import NurbsSurface
-from geometry.sampling import DEFAULT_BUDGET, face_grid, model_grids, trimmed_mesh
 
 
 def _patch(size: float, bump: float, offset: float = 0.0, seed: int = 0) -> Face:

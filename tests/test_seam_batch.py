@@ -4,7 +4,7 @@ Each seeded random join (a tilting join with random angles, a plane tangent to a
 cylinder of random radius, a dihedral of random angle) is measured twice: with
 its shared edge as the file would give it (every seam of the model batched,
 measured between the surfaces at the edge) and by geometric matching alone (one
-seam at a time, boundary to boundary, :class:`geometry.seam_measures.SeamGeometry`).
+seam at a time, boundary to boundary, :class:`geometry.seams.measures.SeamGeometry`).
 Where the faces meet, both definitions agree, so the figures must too.
 """
 
@@ -15,8 +15,7 @@ import pytest
 from numpy.testing import assert_allclose
 
 from geometry.model import Edge, EdgeUse, Model
-from geometry.seam_tolerance import SeamTolerance
-from geometry.seams import check_seams
+from geometry.seams import SeamTolerance, check_seams
 from tests.test_seams_shapes import dihedral, plane_on_cylinder, tilting_join
 
 TOL = SeamTolerance(name="test", crease_deg=None)

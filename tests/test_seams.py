@@ -13,8 +13,8 @@ from numpy.testing import assert_allclose
 
 import geometry
 from geometry.model import Face, Model
-from geometry.seam_tolerance import SeamTolerance
-from geometry.seams import check_seams, refine_maxima
+from geometry.seams import SeamTolerance
+from geometry.seams.check import check_seams, refine_maxima
 from tests.test_seams_shapes import dihedral, offset_pair, plane_on_cylinder, tilting_join
 
 ROUNDING = 1e-9  # "rounding level" for lengths in mm and angles in degrees
@@ -182,7 +182,7 @@ def test_g3_split_cubic_jumps_as_geomdl_says():
     # S_uuu is constant in u, so geomdl's derivatives at u = 0.3 and 0.5 give the two
     # one-sided values exactly. With S_u and S_uu continuous, the jump of the third
     # arc-length derivative of the u iso-curve is the part of that jump normal to the
-    # tangent, over |S_u|^3 (chain rule, see geometry.seam_measures._iso_curvature).
+    # tangent, over |S_u|^3 (chain rule, see geometry.seams.measures._iso_curvature).
     surf = _spline_for_g3(3)
     seam = only_seam(_split_model(surf, 0.4))
     expected = []

@@ -3,7 +3,7 @@
 Each case has an exact answer: surfaces built as polynomials (a hyperbolic
 paraboloid ``z = x y / a`` contains the straight lines ``x = const`` and
 ``y = const``, do Carmo, 1976, sec. 3-5, example; from memory), planes at a
-known angle, a cylinder of revolution (geometry.primitives, exact rational arcs).
+known angle, a cylinder of revolution (geometry.nurbs.primitives, exact rational arcs).
 """
 
 from __future__ import annotations
@@ -14,8 +14,8 @@ from numpy.testing import assert_allclose
 
 from geometry import NurbsSurface
 from geometry.model import Edge, EdgeUse, Face, Model
-from geometry.seam_tolerance import CREASE_BAND_DEG, SeamTolerance, classify
 from geometry.seams import check_seams
+from geometry.seams.tolerance import CREASE_BAND_DEG, SeamTolerance, classify
 from tests.test_seams_shapes import dihedral, plane
 
 ROUNDING_MM = 1e-9
@@ -93,7 +93,7 @@ def test_straight_edge_on_a_curved_face_is_no_false_gap():
 
 def _cylinder_with_free_ends() -> Model:
     """A cylinder of revolution whose two end circles are free edges and whose seam joins it to itself."""
-    from geometry import primitives
+    from geometry.nurbs import primitives
 
     surface = primitives.cylinder(10.0, 30.0)
     (u0, u1), (v0, v1) = surface.domain
@@ -115,7 +115,7 @@ def test_free_end_circle_of_a_periodic_face_is_not_a_seam():
 
 
 def test_halves_of_a_free_circle_never_pair_but_the_closure_does():
-    from geometry import primitives
+    from geometry.nurbs import primitives
 
     # Untrimmed cylinder matched by geometry alone: its sides u = u0 and u = u1
     # meet (the closure); its end circles, cut in halves, must not.

@@ -21,8 +21,8 @@ from shapes import CIRCLE_KNOTS, CIRCLE_W, CIRCLE_XY, cylinder, model_of
 
 from geometry.io import read_model
 from geometry.nurbs import NurbsSurface
-from geometry.section_march import MarchGrid, _edge_nodes
 from geometry.sections import SectionEngine, plane_section
+from geometry.sections.march import MarchGrid, _edge_nodes
 
 SAMPLES = Path(__file__).resolve().parents[1] / "sample_surfaces"
 CURVATURE_RTOL = 1e-9

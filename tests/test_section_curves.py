@@ -22,12 +22,10 @@ from scipy.optimize import brentq
 from shapes import cubic_sweep, model_of, sphere
 from surface_factories import random_geomdl_nurbs
 
-from geometry.combs import curvature_comb, scale_for_longest_tooth
-from geometry.interop import from_geomdl
 from geometry.model import Face, Model
-from geometry.nurbs import NurbsSurface
-from geometry.section_features import illinois_roots
-from geometry.sections import SectionEngine, plane_section
+from geometry.nurbs import NurbsSurface, from_geomdl
+from geometry.sections import SectionEngine, curvature_comb, plane_section, scale_for_longest_tooth
+from geometry.sections.features import illinois_roots
 
 REFERENCE_RTOL = 1e-8
 
@@ -195,7 +193,7 @@ def test_trim_loop_sides_on_a_sphere_bend_like_the_sphere():
     model = Model((Face(sphere(radius), loops=(loop,)),))
     curves = SectionEngine(model).boundary_curves(0)
     assert len(curves) == 4 and all(c.kind == "trim" for c in curves)
-    from geometry.differential import curvature_at
+    from geometry.nurbs import curvature_at
 
     sign = np.sign(curvature_at(model.faces[0].surface, np.array([0.25]), np.array([0.5])).mean[0])
     for curve in curves:

@@ -17,7 +17,7 @@ import pytest
 from shapes import cylinder
 
 from geometry.model import Face, Model
-from geometry.primitives import bilinear
+from geometry.nurbs.primitives import bilinear
 from geometry.tooling import analyse_tooling
 
 WALL_DRAFT = 3.0  # degrees, the tray's walls lean out by this

@@ -36,7 +36,7 @@ def run(args: argparse.Namespace) -> int:
 
     from geometry.errors import BattenError
     from geometry.io import read_model
-    from geometry.probe import probe_point, probe_uv
+    from geometry.model import probe_point, probe_uv
     from geometry.tooling import draft_angles, unit_pull
 
     if args.face is not None and args.uv is None:

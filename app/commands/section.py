@@ -7,7 +7,7 @@ point, the others stepping along the normal), and prints, or writes to
 the signed curvature at each point, its inflections and curvature extrema
 (each with ``point`` and ``s``; extrema also ``curvature``) and its fairness
 figures. Lengths in mm, curvature in 1/mm; the sign convention is in
-:mod:`geometry.section_geometry`.
+:mod:`geometry.sections.curve_geometry`.
 """
 
 from __future__ import annotations

@@ -1,6 +1,6 @@
 """``batten summary FILE``: the model at a glance, with each face's curvature ranges.
 
-Curvature is sampled on each face's trim-aware grid (``geometry.sampling``)
+Curvature is sampled on each face's trim-aware grid (``geometry.model.sampling``)
 with the exact surface derivatives; ranges are over the samples inside the
 trim, so they are a review aid, not a bound.
 """

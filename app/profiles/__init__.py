@@ -27,7 +27,7 @@ from types import MappingProxyType
 
 from geometry.errors import ReadError
 from geometry.io.files import read_regular
-from geometry.seam_tolerance import CLASSES, SeamTolerance
+from geometry.seams.tolerance import CLASSES, SeamTolerance
 
 DEFAULT_PROFILE = "class-a"
 _SHIPPED = {"class-a": "class_a.toml", "technical": "technical.toml"}

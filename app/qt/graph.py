@@ -9,7 +9,7 @@ from PySide6.QtWidgets import QSizePolicy, QWidget
 
 from app.render.colours import COMB, EXTREMUM, INFLECTION
 from geometry.conventions import CURVATURE_SIGN_SHORT
-from geometry.section_results import SectionCurve
+from geometry.sections import SectionCurve
 
 MARGIN_LEFT, MARGIN_RIGHT, MARGIN_TOP, MARGIN_BOTTOM = 78, 12, 22, 34
 TICKS = 6  # about this many labelled distances along the curve

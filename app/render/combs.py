@@ -5,7 +5,7 @@ from __future__ import annotations
 import numpy as np
 import pyvista as pv
 
-from geometry.section_results import CurvatureComb, SectionCurve
+from geometry.sections import CurvatureComb, SectionCurve
 
 
 def polylines(chains: list[np.ndarray]) -> pv.PolyData:

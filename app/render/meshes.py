@@ -14,7 +14,7 @@ import numpy as np
 import pyvista as pv
 
 from app.state.results import FaceSamples
-from geometry.sampling import cell_triangles, grid_cells
+from geometry.model.sampling import cell_triangles, grid_cells
 
 
 def grid_triangles(inside: np.ndarray, offset: int = 0) -> np.ndarray:

@@ -2,8 +2,8 @@
 
 :func:`compare_models` runs the check's analyses on both revisions with the
 same settings (:func:`app.review.runner.review_model`) and adds what only a
-pair can tell: which face became which (:mod:`geometry.correspondence`), how
-far the new surfaces lie from the old ones (:mod:`geometry.deviation`, exact
+pair can tell: which face became which (:mod:`geometry.compare.correspondence`), how
+far the new surfaces lie from the old ones (:mod:`geometry.compare.deviation`, exact
 point inversion), which findings are new, fixed, unchanged or changed
 (:mod:`app.review.finding_diff`) and the fairness figures side by side
 (:mod:`app.review.trend`).
@@ -15,8 +15,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from geometry.correspondence import FacePairing, pair_faces
-from geometry.deviation import DEVIATION_BUDGET, ModelDeviation, model_deviation
+from geometry.compare import FacePairing, pair_faces
+from geometry.compare.deviation import DEVIATION_BUDGET, ModelDeviation, model_deviation
 from geometry.model import Model
 
 from . import trend

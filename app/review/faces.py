@@ -12,9 +12,8 @@ from dataclasses import dataclass
 import numpy as np
 
 from geometry import curvature_on_grid
-from geometry.differential import CurvatureField
-from geometry.model import Face, Model
-from geometry.sampling import FaceGrid, model_grids
+from geometry.model import Face, FaceGrid, Model, model_grids
+from geometry.nurbs import CurvatureField
 
 # Samples over the whole model for the curvature ranges (the sampler spreads them by size and bending).
 SAMPLE_BUDGET = 300_000
@@ -93,7 +92,7 @@ def face_fields(model: Model, budget: int = SAMPLE_BUDGET) -> list[tuple[FaceGri
     ----------
     model : Model
     budget : int
-        Samples :func:`geometry.sampling.model_grids` shares out over the faces.
+        Samples :func:`geometry.model.sampling.model_grids` shares out over the faces.
 
     Returns
     -------

@@ -98,7 +98,7 @@ class FileReview:
 
     ``seams``, ``free_edges`` and ``sections`` hold the plain-dict forms that
     the seam and section analyses give; ``section_curves`` keeps the exact
-    section curves (:class:`geometry.section_results.SectionCurve`) and
+    section curves (:class:`geometry.sections.results.SectionCurve`) and
     ``section_places`` their (plane, curve) indices, for the figures; both are
     left out of the JSON.
     """

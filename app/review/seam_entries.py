@@ -20,7 +20,7 @@ class Line:
 
 
 def seams_and_free_edges(model: Model, profile: Profile, progress=None):
-    """Seams and free edges measured by :func:`geometry.seams.check_seams` under ``profile``.
+    """Seams and free edges measured by :func:`geometry.seams.check.check_seams` under ``profile``.
 
     Returns
     -------

@@ -16,7 +16,7 @@ def curve_entry(curve) -> dict:
 
 
 def cut_sections(model: Model, planes):
-    """Plane sections with inflections, extrema and fairness figures (:class:`geometry.sections.SectionEngine`).
+    """Plane sections with inflections, extrema and fairness figures (:class:`geometry.sections.engine.SectionEngine`).
 
     Parameters
     ----------
@@ -28,7 +28,7 @@ def cut_sections(model: Model, planes):
     sections : tuple of dict
         One per plane: ``label``, ``family``, ``plane`` and ``curves`` (each
         curve's ``to_json()`` without its per-point arrays).
-    curves : tuple of geometry.section_results.SectionCurve
+    curves : tuple of geometry.sections.results.SectionCurve
         The exact curves, for the pictures (the window draws the same type).
     places : tuple of (plane, curve) pairs
         Index of each curve's plane in ``sections`` and of the curve among

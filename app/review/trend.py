@@ -1,6 +1,6 @@
 """Fairness figures of two revisions side by side: faces, seams, section families.
 
-- Faces (paired by :func:`geometry.correspondence.pair_faces`): the ranges of
+- Faces (paired by :func:`geometry.compare.correspondence.pair_faces`): the ranges of
   k1 and k2 and the largest |k| over the face's samples.
 - Seams (paired by the names of their two faces): the worst gap, angle and
   curvature jump along the seam.
@@ -15,7 +15,7 @@
 
 from __future__ import annotations
 
-from geometry.correspondence import FacePairing
+from geometry.compare import FacePairing
 
 from .result import FileReview
 

@@ -1,7 +1,7 @@
 """Reading, sampling and analysing a model for the window: one pure function, safe off the GUI thread.
 
 The reader (:func:`geometry.io.read_model`), the trim-aware sampler
-(:func:`geometry.sampling.model_grids`), the section engine and the seam
+(:func:`geometry.model.sampling.model_grids`), the section engine and the seam
 analysis are the core's; this file only strings them together with progress.
 """
 
@@ -14,17 +14,16 @@ import numpy as np
 
 from app.profiles import Profile, get_profile
 from app.review.faces import SAMPLE_BUDGET as FACE_SAMPLES
-from geometry.differential import curvature_on_grid
 from geometry.errors import BattenError, ReadError
 from geometry.io import read_model
-from geometry.model import Model
-from geometry.sampling import FaceGrid, model_grids
+from geometry.model import FaceGrid, Model, model_grids
+from geometry.nurbs import curvature_on_grid
 from geometry.sections import SectionEngine
 
 from .results import FaceSamples, Loaded
 from .review_findings import review_seams
 
-# Total samples the display grids of a model get (geometry.sampling shares them out): the
+# Total samples the display grids of a model get (geometry.model.sampling shares them out): the
 # check's own, so the window's face ranges and the check's are computed on the same samples.
 SAMPLE_BUDGET = FACE_SAMPLES
 

@@ -7,8 +7,8 @@ from dataclasses import dataclass, field, fields
 import numpy as np
 
 from app.review.result import Kind, Verdict
-from geometry.differential import CurvatureField
 from geometry.model import Model
+from geometry.nurbs import CurvatureField
 from geometry.sections import SectionEngine
 
 from .settings import Measure
@@ -135,7 +135,7 @@ class Loaded:
         they were measured with; None until measured.
     curvature_scale : float
         Typical |k| of the model (1/mm), the reference of the comb scale.
-    engine : geometry.sections.SectionEngine
+    engine : geometry.sections.engine.SectionEngine
         Cached section grids of the model.
     seams_measured : bool
         False until the seam analysis has run.

@@ -24,7 +24,7 @@ from app.review.result import Kind, Verdict
 from app.review.seam_entries import seams_and_free_edges
 from app.review.section_entries import curve_entry
 from geometry.model import Model
-from geometry.section_results import SectionCurve
+from geometry.sections import SectionCurve
 
 from .results import FaceSamples, FindingEntry, SeamView
 

@@ -184,7 +184,7 @@ def deviation_map(old_model, samples: tuple[FaceSamples, ...], old_source: str) 
     -------
     DeviationMap
     """
-    from geometry.deviation import ReferenceModel
+    from geometry.compare import ReferenceModel
 
     total = sum(int(s.inside.sum()) for s in samples)
     stride = max(1, int(np.ceil(np.sqrt(total / DEVIATION_MAP_SAMPLES))))

@@ -1,6 +1,6 @@
-"""Section curves and curvature combs for the window, from the core's :mod:`geometry.sections`.
+"""Section curves and curvature combs for the window, from the core's :mod:`geometry.sections.engine`.
 
-The session keeps one :class:`geometry.sections.SectionEngine` per model (its
+The session keeps one :class:`geometry.sections.engine.SectionEngine` per model (its
 grids are built once, off the GUI thread) and asks it for the family of planes
 in the section settings: fast (markers interpolated) while the plane is being
 dragged, exact (markers by root finding) once it rests.
@@ -8,9 +8,7 @@ dragged, exact (markers by root finding) once it rests.
 
 from __future__ import annotations
 
-from geometry.combs import curvature_comb
-from geometry.section_results import CurvatureComb, SectionCurve
-from geometry.sections import SectionEngine
+from geometry.sections import CurvatureComb, SectionCurve, SectionEngine, curvature_comb
 
 from .settings import SectionSettings
 
@@ -65,6 +63,6 @@ def combs_for(curves: tuple[SectionCurve, ...], scale: float, spacing: float) ->
     The one place the comb side is chosen: the window and the report both draw
     these. ``curve.curvature * curve.sides`` points to the centre of curvature
     whatever the sign convention, so a negative scale puts the teeth outside
-    (see :func:`geometry.combs.curvature_comb`).
+    (see :func:`geometry.sections.combs.curvature_comb`).
     """
     return tuple(curvature_comb(c, -scale, spacing) for c in curves)

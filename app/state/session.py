@@ -18,7 +18,7 @@ from app.review import ReviewSettings, plane_spec
 from app.review.result import Kind, Verdict
 from app.review.tooling_entries import run_tooling
 from geometry.model import Model
-from geometry.section_results import CurvatureComb, SectionCurve
+from geometry.sections import CurvatureComb, SectionCurve
 from geometry.tooling import unit_pull
 
 from .events import Notifier

@@ -12,8 +12,7 @@ import numpy as np
 
 from app.profiles import Profile
 from app.review.tooling_entries import tooling_entry, tooling_findings
-from geometry.model import Model
-from geometry.sampling import model_grids
+from geometry.model import Model, model_grids
 from geometry.tooling import ToolingAnalysis, draft_on_grid, least_out_of_draft, principal_axes, unit_pull
 
 from .results import FindingEntry

@@ -15,7 +15,7 @@ import os
 import numpy as np
 
 from ..errors import BattenError, ReadError
-from ..model import Model
+from ..model.topology import Model
 from .budget import ReadBudget
 from .files import read_regular
 from .numbers import check_numbers
@@ -93,7 +93,7 @@ def _contents(path: str, fmt: str, data: bytes, budget: ReadBudget | None) -> tu
         from .geomdl_json import read_geomdl_json
 
         return read_geomdl_json(path, data), "mm"
-    from ..compiled_warm import warm_up_in_background
+    from ..nurbs.compiled_warm import warm_up_in_background
     from .isolation import read_isolated
 
     warm_up_in_background()  # load the compiled kernels while the helper process reads

@@ -17,8 +17,8 @@ import json
 import numpy as np
 
 from ..errors import BattenError, ReadError
-from ..model import Face, SkippedFace
-from ..nurbs import NurbsSurface
+from ..model.topology import Face, SkippedFace
+from ..nurbs.surface import NurbsSurface
 from .occt_model import MAX_EXTENT_MM, ShapeContents
 
 

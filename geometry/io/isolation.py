@@ -42,8 +42,8 @@ import tempfile
 import threading
 
 from ..errors import BattenError, ReadError
-from ..model import Edge, EdgeUse, Face
-from ..nurbs import NurbsSurface
+from ..model.topology import Edge, EdgeUse, Face
+from ..nurbs.surface import NurbsSurface
 from .budget import ReadBudget
 from .kernel_worker import HEADER_BYTES
 from .occt_model import ShapeContents

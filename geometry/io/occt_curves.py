@@ -11,7 +11,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..nurbs import NurbsSurface
+from ..nurbs.surface import NurbsSurface
 
 # Edges are sampled by arc length and refined until every chord, in 3-D and of
 # each p-curve on its surface, stays this close to the curve (mm): a fortieth of
@@ -138,7 +138,7 @@ class FaceMap:
     """Carries (u, v) of an input face onto its NURBS surface.
 
     The input surface is evaluated at the input (u, v), and the point inverted
-    onto the NURBS (:func:`geometry.probe.closest_parameters`) starting from the
+    onto the NURBS (:func:`geometry.model.probe.closest_parameters`) starting from the
     same (u, v), which lies within a fraction of a knot span of the answer.
     B-spline surfaces and planes keep their parameters through the conversion,
     so their (u, v) are taken as they are.
@@ -163,7 +163,7 @@ class FaceMap:
         All the points of a call are inverted in one compiled call; a NURBS that
         is the input surface itself (``same_parameters``) maps (u, v) to itself.
         """
-        from ..probe import closest_parameters
+        from ..model.probe import closest_parameters
 
         uv = np.asarray(uv, dtype=float)
         if len(uv) == 0:

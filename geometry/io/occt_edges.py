@@ -18,7 +18,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..model import Edge, EdgeUse
+from ..model.topology import Edge, EdgeUse
 from .occt_curves import FaceMap, edge_params, edge_points, pcurve_points
 
 # Loose faces whose edges lie this close are taken to share them (IGES without

@@ -16,8 +16,8 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..errors import BattenError
-from ..model import Edge, Face, SkippedFace
-from ..nurbs import NurbsSurface
+from ..model.topology import Edge, Face, SkippedFace
+from ..nurbs.surface import NurbsSurface
 from .occt_curves import FaceMap, face_loops
 from .occt_edges import indexed_map, sewn_edges, shared_edges
 from .occt_surface import bspline_to_nurbs, face_bspline, surface_bspline

@@ -1,4 +1,4 @@
-"""An OCP surface as a Batten :class:`~geometry.nurbs.NurbsSurface`.
+"""An OCP surface as a Batten :class:`~geometry.nurbs.surface.NurbsSurface`.
 
 Everything here runs on one face at a time and imports OCP lazily (the rest of
 ``geometry`` never needs the kernel).
@@ -9,7 +9,7 @@ from __future__ import annotations
 import numpy as np
 
 from ..errors import SurfaceError
-from ..nurbs import NurbsSurface
+from ..nurbs.surface import NurbsSurface
 
 
 def _array1(seq) -> np.ndarray:

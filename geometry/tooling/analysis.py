@@ -1,9 +1,9 @@
 """The tooling checks of a whole model: draft, undercut and cutter reach, face by face.
 
-Every face is sampled on the trim-aware grid of :func:`geometry.sampling.model_grids`;
+Every face is sampled on the trim-aware grid of :func:`geometry.model.sampling.model_grids`;
 draft comes from :mod:`.draft`, undercuts from rays cast against the same grids'
 tessellation (:mod:`.undercut`), cutter reach from the exact k1
-(:mod:`geometry.differential`, :mod:`.cutter`), and the zero-draft curves from
+(:mod:`geometry.nurbs.differential`, :mod:`.cutter`), and the zero-draft curves from
 :mod:`.zero_draft`. Areas are quadratures of ``|Su x Sv|`` over the samples
 inside the trim.
 """
@@ -15,9 +15,9 @@ from dataclasses import dataclass
 import numpy as np
 from scipy import ndimage
 
-from ..differential import curvature_on_grid
-from ..model import Model
-from ..sampling import FaceGrid, model_grids, trimmed_mesh
+from ..model.sampling import FaceGrid, model_grids, trimmed_mesh
+from ..model.topology import Model
+from ..nurbs.differential import curvature_on_grid
 from .cutter import concave_radius
 from .draft import INSUFFICIENT, DraftField, draft_classes, draft_on_grid, unit_pull
 from .undercut import RayCaster, blocked_release
@@ -154,7 +154,7 @@ def _point(p: np.ndarray) -> tuple[float, float, float]:
 
 
 def model_tessellation(model: Model, budget: int = MESH_BUDGET) -> tuple[np.ndarray, np.ndarray, float]:
-    """Triangles of every face's trimmed sample grid, stacked (see :func:`geometry.sampling.trimmed_mesh`).
+    """Triangles of every face's trimmed sample grid, stacked (see :func:`geometry.model.sampling.trimmed_mesh`).
 
     Returns
     -------
@@ -213,7 +213,7 @@ def analyse_tooling(
     undercuts : bool
         Cast the release rays.
     budget : int
-        Total grid samples (see :func:`geometry.sampling.model_grids`).
+        Total grid samples (see :func:`geometry.model.sampling.model_grids`).
     curves : bool
         Trace the zero-draft curves.
 

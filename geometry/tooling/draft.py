@@ -21,10 +21,10 @@ from dataclasses import dataclass, fields
 import numpy as np
 from threadpoolctl import ThreadpoolController
 
-from ..basis import basis_matrices
-from ..differential import DEGENERATE_SINE, LIMIT_NUDGE, area_floor
 from ..errors import BattenError
-from ..nurbs import NurbsSurface
+from ..nurbs.basis import basis_matrices
+from ..nurbs.differential import DEGENERATE_SINE, LIMIT_NUDGE, area_floor
+from ..nurbs.surface import NurbsSurface
 
 # Samples per block of rows: temporaries stay in cache.
 _CHUNK_POINTS = 1 << 15

@@ -3,7 +3,7 @@
 Seen along the pull direction ``d`` these curves are the model's silhouette;
 a parting line can run along them. They are the zero set of
 ``g(u, v) = n(u, v) . d`` on each face, found like a plane section
-(:mod:`geometry.section_march` marches the sampled field, trimmed by the face's
+(:mod:`geometry.sections.march` marches the sampled field, trimmed by the face's
 loops) and refined on the exact surface by Newton's method on ``g``, stepping
 along its gradient in (u, v). With ``W = Su x Sv`` and ``n = W / |W|``,
 
@@ -19,10 +19,10 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ..model import Model
-from ..section_eval import FaceEvaluator
-from ..section_march import FIXED_U, FIXED_V, FREE, march_field, march_grids
-from ..section_pieces import resample
+from ..model.topology import Model
+from ..sections.evaluate import FaceEvaluator
+from ..sections.march import FIXED_U, FIXED_V, FREE, march_field, march_grids
+from ..sections.pieces import resample
 from .draft import draft_on_grid, unit_pull
 
 # Samples of all marching grids together.
