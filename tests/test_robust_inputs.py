@@ -18,7 +18,7 @@ from test_io_support import bilinear_record
 import geometry
 from app.cli import main
 from app.profiles import ProfileError, read_profile
-from app.review.findings import face_findings
+from app.review.findings import face_findings, unevaluable_faces
 from app.review.runner import review_model
 from geometry.errors import BattenError, ReadError, SurfaceError
 from geometry.io import ReadBudget, isolation, read_model
@@ -128,7 +128,7 @@ def test_a_face_with_no_valid_sample_fails_the_gate(tmp_path, points, reason):
     failing = [f for f in review.failures if f.kind == "face"]
     assert [f.subject for f in failing] == [f"face 0 cannot be evaluated: {reason}"]
     assert review.verdict == "fail"
-    assert face_findings(review.faces) == failing
+    assert face_findings(unevaluable_faces(review.faces)) == failing
 
 
 @pytest.mark.parametrize(
@@ -199,3 +199,31 @@ def test_budget_defaults_scale_with_the_file():
     assert budget.memory_for(100_000_000) > budget.memory_for(10_000)
     with pytest.raises(BattenError):
         ReadBudget(timeout_s=math.inf)
+
+
+def test_a_face_the_reader_left_out_fails_the_gate_and_shows_in_the_window(tmp_path):
+    # A face not read was not checked: the gate must not pass the model in silence (issue 18).
+    bad = [[0, 0, 0], [0, 10, float("nan")], [10, 0, 0], [10, 10, 0]]
+    model = read_model(_json_model(tmp_path, bilinear_record(GOOD), bilinear_record(bad)))
+    assert model.faces_in_file == 2 and len(model.faces) == 1
+    review = review_model(model)
+    subjects = [f.subject for f in review.failures if f.kind == "face"]
+    assert subjects == ["face 2 of the file was not read: control net holds NaN or infinite coordinates"]
+    assert review.verdict == "fail"
+
+    from app.state import Session
+
+    session = Session()
+    session.show_model(model)
+    shown = [f for f in session.findings if f.kind == "face"]
+    assert [f.title for f in shown] == subjects and shown[0].verdict == "fail"
+    assert session.findings[0] is shown[0]  # failing faces lead the list
+
+
+def test_the_window_lists_a_face_that_cannot_be_evaluated(tmp_path):
+    from app.state import Session
+
+    session = Session()
+    session.show_model(read_model(_json_model(tmp_path, bilinear_record([[1, 2, 3]] * 4), bilinear_record(GOOD))))
+    failing = [f.title for f in session.findings if f.kind == "face"]
+    assert failing == ["face 0 cannot be evaluated: all control points coincide"]

@@ -70,9 +70,10 @@ def _json_seed() -> bytes:
     return json.dumps({"shape": {"type": "surface", "data": [record]}}).encode()
 
 
-def seeds() -> list[tuple[str, bytes]]:
-    """(suffix, bytes) of every seed file."""
-    out = [(p.suffix, p.read_bytes()) for p in sorted(SAMPLES.glob("*.stp")) + sorted(SAMPLES.glob("*.igs"))]
+def seeds(max_bytes: int | None = None) -> list[tuple[str, bytes]]:
+    """(suffix, bytes) of every seed file, those larger than ``max_bytes`` left out."""
+    files = sorted(SAMPLES.glob("*.stp")) + sorted(SAMPLES.glob("*.igs"))
+    out = [(p.suffix, p.read_bytes()) for p in files if max_bytes is None or p.stat().st_size <= max_bytes]
     return [*out, (".json", _json_seed())]
 
 
@@ -244,11 +245,17 @@ def run_cli(path: bytes, out_dir: Path) -> tuple[str, str]:
 
 
 def campaign(
-    count: int, mode: str, seed: int, keep: Path | None, review: bool = True, report_every: int = 100
+    count: int,
+    mode: str,
+    seed: int,
+    keep: Path | None,
+    review: bool = True,
+    report_every: int = 100,
+    max_seed_bytes: int | None = None,
 ) -> Counter:
     """Run ``count`` mutated inputs; returns the outcome counts."""
     rng = random.Random(seed)
-    pool = seeds()
+    pool = seeds(max_seed_bytes)
     counts: Counter = Counter()
     child = ReaderChild(review) if mode == "reader" else None
     started = time.time()
@@ -281,12 +288,14 @@ def main() -> int:
     parser.add_argument("--seed", type=int, default=0)
     parser.add_argument("--keep", type=Path, help="copy failing inputs here")
     parser.add_argument("--read-only", action="store_true", help="reader path: read only, no review (faster)")
+    parser.add_argument("--max-seed-kb", type=int, help="leave out sample files larger than this (long runs)")
     parser.add_argument("--serve", action="store_true", help=argparse.SUPPRESS)
     args = parser.parse_args()
     if args.serve:
         serve(review=not args.read_only)
         return 0
-    counts = campaign(args.count, args.mode, args.seed, args.keep, review=not args.read_only)
+    max_bytes = args.max_seed_kb * 1024 if args.max_seed_kb else None
+    counts = campaign(args.count, args.mode, args.seed, args.keep, not args.read_only, max_seed_bytes=max_bytes)
     mode = f"{args.mode}{' (read only)' if args.read_only else ''}"
     print(json.dumps({"mode": mode, "seed": args.seed, "inputs": args.count, **counts}))
     return 1 if any(counts[k] for k in FAILURES) else 0

@@ -18,6 +18,7 @@ from .dispositions import DispositionEditor
 ANY = "any"
 FROM_FILE = "from file…"
 KIND_WORDS = {
+    Kind.FACE: "faces not checked",
     Kind.SEAM: "seams",
     Kind.FREE_EDGE: "free edges",
     Kind.INFLECTION: "inflections",

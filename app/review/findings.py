@@ -93,35 +93,43 @@ def inflection_findings(sections, profile: Profile) -> list[Finding]:
     return found
 
 
-def face_findings(faces) -> list[Finding]:
-    """A failing finding for every face no sample of which could be evaluated.
+def face_findings(unevaluable=(), skipped=()) -> list[Finding]:
+    """A failing finding for every face that was not checked.
 
-    Such a face was not checked at all; a gate must not pass it in silence.
+    A face no sample of which could be evaluated, and a face the reader left
+    out, were not checked at all; a gate must not pass them in silence.
 
     Parameters
     ----------
-    faces : sequence of FaceSummary
+    unevaluable : sequence of (int, str)
+        Index and problem of each face no sample of which could be evaluated
+        (:func:`unevaluable_faces`).
+    skipped : sequence of geometry.model.SkippedFace
+        Faces of the file the reader left out, with the reason.
     """
-    return [
-        Finding(
-            Kind.FACE,
-            f"face {f.id} cannot be evaluated: {f.problem}",
-            "valid samples",
-            0.0,
-            None,
-            "samples",
-            FAIL,
-            None,
-            {"face": f.id},
-        )
-        for f in faces
-        if f.curvature is None
-    ]
+    found = [_face_finding(i, f"face {i} cannot be evaluated: {problem}") for i, problem in unevaluable]
+    for s in skipped:
+        place = "a face" if s.place is None else f"face {s.place} of the file"
+        named = f" ({s.name})" if s.name else ""
+        found.append(_face_finding(s.place, f"{place}{named} was not read: {s.reason}"))
+    return found
 
 
-def collect(seams, free_edges, sections, profile: Profile, faces=()) -> tuple[Finding, ...]:
-    """All findings of a review, those over tolerance first, worst (value / limit) first."""
-    found = face_findings(faces)
+def unevaluable_faces(faces) -> list[tuple[int, str]]:
+    """(index, problem) of each face summary without a curvature range (:class:`app.review.faces.FaceSummary`)."""
+    return [(f.id, f.problem) for f in faces if f.curvature is None]
+
+
+def _face_finding(face, subject: str) -> Finding:
+    return Finding(Kind.FACE, subject, "valid samples", 0.0, None, "samples", FAIL, None, {"face": face})
+
+
+def collect(seams, free_edges, sections, profile: Profile, faces=(), skipped=()) -> tuple[Finding, ...]:
+    """All findings of a review, those over tolerance first, worst (value / limit) first.
+
+    ``faces`` are face summaries, ``skipped`` as :func:`face_findings` takes it.
+    """
+    found = face_findings(unevaluable_faces(faces), skipped)
     found += [seam_finding(s, profile) for s in seams]
     found += inflection_findings(sections, profile)
     return worst_first(found)

@@ -113,7 +113,7 @@ def review_model(model: Model, settings: ReviewSettings = ReviewSettings(), prog
         progress(f"{name}: tooling checks" + (f" (pull {', '.join(f'{c:g}' for c in pull)})" if pull else ""))
     tooling = tooling_entry(model, run_tooling(model, profile, settings.pull), pull_source)
     found = findings.worst_first(
-        [*findings.collect(seams, free_edges, sections, profile, faces), *tooling_findings(tooling)]
+        [*findings.collect(seams, free_edges, sections, profile, faces, model.skipped), *tooling_findings(tooling)]
     )
     review = FileReview(
         source=model.source,

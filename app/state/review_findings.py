@@ -19,7 +19,7 @@ import numpy as np
 
 from app.profiles import Profile
 from app.review import findings as review
-from app.review.faces import curvature_range
+from app.review.faces import curvature_range, unevaluable_reason
 from app.review.result import Kind, Verdict
 from app.review.seam_entries import seams_and_free_edges
 from app.review.section_entries import curve_entry
@@ -195,3 +195,21 @@ def curvature_extremes(model: Model, samples: tuple[FaceSamples, ...]) -> list[F
         extent = min(10.0 / k, float(np.ptp(s.field.points[s.inside], axis=0).max()) or 10.0)
         found.append((k, FindingEntry(Kind.CURVATURE, title, Verdict.NOTE, s.field.points[i, j], extent, detail)))
     return [f for _, f in sorted(found, key=lambda pair: -pair[0])]
+
+
+def unchecked_faces(model: Model, samples: tuple[FaceSamples, ...]) -> list[FindingEntry]:
+    """A failing entry for each face not checked: none of its samples evaluates, or the reader left it out.
+
+    The same findings as ``batten check`` gives (:func:`app.review.findings.face_findings`).
+    """
+    unevaluable = [
+        (s.face, unevaluable_reason(model.faces[s.face])) for s in samples if curvature_range(s.field, s.inside) is None
+    ]
+    centre = model.bounds.mean(axis=0)
+    found = []
+    for n, f in enumerate(review.face_findings(unevaluable, model.skipped)):
+        # an unevaluable face is in the model (focus on its control net); a skipped one is not
+        inside = n < len(unevaluable)
+        where = model.faces[unevaluable[n][0]].surface.poles.reshape(-1, 3).mean(axis=0) if inside else centre
+        found.append(FindingEntry(f.kind, f.subject, f.verdict, where, max(model.size / 4, 1.0), f.subject))
+    return found

@@ -25,7 +25,14 @@ from .events import Notifier
 from .loading import Progress, prepare, with_seams_judged
 from .recent import RecentFiles
 from .results import FaceSamples, FindingEntry, Loaded, measure_values
-from .review_findings import curvature_extremes, curve_label, face_label, judged_findings, section_notes
+from .review_findings import (
+    curvature_extremes,
+    curve_label,
+    face_label,
+    judged_findings,
+    section_notes,
+    unchecked_faces,
+)
 from .revisions import ReviewLoop, review_path_for
 from .sectioning import comb_scale, combs_for, sections_for
 from .settings import SIGNED_MEASURES, ColourRange, DisplaySettings, Mode, SectionSettings
@@ -35,6 +42,7 @@ from .tooling import starting_pull, suggested_pull, tooling_list
 # Robust automatic colour range: ignore this share of samples at each end.
 AUTO_PERCENTILE = 2.0
 KIND_ORDER = (
+    Kind.FACE,
     Kind.SEAM,
     Kind.FREE_EDGE,
     Kind.INFLECTION,
@@ -82,6 +90,7 @@ class Session:
         self.camera: Camera | None = None
         self.recent = recent or RecentFiles(None)
         self._face_extremes: list[FindingEntry] = []
+        self._face_problems: list[FindingEntry] = []
         self.review = ReviewLoop()  # review file and comparison with an earlier revision
 
     # -- what is loaded --------------------------------------------------
@@ -118,6 +127,7 @@ class Session:
         self.path = path
         # they depend on the samples alone: found once, not on every drag step of the plane
         self._face_extremes = curvature_extremes(loaded.model, loaded.samples)
+        self._face_problems = unchecked_faces(loaded.model, loaded.samples)
         lo, hi = loaded.model.bounds
         centre = tuple(float(x) for x in (lo + hi) / 2)
         spacing = max(loaded.model.size / 20, 1e-3)
@@ -379,6 +389,7 @@ class Session:
         found = judged_findings(model, seams, self.sections, places, self.profile)
         found.extend(section_notes(self.sections, places))
         found.extend(self._face_extremes)
+        found.extend(self._face_problems)
         found.extend(tooling_list(self.loaded.model, self.tooling, self.profile))
         # failing first, then by kind; a stable sort keeps each source's own order within
         found.sort(key=lambda f: (VERDICT_ORDER.index(f.verdict), KIND_ORDER.index(f.kind)))
