@@ -55,11 +55,43 @@ def test_names_and_ordinary_numbers_pass_the_number_check():
 
 def test_a_read_over_its_time_budget_stops_and_the_next_read_works(tmp_path, monkeypatch):
     monkeypatch.delenv("BATTEN_READ_IN_PROCESS", raising=False)
-    # The large sample (336 faces) takes the kernel several seconds to read: a one-second budget ends it.
+    # The large sample (336 faces) takes the kernel about 2.7 s of processor time to read (measured):
+    # a one-second budget ends it, however long the machine makes it wait.
+    monkeypatch.setattr("geometry.io.budget.WALL_CLOCK_FACTOR", 1000.0)
     slow = SAMPLES / "appliance_range.stp"
     with pytest.raises(ReadError) as info:
         read_model(slow, ReadBudget(timeout_s=1.0))
-    assert "took longer than 1 s" in info.value.reason and "--read-timeout" in info.value.reason
+    assert "more than 1 s of processor time" in info.value.reason and "--read-timeout" in info.value.reason
+    assert len(read_model(SAMPLES / "toaster_panel.stp").faces) == 1
+
+
+def test_a_busy_machine_slows_a_read_without_failing_it(monkeypatch):
+    # The budget is processor time: a read held up by other work (here the helper is stopped outright
+    # for longer than the budget) still ends well. A wall-clock budget failed big files on a loaded node.
+    import signal
+    import threading
+
+    monkeypatch.delenv("BATTEN_READ_IN_PROCESS", raising=False)
+    read_model(SAMPLES / "dial_plate.stp")  # the helper is up, the kernel loaded
+    helper = isolation._WORKER
+    os_kill = __import__("os").kill
+    os_kill(helper.pid, signal.SIGSTOP)
+    threading.Timer(2.5, os_kill, (helper.pid, signal.SIGCONT)).start()
+    model = read_model(SAMPLES / "toaster_panel.stp", ReadBudget(timeout_s=1.0))
+    assert len(model.faces) == 1
+
+
+def test_a_kernel_that_hangs_idle_meets_the_wall_clock(monkeypatch):
+    import signal
+
+    monkeypatch.delenv("BATTEN_READ_IN_PROCESS", raising=False)
+    monkeypatch.setattr("geometry.io.budget.WALL_CLOCK_FACTOR", 1.5)
+    read_model(SAMPLES / "dial_plate.stp")
+    helper = isolation._WORKER
+    __import__("os").kill(helper.pid, signal.SIGSTOP)  # never answers, never uses processor time
+    with pytest.raises(ReadError, match="gave no answer within 2 s"):
+        read_model(SAMPLES / "toaster_panel.stp", ReadBudget(timeout_s=1.0))
+    assert helper.poll() is not None  # killed; the next read starts a new helper
     assert len(read_model(SAMPLES / "toaster_panel.stp").faces) == 1
 
 

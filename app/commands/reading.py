@@ -11,8 +11,8 @@ def add_read_options(parser: argparse.ArgumentParser) -> None:
         "--read-timeout",
         type=float,
         metavar="S",
-        help="seconds the CAD kernel may spend reading one STEP or IGES file (1 to 1e6; default 120 s plus "
-        "30 s per MB of file)",
+        help="processor seconds the CAD kernel may spend reading one STEP or IGES file (1 to 1e6; default "
+        "120 s plus 30 s per MB of file; a read that waits ten times as long without an answer is also stopped)",
     )
     parser.add_argument(
         "--read-memory",

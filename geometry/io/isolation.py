@@ -7,10 +7,11 @@ Readers therefore run in one long-lived helper process
 restarted after a crash); a crash or a time-out becomes a
 :class:`geometry.errors.ReadError` and nothing already loaded is lost.
 
-Each read runs under a :class:`ReadBudget`: a wall-clock limit (default scaled
-to the file's size) and an address-space limit the helper sets on itself with
-``setrlimit(RLIMIT_AS)``. Past the time limit the helper is killed and the next
-read starts a new one; past the memory limit the kernel's allocation fails
+Each read runs under a :class:`ReadBudget`: a processor-time limit (default
+scaled to the file's size) the helper sets on itself with ``setrlimit(RLIMIT_CPU)``,
+a wall-clock limit several times longer for a kernel that hangs without
+working, and an address-space limit set with ``setrlimit(RLIMIT_AS)``. Past a
+time limit the helper is killed and the next read starts a new one; past the memory limit the kernel's allocation fails
 inside the helper, which reports it (or dies, and is restarted). The
 helper is a plain ``python -m`` process, not a multiprocessing child, so scripts
 that call :func:`geometry.io.read_model` need no ``if __name__ == "__main__"``
@@ -36,6 +37,7 @@ import multiprocessing.util
 import os
 import pickle
 import select
+import signal
 import subprocess
 import sys
 import tempfile
@@ -165,6 +167,15 @@ def _receive(worker: subprocess.Popen, timeout: float) -> bytes | str:
     return body if size >= 0 and len(body) == size else "crashed"
 
 
+def _over_processor_time(worker: subprocess.Popen) -> bool:
+    """Whether the helper died of its processor-time limit (SIGXCPU)."""
+    try:
+        code = worker.wait(STOP_TIMEOUT_S)
+    except subprocess.TimeoutExpired:
+        return False
+    return code == -signal.SIGXCPU
+
+
 def _refrozen(contents: ShapeContents) -> ShapeContents:
     """Rebuild faces and edges after unpickling (arrays come back writeable)."""
 
@@ -225,19 +236,27 @@ def read_isolated(fmt: str, path: str, budget: ReadBudget | None = None) -> tupl
                 raise ReadError(path, exc.reason) from None
     budget = budget or ReadBudget()
     size = os.path.getsize(path)
-    timeout, memory = budget.timeout_for(size), budget.memory_for(size)
+    timeout, wall, memory = budget.timeout_for(size), budget.wall_clock_for(size), budget.memory_for(size)
     with _kernel_path(path) as kernel_path:
-        request = pickle.dumps((fmt, kernel_path, memory))
+        request = pickle.dumps((fmt, kernel_path, memory, timeout))
         with _LOCK:
             worker = _worker()
             try:
                 worker.stdin.write(len(request).to_bytes(HEADER_BYTES, "little") + request)
                 worker.stdin.flush()
-                answer = _receive(worker, timeout)
+                answer = _receive(worker, wall)
             except OSError:  # the pipe broke: the worker is gone
                 answer = "crashed"
             if isinstance(answer, str):
+                if answer == "crashed" and _over_processor_time(worker):
+                    answer = "processor"
                 _stop_worker(graceful=False)
+                if answer == "processor":
+                    raise ReadError(
+                        path,
+                        f"the CAD kernel spent more than {timeout:.0f} s of processor time on this file "
+                        "(--read-timeout raises it)",
+                    )
                 if answer == "crashed":
                     raise ReadError(
                         path,
@@ -245,7 +264,8 @@ def read_isolated(fmt: str, path: str, budget: ReadBudget | None = None) -> tupl
                         f"than the {memory / 1e9:.1f} GB read budget; --read-memory raises it)",
                     )
                 raise ReadError(
-                    path, f"the CAD kernel took longer than {timeout:.0f} s on this file (--read-timeout raises it)"
+                    path,
+                    f"the CAD kernel gave no answer within {wall:.0f} s on this file (--read-timeout raises it)",
                 )
     result = pickle.loads(answer)
     if result[0] == "error":

@@ -1,14 +1,18 @@
 """The helper process the STEP and IGES readers run in (``python -m geometry.io.kernel_worker``).
 
 Protocol on stdin/stdout: each request is an 8-byte little-endian length and a
-pickled ``(fmt, path, memory_bytes)``; each answer is a length and a pickled reader result
+pickled ``(fmt, path, memory_bytes, cpu_seconds)``; each answer is a length and a pickled reader result
 (see :func:`geometry.io.isolation.read_in_worker`). The protocol keeps the
 original stdout to itself; file descriptor 1 then points at the null device so
 nothing the kernel prints can corrupt it.
 
 Each read runs with the process's address space limited to ``memory_bytes``
 (``RLIMIT_AS``), so a file that makes the kernel allocate without end fails
-that allocation here instead of exhausting the machine. The helper ignores
+that allocation here instead of exhausting the machine, and with its processor
+time limited to ``cpu_seconds`` more than it has used (``RLIMIT_CPU``): a kernel
+that loops gets ``SIGXCPU`` and dies, which the owner reports as a read over its
+time budget. Processor time, unlike the wall clock, does not run out because
+the machine is busy with other work. The helper ignores
 SIGINT: an interrupt at the terminal reaches the whole process group, and the
 owner, not the helper, decides what happens then.
 """
@@ -49,6 +53,27 @@ def address_space(limit: int | None):
         resource.setrlimit(resource.RLIMIT_AS, (soft, hard))
 
 
+@contextlib.contextmanager
+def processor_time(seconds: float | None):
+    """Let this process use at most ``seconds`` more processor time in the block (no limit for None).
+
+    Only the soft limit moves: a process may lower its hard limit but not raise it again.
+    """
+    if resource is None or not seconds:
+        yield
+        return
+    used = resource.getrusage(resource.RUSAGE_SELF)
+    soft, hard = resource.getrlimit(resource.RLIMIT_CPU)
+    limit = int(used.ru_utime + used.ru_stime + seconds) + 1
+    if hard != resource.RLIM_INFINITY:
+        limit = min(limit, hard)
+    resource.setrlimit(resource.RLIMIT_CPU, (limit, hard))
+    try:
+        yield
+    finally:
+        resource.setrlimit(resource.RLIMIT_CPU, (soft, hard))
+
+
 def serve(requests, answers) -> None:
     """Answer read requests until the input closes."""
     from .isolation import read_in_worker
@@ -60,8 +85,8 @@ def serve(requests, answers) -> None:
         body = _read_exact(requests, int.from_bytes(header, "little"))
         if body is None:
             return
-        fmt, path, memory_bytes = pickle.loads(body)
-        with address_space(memory_bytes):
+        fmt, path, memory_bytes, cpu_seconds = pickle.loads(body)
+        with address_space(memory_bytes), processor_time(cpu_seconds):
             try:
                 data = pickle.dumps(read_in_worker(fmt, path, memory_bytes), protocol=pickle.HIGHEST_PROTOCOL)
             except MemoryError:  # the answer itself did not fit
@@ -87,6 +112,8 @@ def _die_with_owner() -> None:
 
 def main() -> None:
     signal.signal(signal.SIGINT, signal.SIG_IGN)
+    if resource is not None:  # a helper that dies of its time limit leaves no core file behind
+        resource.setrlimit(resource.RLIMIT_CORE, (0, 0))
     _die_with_owner()
     # Load the kernel before any read, so the address-space limit bounds the work, not the libraries.
     import OCP.IGESControl  # noqa: F401
