@@ -35,6 +35,8 @@ def sample_model():
 
 
 @pytest.fixture(autouse=True)
-def _private_cache_dir(tmp_path_factory, monkeypatch):
+def _private_user_dirs(tmp_path_factory, monkeypatch):
     # `batten check` caches results in the user's cache folder by default: keep tests out of the real one.
     monkeypatch.setenv("XDG_CACHE_HOME", str(tmp_path_factory.mktemp("xdg-cache")))
+    # the window's remembered settings and recent files: never the user's own (app/qt/settings_store.py)
+    monkeypatch.setenv("XDG_CONFIG_HOME", str(tmp_path_factory.mktemp("xdg-config")))

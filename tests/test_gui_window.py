@@ -18,6 +18,7 @@ from PySide6.QtCore import QMimeData, QPointF, Qt, QUrl  # noqa: E402
 from PySide6.QtGui import QDropEvent  # noqa: E402
 
 from app.profiles import get_profile  # noqa: E402
+from app.qt import file_dialogs  # noqa: E402
 from app.qt import window as window_module  # noqa: E402
 from app.qt.window import MainWindow, camera_state  # noqa: E402
 from app.state import Mode, Session  # noqa: E402
@@ -271,7 +272,7 @@ def test_a_bad_profile_file_keeps_the_profile_in_force(qtbot, window, tmp_path, 
     bad.write_text("this is = not toml [")
     messages = []
     monkeypatch.setattr(window_module.QMessageBox, "critical", lambda parent, title, text: messages.append(text))
-    monkeypatch.setattr(window_module.QFileDialog, "getOpenFileName", lambda *a, **k: (str(bad), ""))
+    monkeypatch.setattr(file_dialogs.QFileDialog, "getOpenFileName", lambda *a, **k: (str(bad), ""))
     window.choose_profile(window_module.FROM_FILE)
     assert len(messages) == 1 and "ours.toml" in messages[0]
     assert window.session.profile.name == "class-a"

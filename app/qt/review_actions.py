@@ -11,6 +11,8 @@ from PySide6.QtWidgets import QApplication, QFileDialog, QMessageBox
 from app.state import Mode
 from app.state.revisions import compare_with, open_review_file, review_path_for
 
+from .file_dialogs import ask_open
+
 MODEL_FILTER = "Design models (*.step *.stp *.p21 *.iges *.igs *.json);;All files (*)"
 REVIEW_FILTER = "Batten review files (*.review);;All files (*)"
 
@@ -20,7 +22,7 @@ def ask_compare(window) -> None:
     if window.session.model is None:
         QMessageBox.information(window, "Compare with an earlier revision", "Open the later revision first.")
         return
-    path, _ = QFileDialog.getOpenFileName(window, "Compare with the earlier revision", "", MODEL_FILTER)
+    path = ask_open(window, window.memory, "Compare with the earlier revision", MODEL_FILTER, window.session.path)
     if path:
         compare_now(window, path)
 

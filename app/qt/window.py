@@ -11,7 +11,6 @@ from PySide6.QtGui import QAction, QKeySequence
 from PySide6.QtWidgets import (
     QApplication,
     QDockWidget,
-    QFileDialog,
     QLabel,
     QMainWindow,
     QMessageBox,
@@ -26,10 +25,12 @@ from app.state import Mode, Session
 from app.state.recent import RecentFiles, default_store
 from geometry.io.files import check_writable, write_atomically
 
-from . import review_actions
+from . import file_dialogs, menus, review_actions
 from .controls import DisplayPanel, SectionPanel
 from .findings import FROM_FILE, FindingsPanel
 from .graph import CurvatureGraph
+from .settings_store import WindowMemory
+from .snapshot import screenshot_without_tools
 from .worker import LoadJob, SeamJob, start_job
 
 MODEL_FILTER = "Design models (*.step *.stp *.p21 *.iges *.igs *.json);;All files (*)"
@@ -40,7 +41,6 @@ PROFILE_FILTER = "Tolerance profiles (*.toml);;All files (*)"
 EXACT_AFTER_MS = 250
 PROBE_EVERY_MS = 60
 CLICK_PIXELS = 3  # a press and release this close is a click, not a turn of the view
-MODE_KEYS = {mode: f"Ctrl+{i + 1}" for i, mode in enumerate(Mode)}
 
 
 def report_available() -> bool:
@@ -64,9 +64,12 @@ class MainWindow(QMainWindow):
     seams_measured = Signal(str)
     open_failed = Signal(str)
 
-    def __init__(self, session: Session | None = None, multi_samples: int | None = None):
+    def __init__(
+        self, session: Session | None = None, multi_samples: int | None = None, memory: WindowMemory | None = None
+    ):
         super().__init__()
         self.session = session or Session(RecentFiles(default_store()))
+        self.memory = memory or WindowMemory()
         self.setWindowTitle("Batten")
         self.resize(1400, 900)
         self.setAcceptDrops(True)
@@ -113,6 +116,7 @@ class MainWindow(QMainWindow):
         self.view.camera.AddObserver("ModifiedEvent", lambda *_: self._camera_timer.start())
         self._fill_recent()
         self._update_status()
+        self._restore_memory()
 
     # -- layout ----------------------------------------------------------
     def _dock(self, title: str, widget, area, name: str) -> QDockWidget:
@@ -185,15 +189,18 @@ class MainWindow(QMainWindow):
         menu.setToolTipsVisible(True)
 
         view = self.menuBar().addMenu("&View")
-        for mode, key in MODE_KEYS.items():
-            view.addAction(
-                self._action(mode.value.capitalize(), lambda _=False, m=mode: self.session.set_display(mode=m), key)
-            )
+        self.modes = menus.ModeActions(self.session, self)
+        view.addActions(self.modes.group.actions())
         view.addSeparator()
+        self.views = menus.ViewActions(self.view, self, on_projection=self.memory.save_parallel)
+        self.views.add_to(view)
         view.addAction(self._action("Fit model in view", self._fit, "Ctrl+0"))
+        self.mode_bar = menus.mode_toolbar(self, self.modes)
         docks = self.menuBar().addMenu("&Panels")
         for dock in self.findChildren(QDockWidget):
             docks.addAction(dock.toggleViewAction())
+        docks.addAction(self.mode_bar.toggleViewAction())
+        menus.help_menu(self)
 
     def _build_status(self) -> None:
         self.model_label = QLabel()
@@ -210,16 +217,19 @@ class MainWindow(QMainWindow):
 
     # -- opening ---------------------------------------------------------
     def choose_file(self) -> None:
-        path, _ = QFileDialog.getOpenFileName(self, "Open a design model", "", MODEL_FILTER)
+        path = file_dialogs.ask_open(self, self.memory, "Open a design model", MODEL_FILTER, self.session.path)
         if path:
             self.open_file(path)
 
-    def open_file(self, path: str) -> None:
-        """Load ``path`` in a worker thread; the current model stays until the new one is ready."""
+    def open_file(self, path: str, model=None) -> None:
+        """Load ``path`` in a worker thread; the current model stays until the new one is ready.
+
+        ``model`` is the file already read (the command line reads it before the window opens).
+        """
         if self._job is not None:
             self.statusBar().showMessage("still opening the previous file", 3000)
             return
-        self._job = LoadJob(str(path), self.session.profile)
+        self._job = LoadJob(str(path), self.session.profile, model=model)
         self._job_shown = False
         self._job.progress.connect(self._loading_progress)
         self._job_path = str(path)
@@ -312,8 +322,10 @@ class MainWindow(QMainWindow):
         self.open_failed.emit(message)
         if shown:  # the model is on screen; only its seam analysis failed
             QMessageBox.critical(self, "Cannot measure the seams", message + "\n\nThe model is shown without seams.")
-        else:
+        elif self.session.model is not None:
             QMessageBox.critical(self, "Cannot open the file", message + "\n\nThe model already shown is kept.")
+        else:
+            QMessageBox.critical(self, "Cannot open the file", message)
 
     def dragEnterEvent(self, event):  # noqa: N802 - Qt's name
         if event.mimeData().hasUrls():
@@ -329,6 +341,8 @@ class MainWindow(QMainWindow):
         self.recent_menu.clear()
         for path in self.session.recent.paths:
             self.recent_menu.addAction(self._action(path, lambda _=False, p=path: self.open_file(p)))
+        self.recent_menu.addSeparator()
+        self.recent_menu.addAction(self._action("Clear the list", self.session.clear_recent))
         self.recent_menu.setEnabled(bool(self.session.recent.paths))
 
     # -- session -> view -------------------------------------------------
@@ -495,7 +509,7 @@ class MainWindow(QMainWindow):
     def choose_profile(self, wanted: str) -> None:
         """The profile chooser asked for a shipped profile, or for a file (a dialog)."""
         if wanted == FROM_FILE:
-            wanted, _ = QFileDialog.getOpenFileName(self, "Judge by the tolerance profile in", "", PROFILE_FILTER)
+            wanted = file_dialogs.ask_open(self, self.memory, "Judge by the tolerance profile in", PROFILE_FILTER)
             if not wanted:
                 self.findings_panel.profile.refresh()
                 return
@@ -516,15 +530,18 @@ class MainWindow(QMainWindow):
 
     # -- export ----------------------------------------------------------
     def export_image(self) -> None:
-        path, _ = QFileDialog.getSaveFileName(self, "Export the view as an image", "batten-view.png", IMAGE_FILTER)
+        name = file_dialogs.image_name(self.session.path, self.session.display.mode.value)
+        path = file_dialogs.ask_save(
+            self, self.memory, "Export the view as an image", name, IMAGE_FILTER, self.session.path
+        )
         if path:
             self.save_image(path)
 
     def save_image(self, path: str) -> None:
-        """Screenshot of the 3-D view, written whole or not at all."""
+        """Screenshot of the 3-D view without the tool widgets, written whole or not at all."""
         inputs = [self.session.model.source] if self.session.model is not None else []
         try:
-            write_atomically(path, lambda tmp: self.view.screenshot(tmp), inputs=inputs)
+            write_atomically(path, lambda tmp: screenshot_without_tools(self.view, tmp), inputs=inputs)
         except Exception as exc:
             QMessageBox.critical(self, "Cannot write the image", str(exc))
 
@@ -532,7 +549,10 @@ class MainWindow(QMainWindow):
         if self.session.model is None:
             QMessageBox.information(self, "Export report", "Open a model first.")
             return
-        path, _ = QFileDialog.getSaveFileName(self, "Export the review report", "batten-report.pdf", REPORT_FILTER)
+        name = file_dialogs.report_name(self.session.path)
+        path = file_dialogs.ask_save(
+            self, self.memory, "Export the review report", name, REPORT_FILTER, self.session.path
+        )
         if path:
             self.write_report(path)
 
@@ -554,7 +574,26 @@ class MainWindow(QMainWindow):
         finally:
             QApplication.restoreOverrideCursor()
 
+    def _restore_memory(self) -> None:
+        """The size, panels, display settings and projection of the last window."""
+        geometry, state = self.memory.layout()
+        if geometry is not None:
+            self.restoreGeometry(geometry)
+        if state is not None:
+            self.restoreState(state)
+        display = self.memory.display()
+        if display is not None:
+            self.session.set_display(**{name: getattr(display, name) for name in display.__dataclass_fields__})
+        self.views.parallel.setChecked(self.memory.parallel())
+
+    def remember(self) -> None:
+        """Keep the window's size, panels and display settings for the next one."""
+        self.memory.save_layout(self.saveGeometry(), self.saveState())
+        self.memory.save_display(self.session.display)
+        self.memory.sync()
+
     def closeEvent(self, event):  # noqa: N802 - Qt's name
+        self.remember()
         self.wait_for_job()
         self.view.close()
         super().closeEvent(event)

@@ -29,16 +29,17 @@ class LoadJob(QObject):
     seams_ready = Signal(object)
     failed = Signal(str)
 
-    def __init__(self, path: str, profile=None):
+    def __init__(self, path: str, profile=None, model=None):
         super().__init__()
         self.path = path
         self.profile = profile  # the session's Profile: the seams are judged by it
+        self.model = model  # already read (by the command line), or None to read ``path``
 
     @Slot()
     def run(self) -> None:
         report = lambda f, m: self.progress.emit(int(round(100 * f)), m)  # noqa: E731
         try:
-            loaded = prepare(self.path, progress=report, seams=False)
+            loaded = prepare(self.path, model=self.model, progress=report, seams=False)
             self.finished.emit(loaded)
             self.seams_ready.emit(with_seams_judged(loaded, report, self.profile))
         except BattenError as exc:

@@ -49,6 +49,10 @@ class RecentFiles:
         self.paths = [p for p in self.paths if p != path]
         self._save()
 
+    def clear(self) -> None:
+        self.paths = []
+        self._save()
+
     def _save(self) -> None:
         if self.store is None:
             return

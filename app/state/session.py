@@ -211,6 +211,11 @@ class Session:
         self.recent.remove(path)
         self.events.emit("recent")
 
+    def clear_recent(self) -> None:
+        """Empty the recent-files list (the files themselves are untouched)."""
+        self.recent.clear()
+        self.events.emit("recent")
+
     # -- display ---------------------------------------------------------
     def set_display(self, **changes) -> None:
         """Replace display fields (mode, measure, show_seams)."""
