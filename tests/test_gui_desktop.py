@@ -276,7 +276,9 @@ def test_written_files_follow_the_umask(qtbot, window, tmp_path, umask):
     before = os.umask(umask)
     try:
         window.save_image(str(tmp_path / "view.png"))
-        window.write_report(str(tmp_path / "review.html"))
+        export = window.write_report(str(tmp_path / "review.html"))
+        with qtbot.waitSignal(export.written, timeout=LOAD_MS):
+            pass
         if SMALL_SAMPLE.is_file():
             out = tmp_path / "sections.json"
             assert (

@@ -191,7 +191,8 @@ def test_export_report_from_the_window(qtbot, window, tmp_path, monkeypatch):
     messages = []
     monkeypatch.setattr(window_module.QMessageBox, "critical", lambda parent, title, text: messages.append(text))
     target = tmp_path / "review.html"
-    window.write_report(str(target))
+    with qtbot.waitSignal(window.write_report(str(target)).written, timeout=LOAD_MS):
+        pass
     assert messages == []
     assert target.stat().st_size > 1000 and b"<html" in target.read_bytes()[:2000].lower()
 
@@ -334,13 +335,11 @@ def test_export_report_uses_the_profile_and_planes_on_screen(qtbot, window, tmp_
     window.session.show_model(demo_model())
     window.set_profile("technical")
     window.session.set_section(enabled=True, normal=(0.0, 1.0, 0.0), count=2, spacing=12.0)
-    seen = []
-    from app import review
-
-    real = review.review_model
-    monkeypatch.setattr(review, "review_model", lambda model, settings: seen.append(settings) or real(model, settings))
     target = tmp_path / "review.html"
-    window.write_report(str(target))
+    export = window.write_report(str(target))  # written by a process of its own, from this request
+    seen = [export.request.settings]
+    with qtbot.waitSignal(export.written, timeout=LOAD_MS):
+        pass
     assert seen == [window.session.review_settings]
     assert seen[0].profile == "technical" and seen[0].sections.count("plane:") == 2
     text = target.read_text()

@@ -70,19 +70,3 @@ def ask_review_file(window) -> None:
         open_review_file(session, path)
     except BattenError as exc:
         QMessageBox.critical(window, "Cannot use this review file", str(exc))
-
-
-def report_inputs(session):
-    """The check of the model on screen with the review file applied, and the comparison when one was made."""
-    from dataclasses import replace
-
-    from app.review import review_model
-    from app.review.dispositions import apply_review
-
-    review = review_model(session.model, session.review_settings)
-    if session.review.path is not None:
-        review = apply_review(review, session.review.file)
-    comparison = session.review.comparison
-    if comparison is not None:
-        comparison = replace(comparison, new=review)
-    return review, comparison

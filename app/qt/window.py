@@ -23,10 +23,11 @@ from app.render.scene import Scene
 from app.review.result import face_account_line
 from app.state import Mode, Session
 from app.state.recent import RecentFiles, default_store
-from geometry.io.files import check_writable, write_atomically
+from geometry.io.files import write_atomically
 
 from . import file_dialogs, menus, review_actions
 from .controls import DisplayPanel, SectionPanel
+from .export_task import ExportStatus, start_report
 from .findings import FROM_FILE, FindingsPanel
 from .graph import CurvatureGraph
 from .settings_store import WindowMemory
@@ -214,6 +215,8 @@ class MainWindow(QMainWindow):
         bar.addWidget(self.probe_label, 1)
         bar.addPermanentWidget(self.profile_label)
         bar.addPermanentWidget(self.progress)
+        self.export_status = ExportStatus()
+        bar.addPermanentWidget(self.export_status)
 
     # -- opening ---------------------------------------------------------
     def choose_file(self) -> None:
@@ -556,23 +559,9 @@ class MainWindow(QMainWindow):
         if path:
             self.write_report(path)
 
-    def write_report(self, path: str) -> None:
-        from app.report import render_figures, write_report
-        from geometry.errors import BattenError
-
-        QApplication.setOverrideCursor(Qt.CursorShape.WaitCursor)
-        inputs = [self.session.model.source]
-        try:
-            check_writable(path, inputs)  # before the work, not after
-            review, comparison = review_actions.report_inputs(self.session)
-            figures = render_figures(self.session.model, review, self.session.display.stripes, self.session.section)
-            write_report(path, [review], [figures], comparison=comparison, inputs=inputs)
-        except (BattenError, OSError) as exc:
-            QMessageBox.critical(self, "Cannot write the report", str(exc))
-        else:
-            self.statusBar().showMessage(f"report written: {path}", 8000)
-        finally:
-            QApplication.restoreOverrideCursor()
+    def write_report(self, path: str):
+        """Write the report in a background process (status bar: progress, Cancel); returns the export or None."""
+        return start_report(self, path)
 
     def _restore_memory(self) -> None:
         """The size, panels, display settings and projection of the last window."""
@@ -594,6 +583,7 @@ class MainWindow(QMainWindow):
 
     def closeEvent(self, event):  # noqa: N802 - Qt's name
         self.remember()
+        self.export_status.stop()
         self.wait_for_job()
         self.view.close()
         super().closeEvent(event)
