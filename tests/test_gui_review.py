@@ -16,7 +16,7 @@ from app.qt import review_actions  # noqa: E402
 from app.qt.window import MainWindow  # noqa: E402
 from app.review.review_file import ACCEPTED, read_review_file  # noqa: E402
 from app.state import Mode, Session  # noqa: E402
-from tests.test_gui_window import open_and_wait, shoot  # noqa: E402
+from tests.test_gui_window import LOAD_MS, open_and_wait, shoot  # noqa: E402
 
 pytestmark = pytest.mark.gui
 
@@ -37,7 +37,12 @@ def window(qtbot, tmp_path, monkeypatch):
 
 def test_compare_with_shows_the_deviation_map(qtbot, window):
     open_and_wait(qtbot, window, SAMPLES / "hood_visor_rev_b.stp")
-    assert review_actions.compare_now(window, str(SAMPLES / "hood_visor.stp"))
+    comparing = review_actions.compare_now(window, str(SAMPLES / "hood_visor.stp"))
+    assert comparing is not None and window.comparing is comparing  # running in a worker thread
+    assert review_actions.compare_now(window, str(SAMPLES / "hood_visor.stp")) is None  # one at a time
+    with qtbot.waitSignal(comparing.shown, timeout=LOAD_MS):
+        pass
+    assert window.comparing is None
     session = window.session
     assert session.display.mode == Mode.DEVIATION
     comparison = session.review.comparison

@@ -5,13 +5,14 @@ Dialogs only; the work is done by :mod:`app.state.revisions` on the session.
 
 from __future__ import annotations
 
-from PySide6.QtCore import Qt
-from PySide6.QtWidgets import QApplication, QFileDialog, QMessageBox
+from PySide6.QtCore import QObject, Signal, Slot
+from PySide6.QtWidgets import QFileDialog, QMessageBox
 
 from app.state import Mode
-from app.state.revisions import compare_with, open_review_file, review_path_for
+from app.state.revisions import open_review_file, review_path_for, show_comparison
 
 from .file_dialogs import ask_open
+from .worker import CompareJob, start_job
 
 MODEL_FILTER = "Design models (*.step *.stp *.p21 *.iges *.igs *.json);;All files (*)"
 REVIEW_FILTER = "Batten review files (*.review);;All files (*)"
@@ -27,28 +28,84 @@ def ask_compare(window) -> None:
         compare_now(window, path)
 
 
-def compare_now(window, path: str) -> bool:
-    """Compare with the revision in ``path`` and show the deviation; a dialog says why when it cannot."""
-    from geometry.errors import BattenError
+class Comparing(QObject):
+    """One comparison running in a worker thread; shows its result in the window when it arrives.
 
-    QApplication.setOverrideCursor(Qt.CursorShape.WaitCursor)
-    try:
-        comparison = compare_with(window.session, path, lambda line: window.statusBar().showMessage(line))
-    except BattenError as exc:
-        QMessageBox.critical(window, "Cannot compare", f"{exc}\n\nThe model shown is kept.")
-        return False
-    finally:
-        QApplication.restoreOverrideCursor()
-    window.session.set_display(mode=Mode.DEVIATION)
+    Signals
+    -------
+    shown()
+        The deviation is on screen.
+    ended()
+        Shown, failed, or dropped because another model was opened meanwhile.
+    """
+
+    shown = Signal()
+    ended = Signal()
+
+    def __init__(self, window, path: str):
+        super().__init__(window)
+        self.window, self.path = window, path
+        session = window.session
+        self.job = CompareJob(session.model, session.samples, session.review_settings, path)
+        # bound methods of this GUI-thread object: Qt queues the job's signals to them
+        self.job.progress.connect(self._progress)
+        self.job.compared.connect(self._compared)
+        self.job.failed.connect(self._failed)
+        self.thread = start_job(self.job, self)
+
+    @Slot(str)
+    def _progress(self, line: str) -> None:
+        self.window.statusBar().showMessage(f"comparing with {self.path}: {line}")
+
+    @Slot(object)
+    def _compared(self, found) -> None:
+        model, comparison, deviation = found
+        window = self.window
+        if window.session.model is model:  # not another model opened meanwhile
+            show_comparison(window.session, comparison, deviation)
+            window.session.set_display(mode=Mode.DEVIATION)
+            window.statusBar().showMessage(summary(self.path, comparison), 15000)
+            self.shown.emit()
+        self.ended.emit()
+
+    @Slot(str)
+    def _failed(self, message: str) -> None:
+        self.window.statusBar().clearMessage()
+        QMessageBox.critical(self.window, "Cannot compare", f"{message}\n\nThe model shown is kept.")
+        self.ended.emit()
+
+    def wait(self) -> None:
+        """Block until the worker thread has ended (the window is closing)."""
+        try:
+            if self.thread.isRunning():
+                self.thread.wait()
+        except RuntimeError:
+            pass  # the thread object is already deleted: it has ended
+
+
+def summary(path: str, comparison) -> str:
+    """One status line: the deviation and what happened to the findings."""
     d = comparison.deviation
     counts = {}
     for change in comparison.findings:
         counts[change.status] = counts.get(change.status, 0) + 1
     changes = ", ".join(f"{n} {status}" for status, n in counts.items()) or "no findings over tolerance"
-    window.statusBar().showMessage(
-        f"compared with {path}: deviation max {d.max_mm:.4g} mm, mean {d.mean_mm:.4g} mm; findings: {changes}", 15000
-    )
-    return True
+    return f"compared with {path}: deviation max {d.max_mm:.4g} mm, mean {d.mean_mm:.4g} mm; findings: {changes}"
+
+
+def compare_now(window, path: str) -> Comparing | None:
+    """Compare with the revision in ``path`` in the background; the deviation shows when it is ready.
+
+    Returns the running comparison, or None when one is still running (the status bar says so).
+    """
+    running = getattr(window, "comparing", None)
+    if running is not None:
+        window.statusBar().showMessage("still comparing with the previous file", 5000)
+        return None
+    window.comparing = comparing = Comparing(window, path)
+    comparing.ended.connect(lambda: setattr(window, "comparing", None))
+    window.statusBar().showMessage(f"comparing with {path}")
+    return comparing
 
 
 def ask_review_file(window) -> None:

@@ -83,6 +83,7 @@ class MainWindow(QMainWindow):
         self._seam_jobs: list[tuple[SeamJob, object]] = []  # re-measures after a profile change
         self._job_path = ""
         self._job_shown = False
+        self.comparing = None  # a comparison running in the background (review_actions.Comparing)
         self._plane_widget = None
         self._placing_plane = False
         self._last_camera = None
@@ -584,6 +585,8 @@ class MainWindow(QMainWindow):
     def closeEvent(self, event):  # noqa: N802 - Qt's name
         self.remember()
         self.export_status.stop()
+        if self.comparing is not None:
+            self.comparing.wait()
         self.wait_for_job()
         self.view.close()
         super().closeEvent(event)

@@ -5,6 +5,7 @@ from __future__ import annotations
 from PySide6.QtCore import QObject, QThread, Signal, Slot
 
 from app.state.loading import prepare, with_seams_judged
+from app.state.revisions import comparison_for
 from geometry.errors import BattenError
 
 
@@ -76,12 +77,46 @@ class SeamJob(QObject):
             self.failed.emit(f"internal error while measuring the seams ({type(exc).__name__}: {exc})")
 
 
-def start_job(job: LoadJob | SeamJob, parent: QObject) -> QThread:
-    """Run ``job`` in a new thread that ends (and is deleted) when the job reports."""
+class CompareJob(QObject):
+    """Compares the model on screen with an earlier revision in a worker thread.
+
+    Signals
+    -------
+    progress(str)
+        What is being done.
+    compared(object)
+        ``(model, comparison, deviation)``: the model it was compared for, and
+        what :func:`app.state.revisions.comparison_for` returns.
+    failed(str)
+        A message naming the file and the cause.
+    """
+
+    progress = Signal(str)
+    compared = Signal(object)
+    failed = Signal(str)
+
+    def __init__(self, model, samples, settings, old_path: str):
+        super().__init__()
+        self.model, self.samples, self.settings, self.old_path = model, samples, settings, old_path
+
+    @Slot()
+    def run(self) -> None:
+        try:
+            found = comparison_for(self.model, self.samples, self.settings, self.old_path, self.progress.emit)
+            self.compared.emit((self.model, *found))
+        except BattenError as exc:
+            self.failed.emit(str(exc))
+        except Exception as exc:  # a bug of ours must not kill the window; say what happened
+            self.failed.emit(f"{self.old_path}: internal error while comparing ({type(exc).__name__}: {exc})")
+
+
+def start_job(job: LoadJob | SeamJob | CompareJob, parent: QObject) -> QThread:
+    """Run ``job`` in a new thread that ends (and is deleted) when the job reports its last signal."""
     thread = QThread(parent)
     job.moveToThread(thread)
     thread.started.connect(job.run)
-    job.seams_ready.connect(thread.quit)
+    last = job.compared if isinstance(job, CompareJob) else job.seams_ready
+    last.connect(thread.quit)
     job.failed.connect(thread.quit)
     thread.finished.connect(thread.deleteLater)
     thread.start()

@@ -269,30 +269,63 @@ def open_review_file(session, path: str) -> None:
     session.events.emit("review")
 
 
-def compare_with(session, old_path: str, progress=None):
-    """Compare the model on screen with an earlier revision read from ``old_path``.
+def comparison_for(model, samples, settings, old_path: str, progress=None):
+    """Compare ``model`` with an earlier revision read from ``old_path``; nothing of a session is touched.
 
     Runs :func:`app.review.comparison.compare_models` (the same code as
-    ``batten compare``) and maps the deviation on the window's grid.
+    ``batten compare``) and maps the deviation on the window's grid. Reads
+    only immutable inputs, so a worker thread may run it.
+
+    Parameters
+    ----------
+    model : Model
+        The later revision (on screen).
+    samples : tuple of FaceSamples
+        Its sample grids (the deviation is mapped on them).
+    settings : ReviewSettings
+    old_path : str
+    progress : callable(str), optional
+
+    Returns
+    -------
+    (Comparison, DeviationMap)
+
+    Raises
+    ------
+    BattenError
+        The file cannot be read.
+    """
+    from app.review.comparison import compare_models
+    from app.review.runner import load_for_review
+
+    say = progress or (lambda _: None)
+    old_model = load_for_review(old_path)
+    comparison = compare_models(old_model, model, settings, say)
+    say("mapping the deviation")
+    return comparison, deviation_map(old_model, samples, old_path)
+
+
+def show_comparison(session, comparison, deviation) -> None:
+    """Make a comparison of the model on screen current (see :func:`comparison_for`)."""
+    session.review.comparison = comparison
+    session.review.deviation = deviation
+    session.events.emit("review", "display")
+
+
+def compare_with(session, old_path: str, progress=None):
+    """Compare the model on screen with an earlier revision read from ``old_path`` and show it.
 
     Raises
     ------
     BattenError
         The file cannot be read, or there is no model on screen.
     """
-    from app.review.comparison import compare_models
-    from app.review.runner import load_for_review
     from geometry.errors import BattenError
 
     if session.model is None:
         raise BattenError("open the later revision first, then compare it with an earlier one")
-    say = progress or (lambda _: None)
-    old_model = load_for_review(old_path)
-    comparison = compare_models(old_model, session.model, session.review_settings, say)
-    say("mapping the deviation")
-    session.review.comparison = comparison
-    session.review.deviation = deviation_map(old_model, session.samples, old_path)
-    session.events.emit("review", "display")
+    comparison, deviation = comparison_for(session.model, session.samples, session.review_settings, old_path, progress)
+    show_comparison(session, comparison, deviation)
     return comparison
 
 

@@ -1,4 +1,4 @@
-"""The report is written in the background: the window stays free, shows progress, and Cancel leaves no file."""
+"""Long work in the background: the report (progress, Cancel, no partial file) and the comparison with a revision."""
 
 from __future__ import annotations
 
@@ -10,6 +10,7 @@ pytest.importorskip("pyvistaqt")
 
 from PySide6.QtCore import Qt, QTimer  # noqa: E402
 
+from app.qt import review_actions  # noqa: E402
 from app.qt import window as window_module  # noqa: E402
 from app.qt.settings_store import WindowMemory  # noqa: E402
 from app.qt.window import MainWindow  # noqa: E402
@@ -105,3 +106,17 @@ def test_closing_the_window_stops_the_export(qtbot, tmp_path):
     w.close()
     assert not export.running
     assert not (tmp_path / "r.pdf").exists() and leftovers(tmp_path) == []
+
+
+def test_a_comparison_that_fails_says_why_and_keeps_the_model(qtbot, window, tmp_path, monkeypatch):
+    messages = []
+    monkeypatch.setattr(window_module.QMessageBox, "critical", lambda parent, title, text: messages.append(text))
+    shown = window.session.model
+    bad = tmp_path / "older.stp"
+    bad.write_text("not a model\n")
+    comparing = review_actions.compare_now(window, str(bad))
+    with qtbot.waitSignal(comparing.ended, timeout=EXPORT_MS):
+        pass
+    assert len(messages) == 1 and "older.stp" in messages[0] and "kept" in messages[0]
+    assert window.session.model is shown and window.session.review.comparison is None
+    assert window.comparing is None
