@@ -74,7 +74,9 @@ class MainWindow(QMainWindow):
         self.setWindowTitle("Batten")
         self.resize(1400, 900)
         self.setAcceptDrops(True)
-        self.view = QtInteractor(self, multi_samples=multi_samples)
+        # No timed redraws (pyvistaqt's default is 5 a second, whether anything changed or not: under a
+        # software GL that kept the GUI thread busy). The scene asks for a paint after each change.
+        self.view = QtInteractor(self, multi_samples=multi_samples, auto_update=False)
         self.setCentralWidget(self.view)
         self.scene = Scene(self.view, self.session)
         self.view.add_axes(interactive=False)
