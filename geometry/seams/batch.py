@@ -22,6 +22,13 @@ MIN_SAMPLES, MAX_SAMPLES = 129, 4097
 # Refinement of each maximum: grid points per round and rounds; the bracket
 # (two sample spacings) shrinks 4-fold per round, to about 2e-6 spacings.
 ZOOM_POINTS, ZOOM_ROUNDS = 9, 10
+# A measure's refinement stops once its best point's grid neighbours are within
+# this relative (or absolute: mm, degrees, 1/mm) difference of it. That is
+# rounding: what stops is a measure flat along the seam (no jump at all, most of
+# a model's seams), while a real peak keeps every round and its place's precision.
+ZOOM_RTOL, ZOOM_ATOL = 1e-15, 1e-15
+# A grid point within this fraction of the grid spacing of a known point is that point.
+KNOWN_FRACTION = 1e-9
 # Measures refined to their maximum; their keys in the plain-dict "worst".
 REFINED = ("gap", "angle", "curvature_jump", "curvature_jump_rel", "iso_curvature_jump", "curvature_derivative_jump")
 SAMPLED = (
@@ -56,6 +63,29 @@ def even_samples(counts: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray
     return seam, local / (counts[seam] - 1.0), start
 
 
+def evaluate_unique(evaluate, seam: np.ndarray, tau: np.ndarray) -> dict[str, np.ndarray]:
+    """``evaluate(seam, tau)`` with each distinct (seam, tau) pair evaluated once.
+
+    Parameters
+    ----------
+    evaluate : callable
+        ``evaluate(seam, tau) -> dict`` of arrays whose first axis runs over the pairs.
+    seam, tau : ndarray of shape (k,)
+
+    Returns
+    -------
+    dict
+        As ``evaluate`` would return for all ``k`` pairs. Each pair is measured
+        on its own, so a repeated pair's figures are the same either way.
+    """
+    pairs = np.stack([np.asarray(seam, float), np.asarray(tau, float)], axis=1)
+    unique, back = np.unique(pairs, axis=0, return_inverse=True)
+    if unique.shape[0] == pairs.shape[0]:
+        return evaluate(np.asarray(seam, int), np.asarray(tau, float))
+    ev = evaluate(unique[:, 0].astype(int), unique[:, 1])
+    return {key: value[back.ravel()] for key, value in ev.items()}
+
+
 def refine_maxima_batch(
     evaluate, seam: np.ndarray, tau: np.ndarray, start: np.ndarray, values: dict, keys: tuple[str, ...]
 ) -> tuple[np.ndarray, np.ndarray]:
@@ -87,6 +117,14 @@ def refine_maxima_batch(
     converges to the maximum (a vectorised form of the bracketing searches of
     Press et al., Numerical Recipes, 3rd ed., sec. 10.2). The value never drops
     below the worst sample's.
+
+    Only new points are measured: the bracket's ends and the best point so far
+    are known (none of them can beat the best), and a point several measures
+    share is measured once (:func:`evaluate_unique`). A measure stops early
+    when its best point's grid neighbours lie within :data:`ZOOM_RTOL` (or
+    :data:`ZOOM_ATOL`) of its value, i.e. equal to rounding: a measure flat
+    around its best point (a seam with no curvature jump, say) has nothing
+    left to refine.
     """
     n_seams, n_keys = start.size, len(keys)
     end = np.append(start[1:], seam.size) - 1
@@ -105,20 +143,34 @@ def refine_maxima_batch(
     s, k = live[:, 0], live[:, 1]
     lo, hi, b_tau, b_val = lo[s, k], hi[s, k], best_tau[s, k], best[s, k]
     fraction = np.linspace(0.0, 1.0, ZOOM_POINTS)
-    rows_of = np.arange(s.size)
     for _ in range(ZOOM_ROUNDS):
+        if s.size == 0:
+            break
         grid = lo[:, None] + (hi - lo)[:, None] * fraction[None, :]
-        ev = evaluate(np.repeat(s, ZOOM_POINTS), grid.ravel())
-        stacked = np.stack([ev[key] for key in keys])  # (n_keys, m * ZOOM_POINTS)
-        rows = stacked[np.repeat(k, ZOOM_POINTS), np.arange(grid.size)].reshape(grid.shape)
+        step = (hi - lo) / (ZOOM_POINTS - 1)
+        known = np.zeros(grid.shape, dtype=bool)
+        known[:, 0] = known[:, -1] = True
+        known |= np.abs(grid - b_tau[:, None]) <= KNOWN_FRACTION * step[:, None]
+        row, col = np.nonzero(~known)
+        ev = evaluate_unique(evaluate, s[row], grid[row, col])
+        stacked = np.stack([ev[key] for key in keys])  # (n_keys, number of new points)
+        rows = np.full(grid.shape, -np.inf)
+        rows[row, col] = stacked[k[row], np.arange(row.size)]
         rows = np.where(np.isfinite(rows), rows, -np.inf)
         j = np.argmax(rows, axis=1)
+        rows_of = np.arange(s.size)
         top = rows[rows_of, j]
         better = top > b_val
         b_val = np.where(better, top, b_val)
         b_tau = np.where(better, grid[rows_of, j], b_tau)
-        step = (hi - lo) / (ZOOM_POINTS - 1)
+        # Converged: the new points next to the best one lie within the tolerance of it.
+        beside = ~known & (np.abs(grid - b_tau[:, None]) <= (1.0 + KNOWN_FRACTION) * step[:, None])
+        drop = np.where(beside, b_val[:, None] - rows, -np.inf).max(axis=1)
+        done = beside.any(axis=1) & (drop <= ZOOM_RTOL * np.abs(b_val) + ZOOM_ATOL)
         lo, hi = np.maximum(b_tau - step, lo), np.minimum(b_tau + step, hi)
+        best_tau[s[done], k[done]], best[s[done], k[done]] = b_tau[done], b_val[done]
+        keep = ~done
+        s, k, lo, hi, b_tau, b_val = s[keep], k[keep], lo[keep], hi[keep], b_tau[keep], b_val[keep]
     best_tau[s, k], best[s, k] = b_tau, b_val
     return best_tau, best
 
@@ -168,7 +220,7 @@ def measure_batch(
     values = evaluator(seam, tau)
     tau_best, best = refine_maxima_batch(evaluator, seam, tau, start, values, REFINED)
     n_seams, n_keys = start.size, len(REFINED)
-    at = evaluator(np.repeat(np.arange(n_seams), n_keys), tau_best.ravel())
+    at = evaluate_unique(evaluator, np.repeat(np.arange(n_seams), n_keys), tau_best.ravel())
     means = {key: _segment_mean(values[key], seam, n_seams) for key in SAMPLED}
     angle_min = np.fmin.reduceat(values["angle"], start)
     out = []
