@@ -27,6 +27,9 @@ ZOOM_POINTS, ZOOM_ROUNDS = 9, 10
 # rounding: what stops is a measure flat along the seam (no jump at all, most of
 # a model's seams), while a real peak keeps every round and its place's precision.
 ZOOM_RTOL, ZOOM_ATOL = 1e-15, 1e-15
+# Gaps are differences of coordinates: on parts up to 10 m their rounding is
+# about 1e-12 mm, so gaps that differ by less are equal (mm).
+GAP_ROUNDING_MM = 1e-12
 # A grid point within this fraction of the grid spacing of a known point is that point.
 KNOWN_FRACTION = 1e-9
 # Measures refined to their maximum; their keys in the plain-dict "worst".
@@ -122,7 +125,8 @@ def refine_maxima_batch(
     are known (none of them can beat the best), and a point several measures
     share is measured once (:func:`evaluate_unique`). A measure stops early
     when its best point's grid neighbours lie within :data:`ZOOM_RTOL` (or
-    :data:`ZOOM_ATOL`) of its value, i.e. equal to rounding: a measure flat
+    :data:`ZOOM_ATOL`, :data:`GAP_ROUNDING_MM` for the gap) of its value,
+    i.e. equal to rounding: a measure flat
     around its best point (a seam with no curvature jump, say) has nothing
     left to refine.
     """
@@ -143,6 +147,7 @@ def refine_maxima_batch(
     s, k = live[:, 0], live[:, 1]
     lo, hi, b_tau, b_val = lo[s, k], hi[s, k], best_tau[s, k], best[s, k]
     fraction = np.linspace(0.0, 1.0, ZOOM_POINTS)
+    floor = np.array([GAP_ROUNDING_MM if key == "gap" else ZOOM_ATOL for key in keys])
     for _ in range(ZOOM_ROUNDS):
         if s.size == 0:
             break
@@ -166,7 +171,7 @@ def refine_maxima_batch(
         # Converged: the new points next to the best one lie within the tolerance of it.
         beside = ~known & (np.abs(grid - b_tau[:, None]) <= (1.0 + KNOWN_FRACTION) * step[:, None])
         drop = np.where(beside, b_val[:, None] - rows, -np.inf).max(axis=1)
-        done = beside.any(axis=1) & (drop <= ZOOM_RTOL * np.abs(b_val) + ZOOM_ATOL)
+        done = beside.any(axis=1) & (drop <= ZOOM_RTOL * np.abs(b_val) + floor[k])
         lo, hi = np.maximum(b_tau - step, lo), np.minimum(b_tau + step, hi)
         best_tau[s[done], k[done]], best[s[done], k[done]] = b_tau[done], b_val[done]
         keep = ~done
