@@ -86,3 +86,15 @@ def quarter_cylinder(radius: float, length: float) -> NurbsSurface:
     poles = np.stack([arc, arc + [length, 0, 0]], axis=1)
     weights = np.array([[1, 1], [w, w], [1, 1]], float)
     return NurbsSurface(2, 1, [0, 0, 0, 1, 1, 1], [0, 0, 1, 1], poles, weights)
+
+
+PLANE_SIDE_MM = 100.0
+
+
+def plane_model() -> Model:
+    """The square 0 <= x, y <= 100 mm at z = 0 as a bilinear NURBS face: curvature 0 everywhere."""
+    poles = np.array(
+        [[[0.0, 0.0, 0.0], [0.0, PLANE_SIDE_MM, 0.0]], [[PLANE_SIDE_MM, 0.0, 0.0], [PLANE_SIDE_MM, PLANE_SIDE_MM, 0.0]]]
+    )
+    surface = NurbsSurface(1, 1, [0, 0, 1, 1], [0, 0, 1, 1], poles, None)
+    return Model((Face(surface, name="plate"),))

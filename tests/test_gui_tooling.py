@@ -26,7 +26,7 @@ def test_draft_view_of_the_drip_tray(qtbot, window):  # noqa: F811 - the fixture
     qtbot.wait(30)
     assert window.session.pull == (0.0, 0.0, 1.0)
     assert {"tooling undercut", "tooling pull"} <= set(window.scene.actors)
-    assert window.scene.legend == "draft [deg]"
+    assert window.scene.legend == "Draft\n(degrees)"
     kinds = [f.kind for f in window.session.findings if f.verdict == "fail"]
     assert kinds.count("undercut") == 4 and kinds.count("draft") == 1  # back wall, floor strip, two corners
     assert window.findings_panel.tree.topLevelItemCount() == len(window.session.findings)

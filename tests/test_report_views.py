@@ -1,14 +1,10 @@
-"""Report pictures: views from the model's principal axes, finding labels that never cover each other,
-legends with round ranges and plain tick labels."""
+"""Report pictures: views from the model's principal axes, finding labels that never cover each other."""
 
 from __future__ import annotations
 
 import numpy as np
-import pytest
 
-from app.render.legend import measure_title, round_limit, tick_format
 from app.report.views import choose_views, merge_labels, principal_axes, screen_positions, visible_area
-from app.state.settings import Measure
 
 RNG = np.random.default_rng(14)
 
@@ -61,17 +57,3 @@ def test_screen_positions_of_a_camera_on_z():
     got = screen_positions(pts, (0, 0, 10), (0, 0, 0), (0, 1, 0), 90.0)
     # Pinhole projection x / depth, divided by tan(45 deg) = 1.
     np.testing.assert_allclose(got, [[0, 0], [0.1, 0], [0, 0.2]], atol=1e-12)
-
-
-@pytest.mark.parametrize(
-    ("value", "limit", "fmt"), [(0.00806, 0.01, "%.3f"), (0.0631, 0.08, "%.2f"), (1.9e-5, 2e-5, "%.5f")]
-)
-def test_legend_ranges_are_round_and_ticks_plain(value, limit, fmt):
-    assert round_limit(value) == pytest.approx(limit)
-    assert tick_format(-limit, limit) == fmt
-    assert "e" not in (fmt % -limit)
-
-
-def test_legend_titles_are_words_with_units():
-    assert measure_title(Measure.GAUSSIAN) == "Gaussian curvature K (1/mm²)"
-    assert measure_title(Measure.MEAN) == "Mean curvature H (1/mm)"

@@ -1,17 +1,24 @@
-"""Colour-bar legends: a title in words with its unit, a round range, tick labels with sensible digits.
+"""Colour-bar legends: a title in words with its unit, tick labels with sensible digits, clipped ends stated.
 
-Shared by the window and the report's pictures, so both label a curvature map alike.
+Shared by the window and the report's pictures, so both label a colour map alike.
+
+VTK hands text containing ``|`` to its MathText renderer, which reads the bar
+as a column separator and drops it ("max |k|" came out as "max k" on a broken
+baseline); legend text is therefore set in DejaVu Sans (shipped with
+matplotlib) through FreeType, with the bar written as U+2223, which that font
+draws as the same upright stroke.
 """
 
 from __future__ import annotations
 
 import math
+from dataclasses import dataclass
+from importlib.util import find_spec
+from pathlib import Path
 
 from app.state.settings import MEASURE_UNITS, Measure
 
 TICKS = 5
-# Round numbers a colour range may end on (times a power of ten) whose halves need no more digits, or one.
-ROUND_STEPS = (1.0, 2.0, 3.0, 4.0, 6.0, 8.0, 10.0)
 MOST_DECIMALS = 7
 MEASURE_WORDS = {
     Measure.GAUSSIAN: "Gaussian curvature K",
@@ -21,6 +28,31 @@ MEASURE_WORDS = {
     Measure.MAX_ABS: "Largest |k|",
     Measure.MIN_RADIUS: "Smallest radius",
 }
+# Font sizes (points of the render window) in the window; the report sets its own for print.
+TITLE_SIZE, LABEL_SIZE = 15, 13
+# Pixels between the title's foot and the top tick label.
+TITLE_GAP = 12
+VTK_FONT_FILE = 4  # vtkTextProperty font family "from a file" (VTK_FONT_FILE)
+
+
+@dataclass(frozen=True)
+class LegendPlace:
+    """Where a legend stands (normalised viewport units, the bar's lower left corner and size) and its fonts."""
+
+    x: float
+    y: float
+    width: float
+    height: float
+    title_size: int
+    label_size: int
+
+
+# In the window: a slim bar at the right edge. The scene shifts the model left by SHIFT so they do not meet.
+WINDOW_LEGEND = LegendPlace(0.87, 0.3, 0.05, 0.5, TITLE_SIZE, LABEL_SIZE)
+# The report's pictures are printed at about an eighth of a millimetre per pixel: larger text, a longer bar.
+PRINT_LEGEND = LegendPlace(0.85, 0.24, 0.05, 0.58, 26, 24)
+# How far (share of half the view's width) the model moves left while a legend is shown.
+SHIFT = 0.14
 
 
 def measure_title(measure: Measure) -> str:
@@ -28,28 +60,126 @@ def measure_title(measure: Measure) -> str:
     return f"{MEASURE_WORDS.get(measure, str(measure))} ({MEASURE_UNITS[measure]})"
 
 
-def round_limit(value: float) -> float:
-    """The smallest round number (:data:`ROUND_STEPS` times a power of ten) at or above ``value`` > 0."""
-    if not value > 0 or not math.isfinite(value):
-        return 1.0
-    power = 10.0 ** math.floor(math.log10(value))
-    for step in ROUND_STEPS:
-        if step * power >= value * (1 - 1e-12):
-            return step * power
-    return 10.0 * power
+def font_file() -> str | None:
+    """DejaVu Sans from the installed matplotlib (None if missing: VTK's own font then)."""
+    spec = find_spec("matplotlib")
+    if spec is None or not spec.submodule_search_locations:
+        return None
+    path = Path(spec.submodule_search_locations[0]) / "mpl-data" / "fonts" / "ttf" / "DejaVuSans.ttf"
+    return str(path) if path.is_file() else None
 
 
-def tick_format(low: float, high: float, ticks: int = TICKS) -> str:
-    """A printf format that prints every tick of ``low..high`` with the digits it needs and no exponent.
+def vtk_text(text: str) -> str:
+    """``text`` as VTK draws it literally: the bar ``|`` as U+2223 (see the module notes)."""
+    return text.replace("|", "\u2223")
+
+
+def tick_decimals(low: float, high: float, ticks: int = TICKS) -> int:
+    """Decimals that print every tick of ``low..high`` exactly, or to two significant digits of the step.
 
     Ticks are evenly spaced (VTK's scalar bar): ``low + i (high - low) / (ticks - 1)``.
     """
     span = abs(high - low)
     if not span > 0 or not math.isfinite(span):
-        return "%.3g"
-    values = [low + i * (high - low) / (ticks - 1) for i in range(ticks)]
-    for decimals in range(MOST_DECIMALS + 1):
-        if all(abs(round(v, decimals) - v) <= 1e-9 * span for v in values):
-            return f"%.{decimals}f"
+        return 3
     step = span / (ticks - 1)
-    return f"%.{min(MOST_DECIMALS, max(0, 1 - math.floor(math.log10(step))))}f"
+    most = min(MOST_DECIMALS, max(0, 1 - math.floor(math.log10(step))))
+    values = [low + i * (high - low) / (ticks - 1) for i in range(ticks)]
+    for decimals in range(most + 1):
+        if all(abs(round(v, decimals) - v) <= 1e-9 * span for v in values):
+            return decimals
+    return most
+
+
+def tick_format(low: float, high: float, ticks: int = TICKS) -> str:
+    """A printf format that prints every tick of ``low..high`` with the digits it needs and no exponent."""
+    return f"%.{tick_decimals(low, high, ticks)}f"
+
+
+def figure(value: float, digits: int = 3) -> str:
+    """``value`` to ``digits`` significant digits in plain decimals (no exponent, no "-0")."""
+    if value == 0 or not math.isfinite(value):
+        return "0" if value == 0 else str(value)
+    decimals = min(MOST_DECIMALS + 2, max(0, digits - 1 - math.floor(math.log10(abs(value)))))
+    text = f"{value:.{decimals}f}"
+    return text[1:] if text.startswith("-") and float(text) == 0 else text.replace("-", "\u2212")
+
+
+def clipped_ends(
+    measure: Measure | None, limits: tuple[float, float], extremes: tuple[float, float], unit: str
+) -> tuple[str | None, str | None]:
+    """Words for the legend's end swatches where values run past the range: (below, above), None where not.
+
+    Parameters
+    ----------
+    measure : Measure or None
+        None for a map that is not a curvature measure (deviation).
+    limits : (float, float)
+        The colour range.
+    extremes : (float, float)
+        The smallest and largest value on the model (``inf`` for a flat sample's radius).
+    unit : str
+    """
+    low, high = limits
+    smallest, largest = extremes
+    slack = 1e-9 * max(abs(high - low), 1e-300)
+    below = above = None
+    if math.isfinite(smallest) and smallest < low - slack:
+        if measure == Measure.MIN_RADIUS:
+            below = f"tightest radius {figure(smallest)} {unit}"
+        else:
+            below = f"lowest {figure(smallest)} {unit}"
+    if largest > high + slack:
+        if measure == Measure.MIN_RADIUS:
+            above = "flat faces and larger radii" if math.isinf(largest) else f"largest radius {figure(largest)} {unit}"
+        elif math.isfinite(largest):
+            above = f"highest {figure(largest)} {unit}"
+    return below, above
+
+
+def _style_text(prop, size: int) -> None:
+    path = font_file()
+    if path is not None:
+        prop.SetFontFamily(VTK_FONT_FILE)
+        prop.SetFontFile(path)
+    prop.SetFontSize(size)
+    prop.SetColor(0.0, 0.0, 0.0)
+    prop.SetShadow(False)
+    prop.BoldOff()
+    prop.ItalicOff()
+
+
+def ends_text(words: str):
+    """The ``vtkTextActor`` under a legend that names the true extremes beyond its clipped ends."""
+    from vtkmodules.vtkRenderingCore import vtkTextActor
+
+    actor = vtkTextActor()
+    actor.SetInput(vtk_text(words))
+    actor.GetPositionCoordinate().SetCoordinateSystemToNormalizedViewport()
+    prop = actor.GetTextProperty()
+    prop.SetJustificationToRight()
+    prop.SetVerticalJustificationToTop()
+    actor.SetVisibility(bool(words))
+    return actor
+
+
+def place_legend(bar, ends, where: LegendPlace) -> None:
+    """Fonts, sizes and place of a ``vtkScalarBarActor`` and its ends text (:func:`ends_text`, or None).
+
+    DejaVu Sans throughout, the title clear of the top tick, the ends text
+    right-aligned under the bar.
+    """
+    bar.SetPosition(where.x, where.y)
+    bar.SetPosition2(where.width, where.height)
+    bar.UnconstrainedFontSizeOn()  # the sizes below, not sizes squeezed to the bar's width
+    bar.SetVerticalTitleSeparation(TITLE_GAP)
+    bar.SetTextPad(4)
+    bar.SetTitle(vtk_text(bar.GetTitle()))
+    _style_text(bar.GetTitleTextProperty(), where.title_size)
+    _style_text(bar.GetLabelTextProperty(), where.label_size)
+    _style_text(bar.GetAnnotationTextProperty(), where.label_size)
+    if ends is not None:
+        _style_text(ends.GetTextProperty(), where.label_size)
+        ends.GetTextProperty().SetJustificationToRight()
+        ends.GetTextProperty().SetVerticalJustificationToTop()
+        ends.SetPosition(0.99, where.y - 0.03)

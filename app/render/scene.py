@@ -12,11 +12,11 @@ import pyvista as pv
 import vtk
 
 from app.state import Camera, FindingEntry, Mode, Session
-from app.state.settings import STRIPE_MODES, VALUE_MODES
+from app.state.settings import MEASURE_UNITS, STRIPE_MODES, VALUE_MODES, Measure
 
 from . import colours
 from .combs import comb_envelopes, comb_teeth, marker_points, polylines, section_curves
-from .legend import measure_title, tick_format
+from .legend import SHIFT, WINDOW_LEGEND, LegendPlace, clipped_ends, ends_text, measure_title, place_legend, tick_format
 from .meshes import FaceMesh, face_mesh
 from .seams import seam_lines
 from .stripes import stripe_range, stripe_table
@@ -26,6 +26,8 @@ from .tooling import LEGEND_TITLE, add_tooling
 FOCUS_DISTANCE = 4.0
 # A click this close to a section curve (display pixels) chooses it.
 CURVE_PICK_PIXELS = 8.0
+# Stands for an infinite value (a flat sample's radius): far above any colour range, finite for VTK.
+FLAT_VALUE = 1e30
 LEGEND = dict(
     n_labels=5,
     fmt="%.3g",
@@ -71,6 +73,7 @@ class Scene:
         self.surface_actor = None
         self.surface: pv.PolyData | None = None
         self.legend: str | None = None
+        self.legend_ends = None  # the text under the bar naming the true extremes beyond clipped ends
         self.lines = {name: pv.PolyData() for name in ("curves", "teeth", "envelopes", "seams", "mark")}
         self.points = {name: pv.PolyData() for name in ("inflections", "extrema", "mark_point")}
         self.actors: dict[str, object] = {}
@@ -87,6 +90,7 @@ class Scene:
             self.plotter.remove_scalar_bar(title, render=False)
         self.plotter.clear_actors()
         self.legend = None
+        self.legend_ends = None
         self.actors.clear()
         self.surface_actor = None
         self.faces = None
@@ -105,6 +109,9 @@ class Scene:
         # bar's range, so a reused bar would keep a wider range than a narrowed map shows.
         for title in list(self.plotter.scalar_bars.keys()):
             self.plotter.remove_scalar_bar(title, render=False)
+        if self.legend_ends is not None:
+            self.plotter.remove_actor(self.legend_ends, render=False)
+            self.legend_ends = None
         self.legend = None
 
     def _pin_legend(self, limits: tuple[float, float]) -> None:
@@ -130,24 +137,7 @@ class Scene:
         mode = self.session.display.mode
         common = dict(name="faces", smooth_shading=True, render=False, pickable=True)
         if mode in VALUE_MODES:
-            values = self.faces.point_values(self.session.measure_fields())
-            values[~np.isfinite(values)] = np.nan
-            mesh.point_data["value"] = values
-            signed = self.session.signed_values
-            limits = self.session.colour_limits()
-            self.legend = legend_title(self.session)
-            self.surface_actor = self.plotter.add_mesh(
-                mesh,
-                scalars="value",
-                cmap=colours.lookup_table(signed, limits),
-                clim=limits,
-                nan_color=colours.MISSING,
-                scalar_bar_args=LEGEND | {"title": self.legend},
-                **common,
-            )
-            self._pin_legend(limits)
-            # Digits for this range.
-            self.plotter.scalar_bars[self.legend].SetLabelFormat(tick_format(*limits, LEGEND["n_labels"]))
+            self._show_values(mesh, common)
         elif mode == Mode.DRAFT and self.session.tooling is not None:
             # the draft view draws the check's own grids (one analysis for window, check and report)
             added = add_tooling(self.plotter, self.session.tooling, self.session.model.bounds, LEGEND)
@@ -156,6 +146,7 @@ class Scene:
             self.actors.update({f"tooling {name}": actor for name, actor in added.items()})
             self.legend = LEGEND_TITLE
             self._pin_legend(tuple(self.surface_actor.mapper.scalar_range))
+            self.place_legend()
         elif mode in STRIPE_MODES:
             self.update_stripes(render=False)
             self.surface_actor = self.plotter.add_mesh(
@@ -170,9 +161,54 @@ class Scene:
             )
         else:
             self.surface_actor = self.plotter.add_mesh(
-                mesh, scalars=None, color=colours.SURFACE, show_scalar_bar=False, **common
+                mesh, scalars=None, color=colours.SURFACE, show_scalar_bar=False, **colours.SHADED_LIGHT, **common
             )
+        # With a legend at the right edge the model moves left (the view's centre moves right), so they do not meet.
+        self.plotter.camera.SetWindowCenter(SHIFT if self.legend is not None else 0.0, 0.0)
         self._render()
+
+    def _show_values(self, mesh: pv.PolyData, common: dict) -> None:
+        """The colour map of the current measure, lit by :data:`colours.MAP_LIGHT`, with its legend."""
+        session = self.session
+        values = self.faces.point_values(session.measure_fields())
+        # A flat sample's radius is infinite: it maps above the range (the calm end), it is not "no value".
+        values[np.isposinf(values)] = FLAT_VALUE
+        values[~np.isfinite(values)] = np.nan
+        mesh.point_data["value"] = values
+        measure = None if session.display.mode == Mode.DEVIATION else session.display.measure
+        limits = session.colour_limits()
+        self.legend = legend_title(session)
+        table = colours.lookup_table(session.signed_values, limits, reverse=measure == Measure.MIN_RADIUS)
+        self.surface_actor = self.plotter.add_mesh(
+            mesh,
+            scalars="value",
+            cmap=table,
+            clim=limits,
+            nan_color=colours.MISSING,
+            scalar_bar_args=LEGEND | {"title": self.legend},
+            **colours.MAP_LIGHT,
+            **common,
+        )
+        self._pin_legend(limits)
+        bar = self.plotter.scalar_bars[self.legend]
+        bar.SetLabelFormat(tick_format(*limits, LEGEND["n_labels"]))
+        unit = "mm" if measure is None else MEASURE_UNITS[measure]
+        below, above = clipped_ends(measure, limits, session.value_extremes(), unit)
+        # Clipped ends: a swatch of the end colour beyond each clipped end, the true extremes in words below.
+        bar.SetDrawBelowRangeSwatch(below is not None)
+        bar.SetDrawAboveRangeSwatch(above is not None)
+        bar.SetBelowRangeAnnotation("")
+        bar.SetAboveRangeAnnotation("")
+        words = [f"\u25b2 {above}" if above else "", f"\u25bc {below}" if below else ""]
+        self.legend_ends = ends_text("\n".join(w for w in words if w))
+        self.plotter.add_actor(self.legend_ends, name="legend-ends", reset_camera=False, pickable=False, render=False)
+        self.place_legend()
+
+    def place_legend(self, where: LegendPlace = WINDOW_LEGEND) -> None:
+        """Put the legend (bar, title, clipped ends) at ``where`` with its font sizes (window or print)."""
+        if self.legend is None or self.legend not in self.plotter.scalar_bars:
+            return
+        place_legend(self.plotter.scalar_bars[self.legend], self.legend_ends, where)
 
     def update_stripes(self, render: bool = True) -> None:
         """Recompute the stripe parameter (after a camera move in reflection mode)."""

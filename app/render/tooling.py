@@ -35,7 +35,7 @@ OVERLAY_LIFT = 1e-3
 MAP_LIGHT = dict(ambient=0.35, diffuse=0.7, specular=0.0)
 # Draft limit shown when the profile sets none: the map still needs a centre.
 SHOWN_LIMIT_DEG = 1.0
-LEGEND_TITLE = "draft [deg]"
+LEGEND_TITLE = "Draft\n(degrees)"
 
 
 def draft_span(analysis: ToolingAnalysis) -> tuple[float, float]:

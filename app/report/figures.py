@@ -17,6 +17,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from app.render import colours
+from app.render.legend import PRINT_LEGEND
 from app.render.scene import Scene
 from app.render.tooling import OUT_OF_REACH_NAME, UNDERCUT_NAME, draft_span
 from app.review.result import FAIL, FileReview
@@ -38,8 +39,6 @@ ZOOM = 1.0
 # The curvature views leave the legend room at the right.
 ZOOM_WITH_LEGEND = 0.82
 MARKER_FONT = 22
-# The picture is printed at about half its size: the legend's text is set larger than on screen.
-LEGEND_FONT = (24, 22)  # title, labels
 # Curvature plots span at least +-this (1/mm): a radius of 10 m.
 PLOT_SPAN_MIN = 1e-4
 
@@ -157,7 +156,7 @@ class _Pictures:
         session = self.session
         session.show_sections(*(self.sections if sections else ((), ())))
         self.scene.update_sections()
-        _set_view(self.plotter, view, ZOOM_WITH_LEGEND if mode == Mode.CURVATURE else ZOOM)
+        _set_view(self.plotter, view, ZOOM_WITH_LEGEND if mode in (Mode.CURVATURE, Mode.DRAFT) else ZOOM)
         _add_markers(self.plotter, self.review)
         session.set_camera(self.scene.camera())
         session.set_display(mode=mode)
@@ -168,13 +167,7 @@ class _Pictures:
         return " Numbered labels: the findings over tolerance of the same number." if _markers(self.review)[1] else ""
 
     def take(self, name: str, caption: str) -> Figure:
-        # Legend text for a picture printed at half size; set just before the shot (a new bar resets it).
-        for bar in self.plotter.scalar_bars.values():
-            bar.UnconstrainedFontSizeOn()  # the sizes below, not sizes fitted to the bar
-            bar.GetTitleTextProperty().SetFontSize(LEGEND_FONT[0])
-            bar.GetLabelTextProperty().SetFontSize(LEGEND_FONT[1])
-            bar.SetPosition(0.8, 0.1)
-            bar.SetPosition2(0.07, 0.72)
+        self.scene.place_legend(PRINT_LEGEND)  # set just before the shot: a new bar takes the window's place
         return Figure(name, caption, _png(self.plotter))
 
     def close(self) -> None:

@@ -4,13 +4,17 @@ header with the model's name and a footer with the page number on every page.
 QTextDocument paginates but knows no "keep with next"; :func:`keep_together`
 supplies it: after layout, a heading or a picture whose following block (a
 table's first body row, a caption) lands on a later page gets a page break
-before it, and the layout runs on from there. Pages are then painted one by
-one, clipped, between a header and a footer of our own, as QTextDocument's own
-``print`` would do without them.
+before it, and the layout runs on from there. QTextDocument also breaks a
+table row between its lines where a page ends; :func:`split_rows` finds such
+rows after layout and :func:`split_tables` ends the table before each one and
+carries on in a new table, with the same header, on the next page. Pages are
+then painted one by one, clipped, between a header and a footer of our own, as
+QTextDocument's own ``print`` would do without them.
 """
 
 from __future__ import annotations
 
+import re
 from collections.abc import Callable, Sequence
 
 # Layout resolution of the document (Qt's default screen resolution: image widths are in these pixels).
@@ -22,6 +26,11 @@ MARGIN_MM = 15.0
 BAND_MM = 7.0
 HEADER_POINT_SIZE = 7.5
 OBJECT_CHAR = "\ufffc"  # a block made of this character alone holds an inline image
+# Each pass splits the first broken row of every table; a long table needs one pass per page it runs onto.
+MOST_PASSES = 40
+TABLE = re.compile(r"<table\b[^>]*>.*?</table>", re.S | re.I)
+ROW = re.compile(r"<tr\b.*?</tr>", re.S | re.I)
+HEAD = re.compile(r"<thead\b.*?</thead>", re.S | re.I)
 
 
 def _px(mm: float) -> float:
@@ -106,6 +115,99 @@ def keep_together(doc, page_height: float) -> int:
     return added
 
 
+def _tables(doc) -> list:
+    """The document's tables in reading order (the order of their ``<table>`` elements)."""
+    from PySide6.QtGui import QTextCursor
+
+    found, seen = [], set()
+    block = doc.begin()
+    while block.isValid():
+        table = QTextCursor(block).currentTable()
+        if table is not None and table.firstPosition() not in seen:
+            seen.add(table.firstPosition())
+            found.append(table)
+        block = block.next()
+    return found
+
+
+def _row_extent(layout, table, row: int) -> tuple[float, float]:
+    """Top of the first line and bottom of the last line of any cell in ``row``, in layout pixels."""
+    top, bottom = float("inf"), float("-inf")
+    for column in range(table.columns()):
+        cell = table.cellAt(row, column)
+        block, last = cell.firstCursorPosition().block(), cell.lastCursorPosition().block()
+        while block.isValid():
+            rect, lines = layout.blockBoundingRect(block), block.layout()
+            for i in range(lines.lineCount()):
+                line = lines.lineAt(i)
+                top = min(top, rect.top() + line.y())
+                bottom = max(bottom, rect.top() + line.y() + line.height())
+            if block == last:
+                break
+            block = block.next()
+    return top, bottom
+
+
+def split_rows(doc, page_height: float) -> dict[int, int]:
+    """The first row of each table that QTextDocument broke across a page end: ``{table index: row}``.
+
+    Rows taller than a page cannot be kept whole and are left alone.
+    """
+    layout = doc.documentLayout()
+    broken = {}
+    for index, table in enumerate(_tables(doc)):
+        for row in range(table.format().headerRowCount(), table.rows()):
+            top, bottom = _row_extent(layout, table, row)
+            if not top < bottom or bottom - top >= page_height:
+                continue
+            if int(top // page_height) != int((bottom - 1.0) // page_height):
+                broken[index] = row
+                break
+    return broken
+
+
+def _break_before(open_tag: str) -> str:
+    """A ``<table ...>`` tag that starts a new page."""
+    if re.search(r"style\s*=\s*\"", open_tag, re.I):
+        return re.sub(r"(style\s*=\s*\")", r"\1page-break-before: always; ", open_tag, count=1, flags=re.I)
+    return open_tag[:-1] + ' style="page-break-before: always">'
+
+
+def _table(open_tag: str, head_html: str, rows: list[str]) -> str:
+    return f"{open_tag}{head_html}<tbody>{''.join(rows)}</tbody></table>"
+
+
+def split_tables(html: str, broken: dict[int, int]) -> str:
+    """End each table of ``broken`` before its broken row and go on in a new table on the next page.
+
+    Parameters
+    ----------
+    html : str
+        The document; its ``<table>`` elements are not nested, in the order of :func:`_tables`.
+    broken : dict of int to int
+        From :func:`split_rows`: table index to the row (header rows counted) that must start a page.
+    """
+    pieces, at = [], 0
+    for index, match in enumerate(TABLE.finditer(html)):
+        if index not in broken:
+            continue
+        table = match.group(0)
+        open_tag = table[: table.index(">") + 1]
+        head = HEAD.search(table)
+        head_html = head.group(0) if head else ""
+        body = table[head.end() :] if head else table[len(open_tag) :]
+        rows = ROW.findall(body)
+        skipped = len(ROW.findall(head_html))
+        cut = broken[index] - skipped
+        if cut <= 0:
+            replaced = _break_before(open_tag) + table[len(open_tag) :]
+        else:
+            replaced = _table(open_tag, head_html, rows[:cut]) + _table(_break_before(open_tag), head_html, rows[cut:])
+        pieces += [html[at : match.start()], replaced]
+        at = match.end()
+    return "".join(pieces) + html[at:]
+
+
 def _finish_layout(doc) -> None:
     """Lay the whole document out afresh: block formats changed after layout leave later blocks unpainted."""
     doc.markContentsDirty(0, doc.characterCount())
@@ -131,16 +233,20 @@ def chapter_pages(doc, page_height: float) -> list[tuple[int, str]]:
 def print_pages(
     writer,
     doc,
+    html: str,
     header: Callable[[int, str], tuple[str, str]],
     chapters_named: Sequence[str],
 ) -> int:
-    """Lay ``doc`` out on the writer's pages and paint them with a running header and footer.
+    """Lay ``html`` out in ``doc`` on the writer's pages and paint them with a running header and footer.
 
     Parameters
     ----------
     writer : QPdfWriter
         With its page size and margins set.
     doc : QTextDocument
+        Holding the pictures as resources.
+    html : str
+        The document.
     header : callable
         ``header(page_index, chapter_title) -> (left, right)``: the header's two texts.
     chapters_named : sequence of str
@@ -158,9 +264,15 @@ def print_pages(
     width_mm = A4_MM[0] - 2 * MARGIN_MM
     height_mm = A4_MM[1] - 2 * MARGIN_MM - 2 * BAND_MM
     page = QSizeF(_px(width_mm), _px(height_mm))
-    doc.setPageSize(page)
-    keep_together(doc, page.height())
-    _finish_layout(doc)
+    for _ in range(MOST_PASSES):
+        doc.setHtml(html)
+        doc.setPageSize(page)
+        keep_together(doc, page.height())
+        _finish_layout(doc)
+        broken = split_rows(doc, page.height())
+        if not broken:
+            break
+        html = split_tables(html, broken)
     count = doc.pageCount()
     chapters = chapter_pages(doc, page.height())
     named = set(chapters_named)

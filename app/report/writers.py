@@ -94,8 +94,7 @@ def write_pdf_file(target: str, reviews, figures, created: str, comparison=None)
     html = document(
         reviews, figures, lambda name: f"{RESOURCE_SCHEME}:{name}", created, __version__, comparison=comparison
     )
-    doc.setHtml(_printable(html))
-    print_pages(writer, doc, running_header(reviews, created), [model_name(r) for r in reviews])
+    print_pages(writer, doc, _printable(html), running_header(reviews, created), [model_name(r) for r in reviews])
     del doc, writer  # the PDF is finished when the writer goes; the atomic writer checks it is complete
 
 

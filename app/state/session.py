@@ -21,6 +21,7 @@ from geometry.model import Model
 from geometry.sections import CurvatureComb, SectionCurve
 from geometry.tooling import unit_pull
 
+from .colour_scale import FLAT_RADIUS_MM, one_sided_limits, signed_limits
 from .events import Notifier
 from .loading import Progress, prepare, with_seams_judged
 from .recent import RecentFiles
@@ -35,7 +36,7 @@ from .review_findings import (
 )
 from .revisions import ReviewLoop, review_path_for
 from .sectioning import comb_scale, combs_for, sections_for
-from .settings import SIGNED_MEASURES, ColourRange, DisplaySettings, Mode, SectionSettings
+from .settings import MEASURE_UNITS, SIGNED_MEASURES, ColourRange, DisplaySettings, Measure, Mode, SectionSettings
 from .stripes import Camera, stripe_parameters
 from .tooling import starting_pull, suggested_pull, tooling_list
 
@@ -291,25 +292,52 @@ class Session:
         return self.display.mode == Mode.DEVIATION or self.display.measure in SIGNED_MEASURES
 
     def colour_limits(self) -> tuple[float, float]:
-        """Colour-map range: the user's, or robust percentiles (symmetric about 0 for signed measures)."""
+        """Colour-map range: the user's, or robust percentiles rounded outwards (symmetric about 0 if signed).
+
+        The automatic ends are round numbers (:mod:`app.state.colour_scale`), so
+        the legend's ticks read short; the values beyond them show in the end
+        colours, and :meth:`value_extremes` gives the true extremes.
+        """
         rng = self.display.colour_range
         if not rng.auto:
             return rng.low, rng.high
         if self.display.mode == Mode.DEVIATION:
             reach = self.review.deviation.reach if self.review.deviation is not None else 1.0
             return -reach, reach
+        measure = self.display.measure
+        unit = MEASURE_UNITS[measure]
+        values = self._finite_values()
+        if values.size == 0:
+            # no finite value: a flat model (its minimum radius is infinite everywhere)
+            if measure == Measure.MIN_RADIUS:
+                return 0.0, FLAT_RADIUS_MM
+            values = np.zeros(1)
+        low, high = np.percentile(values, [AUTO_PERCENTILE, 100 - AUTO_PERCENTILE])
+        if measure in SIGNED_MEASURES:
+            return signed_limits(max(abs(low), abs(high)), unit)
+        if measure == Measure.MIN_RADIUS:
+            # radii beyond the flat radius all read as near flat: they must not squeeze the tight ones together
+            high = min(high, FLAT_RADIUS_MM)
+            low = min(low, 0.5 * high)
+        return one_sided_limits(float(low), float(high), unit)
+
+    def _finite_values(self) -> np.ndarray:
+        """The current measure's finite values on every face, shape (n,)."""
         values = [f[s.inside] for f, s in zip(self.measure_fields(), self.samples, strict=True)]
         values = np.concatenate(values) if values else np.zeros(0)
-        values = values[np.isfinite(values)]
+        return values[np.isfinite(values)]
+
+    def value_extremes(self) -> tuple[float, float]:
+        """Smallest and largest value of the current map over every face (NaN when there is none).
+
+        The minimum radius of a model with flat samples has ``inf`` as its largest value.
+        """
+        fields = [f[s.inside] for f, s in zip(self.measure_fields(), self.samples, strict=True)]
+        values = np.concatenate(fields) if fields else np.zeros(0)
+        values = values[~np.isnan(values)]
         if values.size == 0:
-            return (-1.0, 1.0) if self.display.measure in SIGNED_MEASURES else (0.0, 1.0)
-        low, high = np.percentile(values, [AUTO_PERCENTILE, 100 - AUTO_PERCENTILE])
-        if self.display.measure in SIGNED_MEASURES:
-            reach = max(abs(low), abs(high), 1e-12)
-            return -float(reach), float(reach)
-        if high <= low:
-            high = low + max(abs(low) * 1e-3, 1e-12)
-        return float(low), float(high)
+            return float("nan"), float("nan")
+        return float(values.min()), float(values.max())
 
     def stripe_fields(self) -> list[np.ndarray]:
         """Stripe parameter per face for the current light mode (see :mod:`app.state.stripes`)."""

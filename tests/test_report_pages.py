@@ -1,0 +1,62 @@
+"""The PDF's pages: a table row is never split by a page end, and a table that runs on repeats its header."""
+
+from __future__ import annotations
+
+import shutil
+import subprocess
+
+import pytest
+
+from app.report.pages import split_rows, split_tables
+
+ROWS = 160
+needs_poppler = pytest.mark.skipif(shutil.which("pdftotext") is None, reason="poppler-utils not installed")
+
+
+def long_table() -> str:
+    """A heading, then a table whose rows are one to six lines tall, so page ends fall inside rows."""
+    rows = "".join(
+        f"<tr><td>{i}</td><td>begin{i} {'word ' * (4 + (i * 37) % 70)}end{i}</td></tr>" for i in range(ROWS)
+    )
+    return (
+        '<h2>Long table</h2><table border="1" cellspacing="0" cellpadding="3" width="100%" style="font-size: 9pt;">'
+        f"<thead><tr><th>Row</th><th>Text of the row</th></tr></thead><tbody>{rows}</tbody></table><p>after</p>"
+    )
+
+
+def test_split_tables_repeats_the_header():
+    html = long_table()
+    split = split_tables(html, {0: 11})  # header row 0, body rows 1.. : row 11 is body row 10
+    assert split.count("<table") == 2 and split.count("<thead>") == 2
+    second = split[split.index("<table", split.index("<table") + 1) :]
+    assert second.startswith('<table border="1"') and "page-break-before: always" in second[:200]
+    assert "begin10 " in second and "begin9 " not in second
+
+
+@needs_poppler
+def test_rows_stay_whole_and_headers_repeat(tmp_path):
+    from PySide6.QtCore import QMarginsF
+    from PySide6.QtGui import QPageLayout, QPageSize, QPdfWriter, QTextDocument
+
+    from app.report.pages import A4_MM, BAND_MM, MARGIN_MM, _px, print_pages
+    from app.report.writers import _gui_application
+
+    _gui_application()
+    out = tmp_path / "long.pdf"
+    writer = QPdfWriter(str(out))
+    writer.setPageSize(QPageSize(QPageSize.PageSizeId.A4))
+    writer.setPageMargins(QMarginsF(*(MARGIN_MM,) * 4), QPageLayout.Unit.Millimeter)
+    doc = QTextDocument()
+    count = print_pages(writer, doc, long_table(), lambda page, chapter: ("Long", f"{page}"), [])
+    height = _px(A4_MM[1] - 2 * MARGIN_MM - 2 * BAND_MM)
+    assert split_rows(doc, height) == {}
+    del doc, writer
+    text = subprocess.run(["pdftotext", "-layout", str(out), "-"], capture_output=True, text=True, check=True).stdout
+    pages = [page for page in text.split("\f") if page.strip()]
+    assert len(pages) == count > 2
+    for i in range(ROWS):
+        where = [n for n, page in enumerate(pages) if f"begin{i} " in page]
+        assert len(where) == 1 and f"end{i}" in pages[where[0]], f"row {i} is split across pages"
+    for page in pages:
+        if "begin" in page:
+            assert "Text of the row" in page  # every page of the table starts with its header
