@@ -15,9 +15,7 @@ needs_poppler = pytest.mark.skipif(shutil.which("pdftotext") is None, reason="po
 
 def long_table() -> str:
     """A heading, then a table whose rows are one to six lines tall, so page ends fall inside rows."""
-    rows = "".join(
-        f"<tr><td>{i}</td><td>begin{i} {'word ' * (4 + (i * 37) % 70)}end{i}</td></tr>" for i in range(ROWS)
-    )
+    rows = "".join(f"<tr><td>{i}</td><td>begin{i} {'word ' * (4 + (i * 37) % 70)}end{i}</td></tr>" for i in range(ROWS))
     return (
         '<h2>Long table</h2><table border="1" cellspacing="0" cellpadding="3" width="100%" style="font-size: 9pt;">'
         f"<thead><tr><th>Row</th><th>Text of the row</th></tr></thead><tbody>{rows}</tbody></table><p>after</p>"
