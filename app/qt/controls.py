@@ -27,6 +27,15 @@ from app.state.tooling import SUGGESTIONS
 from geometry.errors import BattenError
 
 
+def range_note(mode: Mode) -> str:
+    """What stands in the colour range's place in a mode without a typed range (empty where it has one)."""
+    if mode in VALUE_MODES:
+        return ""
+    if mode == Mode.DRAFT:
+        return "Colour range: the draft map is centred on the profile's draft limit (see its legend)."
+    return "Colour range: set in the curvature and deviation views."
+
+
 def _blocked(*widgets):
     return [QSignalBlocker(w) for w in widgets]
 
@@ -60,6 +69,9 @@ class DisplayPanel(QWidget):
         # says why a typed range is not shown (empty while the range in force is the one typed)
         self.range_message = QLabel("")
         self.range_message.setStyleSheet("color: #b71c1c")
+        # in the modes without a colour map the range rows give way to a note saying so
+        self.range_note = QLabel("")
+        self.range_note.setWordWrap(True)
         self.stripe_count = _spin(1, 200, 1)
         self.stripe_width = _spin(0.05, 0.95, 0.05, 2)
         self.stripe_direction = QComboBox()
@@ -81,6 +93,8 @@ class DisplayPanel(QWidget):
         form.addRow("From", self.low)
         form.addRow("To", self.high)
         form.addRow(self.range_message)
+        form.addRow(self.range_note)
+        self._surface_form = form
         form.addRow(self.seams)
         stripes = QGroupBox("Light stripes")
         sform = QFormLayout(stripes)
@@ -179,6 +193,10 @@ class DisplayPanel(QWidget):
         self.auto_range.setEnabled(valued)
         self.low.setEnabled(valued and not d.colour_range.auto)
         self.high.setEnabled(valued and not d.colour_range.auto)
+        for row in (self.auto_range, self.low, self.high):
+            self._surface_form.setRowVisible(row, valued)
+        self.range_note.setText(range_note(d.mode))
+        self._surface_form.setRowVisible(self.range_note, not valued)
         for w in (self.stripe_count, self.stripe_width, self.stripe_direction):
             w.setEnabled(d.mode in STRIPE_MODES)
 

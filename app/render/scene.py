@@ -82,6 +82,10 @@ class Scene:
         self._stripe_limits: tuple[float, float] | None = None
         self._stripe_share: float | None = None
         plotter.set_background(colours.BACKGROUND_BOTTOM, top=colours.BACKGROUND_TOP)
+        if not getattr(plotter, "off_screen", False):
+            # Multisampling smooths triangle edges only; FXAA also smooths stripe edges inside triangles
+            # (the report's off-screen pictures are supersampled instead).
+            plotter.enable_anti_aliasing("fxaa")
 
     # -- whole model -----------------------------------------------------
     def rebuild(self) -> None:

@@ -71,8 +71,9 @@ class StripeSettings:
     Attributes
     ----------
     count : int
-        Stripes across the model (highlight lines), or per 180 degrees of
-        reflected-ray or normal angle (reflection lines, isophotes).
+        Stripes across the model (highlight lines), across the model's range
+        of normal angles (isophotes), or per 180 degrees of reflected-ray
+        angle (reflection lines).
     width : float
         Share of each stripe period the light line covers, in (0, 1).
     direction : str

@@ -23,8 +23,17 @@ LIGHT_PLANE_DISTANCE = 0.25
 # get no stripe; there the parameter runs off to infinity and its stripes pack
 # tighter than pixels (a moire, not information).
 GRAZING_SINE = 0.25
-# Angle (degrees) the stripe count spreads over in the angular modes (reflection, isophotes).
+# Angle (degrees) the stripe count spreads over for reflection lines.
 ANGLE_SPAN = 180.0
+# Isophotes spread the stripe count over the model's own range of normal angles (robust ends, percent), at
+# least MIN_ISOPHOTE_SPAN_DEG: a gently curved panel gets as many bands as a round body, not one dark field.
+ISOPHOTE_PERCENTILE = 1.0
+MIN_ISOPHOTE_SPAN_DEG = 10.0
+# The light stands this far (degrees) from the model's mean normal: the angle then grows evenly across the
+# model, where a light along the mean normal gives rings about one point. Below MEAN_NORMAL_SHARE the model
+# faces every way (a closed body) and the light is the across-reference axis itself.
+ISOPHOTE_TILT_DEG = 45.0
+MEAN_NORMAL_SHARE = 0.3
 
 
 @dataclass(frozen=True)
@@ -33,6 +42,36 @@ class Camera:
 
     eye: tuple[float, float, float] | None
     direction: tuple[float, float, float] = (0.0, 0.0, -1.0)
+
+
+def isophote_light(samples: tuple[FaceSamples, ...], across: np.ndarray, along: np.ndarray) -> np.ndarray:
+    """The isophotes' light direction: :data:`ISOPHOTE_TILT_DEG` from the mean normal, towards ``across``.
+
+    Parameters
+    ----------
+    samples : tuple of FaceSamples
+    across, along : ndarray of shape (3,)
+        The stripe settings' axes; ``along`` stands in where ``across`` is the mean normal.
+
+    Returns
+    -------
+    ndarray of shape (3,)
+        Unit vector; ``across`` for a model whose normals point every way.
+    """
+    normals = [s.field.normals[s.inside] for s in samples]
+    normals = np.concatenate(normals) if normals else np.zeros((0, 3))
+    normals = normals[np.isfinite(normals).all(axis=1)]
+    mean = normals.mean(axis=0) if normals.size else np.zeros(3)
+    if np.linalg.norm(mean) < MEAN_NORMAL_SHARE:
+        return np.asarray(across, float)
+    mean = mean / np.linalg.norm(mean)
+    for axis in (across, along):
+        side = np.asarray(axis, float) - (np.asarray(axis, float) @ mean) * mean
+        if np.linalg.norm(side) > MEAN_NORMAL_SHARE:
+            break
+    tilt = np.radians(ISOPHOTE_TILT_DEG)
+    light = np.cos(tilt) * mean + np.sin(tilt) * side / np.linalg.norm(side)
+    return light / np.linalg.norm(light)
 
 
 def stripe_parameters(
@@ -58,8 +97,16 @@ def stripe_parameters(
     along = stripes.line_direction
     up = stripes.across_reference
     if mode == Mode.ISOPHOTE:
-        step = ANGLE_SPAN / stripes.count
-        return [isophote_angle(s.field.normals, up) / step for s in samples]
+        light = isophote_light(samples, up, along)
+        angles = [isophote_angle(s.field.normals, light) for s in samples]
+        shown = np.concatenate([a[s.inside] for a, s in zip(angles, samples, strict=True)]) if samples else []
+        shown = np.asarray(shown)[np.isfinite(shown)]
+        span = MIN_ISOPHOTE_SPAN_DEG
+        if shown.size:
+            low, high = np.percentile(shown, [ISOPHOTE_PERCENTILE, 100 - ISOPHOTE_PERCENTILE])
+            span = max(high - low, span)
+        step = span / stripes.count
+        return [a / step for a in angles]
     if mode == Mode.REFLECTION:
         camera = camera or Camera(None)
         eye = None if camera.eye is None else np.asarray(camera.eye, float)
