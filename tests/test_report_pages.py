@@ -58,3 +58,37 @@ def test_rows_stay_whole_and_headers_repeat(tmp_path):
     for page in pages:
         if "begin" in page:
             assert "Text of the row" in page  # every page of the table starts with its header
+
+
+@needs_poppler
+@pytest.mark.parametrize("filler_lines", [32, 48, 66])
+def test_a_heading_keeps_a_tall_first_row(tmp_path, filler_lines):
+    # The first row's tall cell is not in its first column: the heading once stayed behind alone.
+    filler = "".join(f"<p>filler line {i}</p>" for i in range(filler_lines))
+    faces = ", ".join(f"face_{i:02d}" for i in range(14))
+    table = (
+        '<table border="1" width="100%"><thead><tr><th width="15%">Curve</th><th width="15%">Faces</th></tr></thead>'
+        f"<tbody><tr><td>first</td><td>{faces}</td></tr><tr><td>second</td><td>{faces}</td></tr></tbody></table>"
+    )
+    pages = _printed(tmp_path, f"{filler}<h3>Tall rows</h3>{table}")
+    where = [n for n, page in enumerate(pages) if "Tall rows" in page]
+    assert len(where) == 1 and "face_13" in pages[where[0]]
+
+
+def _printed(tmp_path, html: str) -> list[str]:
+    from PySide6.QtCore import QMarginsF
+    from PySide6.QtGui import QPageLayout, QPageSize, QPdfWriter, QTextDocument
+
+    from app.report.pages import MARGIN_MM, print_pages
+    from app.report.writers import _gui_application
+
+    _gui_application()
+    out = tmp_path / "printed.pdf"
+    writer = QPdfWriter(str(out))
+    writer.setPageSize(QPageSize(QPageSize.PageSizeId.A4))
+    writer.setPageMargins(QMarginsF(*(MARGIN_MM,) * 4), QPageLayout.Unit.Millimeter)
+    doc = QTextDocument()
+    print_pages(writer, doc, html, lambda page, chapter: ("", ""), [])
+    del doc, writer
+    text = subprocess.run(["pdftotext", "-layout", str(out), "-"], capture_output=True, text=True, check=True).stdout
+    return [page for page in text.split("\f") if page.strip()]

@@ -53,15 +53,15 @@ def _breaks_before(block) -> bool:
     return bool(policy & QTextFormat.PageBreakFlag.PageBreak_AlwaysBefore)
 
 
-def _first_body_block(block):
-    """The block whose page a kept block must share: past a table's header rows to its first body row."""
+def _bottom_of(layout, block) -> float:
+    """Where what a kept block must share a page with ends: a block's bottom, or a table's whole first body row."""
     from PySide6.QtGui import QTextCursor
 
     table = QTextCursor(block).currentTable()
     if table is None:
-        return block
+        return layout.blockBoundingRect(block).bottom()
     first = min(table.format().headerRowCount(), table.rows() - 1)
-    return table.cellAt(first, 0).firstCursorPosition().block()
+    return _row_extent(layout, table, first)[1]
 
 
 def _group_end(block):
@@ -73,7 +73,7 @@ def _group_end(block):
         return block
     if _keeps_with_next(nxt) and not _breaks_before(nxt):
         return _group_end(nxt)
-    return _first_body_block(nxt)
+    return nxt
 
 
 def keep_together(doc, page_height: float) -> int:
@@ -99,7 +99,7 @@ def keep_together(doc, page_height: float) -> int:
     while block.isValid():
         if _keeps_with_next(block):
             top = layout.blockBoundingRect(block).top()
-            end = layout.blockBoundingRect(_group_end(block)).bottom()
+            end = _bottom_of(layout, _group_end(block))
             first_page = int(top // page_height)
             # A group taller than a page cannot be kept together; leave it where it falls.
             spans = int((end - 1.0) // page_height) > first_page
