@@ -50,7 +50,7 @@ class LegendPlace:
 # In the window: a slim bar at the right edge. The scene shifts the model left by SHIFT so they do not meet.
 WINDOW_LEGEND = LegendPlace(0.87, 0.3, 0.05, 0.5, TITLE_SIZE, LABEL_SIZE)
 # The report's pictures are printed at about an eighth of a millimetre per pixel: larger text, a longer bar.
-PRINT_LEGEND = LegendPlace(0.85, 0.24, 0.05, 0.58, 26, 24)
+PRINT_LEGEND = LegendPlace(0.8, 0.26, 0.045, 0.54, 32, 30)
 # How far (share of half the view's width) the model moves left while a legend is shown.
 SHIFT = 0.14
 

@@ -350,8 +350,15 @@ def tooling_facts(review: FileReview) -> list[tuple[str, str]]:
         ),
         ("Undercut area", "-" if t["undercut_area_mm2"] is None else f"{num(t['undercut_area_mm2'])} mm\u00b2"),
         ("Ball-end cutter", cutter),
-        ("Tightest concave radius", "nothing concave" if radius is None else f"{num(radius)} mm"),
+        ("Tightest concave radius", "nothing concave" if _concave(review, radius) == "none" else f"{num(radius)} mm"),
     ]
+
+
+def _concave(review: FileReview, radius) -> str:
+    """A concave radius, or "none" where nothing is concave (no radius, or one flatter than the profile's flat)."""
+    if radius is None or float(radius) * _flat_level(review) >= 1.0:
+        return "none"
+    return num(radius)
 
 
 def tooling_rows(review: FileReview):
@@ -379,7 +386,7 @@ def tooling_rows(review: FileReview):
                 num(f["least_draft_deg"]),
                 num(f["insufficient_area_mm2"]),
                 num(f["undercut_area_mm2"]),
-                num(f["concave_radius_mm"]),
+                _concave(review, f["concave_radius_mm"]),
                 num(f["out_of_reach_area_mm2"]),
             )
         )
