@@ -22,7 +22,7 @@ TEXELS = 4096
 # Texels per stripe period at least, so a light band is never thinner than a few texels.
 MIN_TEXELS_PER_PERIOD = 16
 # Width of the ramp at each edge of a light band, as a share of the stripe period.
-EDGE_SHARE = 0.04
+EDGE_SHARE = 0.02
 # Share of samples at each end left out of the range (grazing normals send the
 # highlight parameter to infinity).
 CLIP_PERCENTILE = 0.5

@@ -23,6 +23,9 @@ LIGHT_PLANE_DISTANCE = 0.25
 # get no stripe; there the parameter runs off to infinity and its stripes pack
 # tighter than pixels (a moire, not information).
 GRAZING_SINE = 0.25
+# Stripes whose period on the surface is shorter than the model size over this count are not drawn (NaN):
+# they pack tighter than the picture's pixels near silhouettes, and what they show is aliasing, not shape.
+DENSEST_ACROSS = 150
 # Angle (degrees) the stripe count spreads over for reflection lines.
 ANGLE_SPAN = 180.0
 # Isophotes spread the stripe count over the model's own range of normal angles (robust ends, percent), at
@@ -74,7 +77,54 @@ def isophote_light(samples: tuple[FaceSamples, ...], across: np.ndarray, along: 
     return light / np.linalg.norm(light)
 
 
+def too_dense(parameter: np.ndarray, points: np.ndarray, shortest_mm: float) -> np.ndarray:
+    """Samples whose stripe period on the surface is shorter than ``shortest_mm``.
+
+    Parameters
+    ----------
+    parameter : ndarray of shape (a, b)
+        Stripe parameter on a face's grid (periods).
+    points : ndarray of shape (a, b, 3)
+        The grid's points (mm).
+    shortest_mm : float
+
+    Returns
+    -------
+    ndarray of bool, shape (a, b)
+
+    Notes
+    -----
+    The period is 1 / |grad p|, with |grad p| taken as the larger of the rates
+    along the grid's rows and columns: the parameter's change per step over the
+    step's length on the surface, both by central differences (``numpy.gradient``).
+    """
+    rate = np.zeros(parameter.shape)
+    for axis in (0, 1):
+        if parameter.shape[axis] < 2:
+            continue
+        # change of the parameter and distance on the surface per grid step, both by central differences
+        change = np.abs(np.gradient(parameter, axis=axis))
+        step = np.linalg.norm(np.gradient(points, axis=axis), axis=-1)
+        with np.errstate(invalid="ignore", divide="ignore"):
+            rate = np.maximum(rate, change / step)  # NaN beside an undrawn sample: a lone stripe sample is dropped too
+    with np.errstate(divide="ignore", invalid="ignore"):
+        return ~(1.0 / rate >= shortest_mm)
+
+
 def stripe_parameters(
+    model: Model, samples: tuple[FaceSamples, ...], mode: Mode, stripes: StripeSettings, camera: Camera | None
+) -> list[np.ndarray]:
+    """The stripe parameter of every face's grid, NaN where its stripes are too dense to draw.
+
+    See :func:`raw_stripe_parameters`; samples whose stripe period is shorter than
+    ``model.size / DENSEST_ACROSS`` (:func:`too_dense`) are left undrawn.
+    """
+    fields = raw_stripe_parameters(model, samples, mode, stripes, camera)
+    shortest = max(model.size, 1e-9) / DENSEST_ACROSS
+    return [np.where(too_dense(f, s.field.points, shortest), np.nan, f) for f, s in zip(fields, samples, strict=True)]
+
+
+def raw_stripe_parameters(
     model: Model, samples: tuple[FaceSamples, ...], mode: Mode, stripes: StripeSettings, camera: Camera | None
 ) -> list[np.ndarray]:
     """The stripe parameter of every face's grid.
