@@ -6,7 +6,8 @@ import pytest
 from shapes import plane_model
 
 from app.qt.controls import DisplayPanel
-from app.state import Mode, Session
+from app.render.legend import tick_decimals
+from app.state import Measure, Mode, Session
 
 pytestmark = pytest.mark.gui
 
@@ -26,3 +27,16 @@ def test_modes_without_a_map_hide_the_range(qtbot, mode):
     session.set_display(mode=mode)
     assert not form.isRowVisible(panel.low) and not form.isRowVisible(panel.high)
     assert form.isRowVisible(panel.range_note) and "Colour range" in panel.range_note.text()
+
+
+def test_range_fields_carry_the_legends_digits(qtbot):
+    # 8 decimals showed a radius range as 0.00000000 to 200.00000000
+    session = Session()
+    session.show_model(plane_model())
+    panel = DisplayPanel(session)
+    qtbot.addWidget(panel)
+    session.set_display(mode=Mode.CURVATURE, measure=Measure.MIN_RADIUS)
+    assert panel.high.decimals() == 4 and panel.high.value() == pytest.approx(session.colour_limits()[1])
+    session.set_display(measure=Measure.MEAN)
+    low, high = session.colour_limits()
+    assert panel.high.decimals() == tick_decimals(low, high) + 2

@@ -20,11 +20,14 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
+from app.render.legend import tick_decimals
 from app.state import Measure, Mode, Session
 from app.state.review_findings import curve_label
 from app.state.settings import AXES, STRIPE_MODES, VALUE_MODES
 from app.state.tooling import SUGGESTIONS
 from geometry.errors import BattenError
+
+RANGE_DECIMALS = 8
 
 
 def range_note(mode: Mode) -> str:
@@ -63,9 +66,9 @@ class DisplayPanel(QWidget):
         for measure in Measure:
             self.measure.addItem(measure.value, measure)
         self.auto_range = QCheckBox("automatic range")
-        # Gaussian curvature of a 100 mm radius is 1e-4 1/mm^2: keep eight decimals
-        self.low = _spin(-1e6, 1e6, 1e-4, 8)
-        self.high = _spin(-1e6, 1e6, 1e-4, 8)
+        # Gaussian curvature of a 100 mm radius is 1e-4 1/mm^2: up to eight decimals
+        self.low = _spin(-1e6, 1e6, 1e-4, RANGE_DECIMALS)
+        self.high = _spin(-1e6, 1e6, 1e-4, RANGE_DECIMALS)
         # says why a typed range is not shown (empty while the range in force is the one typed)
         self.range_message = QLabel("")
         self.range_message.setStyleSheet("color: #b71c1c")
@@ -180,8 +183,11 @@ class DisplayPanel(QWidget):
         self.auto_range.setChecked(d.colour_range.auto)
         if self.session.model is not None and d.mode in VALUE_MODES:
             low, high = self.session.colour_limits()
-            self.low.setValue(low)
-            self.high.setValue(high)
+            # the legend's digits and two more to type a finer limit (8 decimals showed 200.00000000 mm)
+            decimals = min(RANGE_DECIMALS, max(4, tick_decimals(low, high) + 2))
+            for box, value in ((self.low, low), (self.high, high)):
+                box.setDecimals(decimals)
+                box.setValue(value)
         self.stripe_count.setValue(d.stripes.count)
         self.stripe_width.setValue(d.stripes.width)
         self.stripe_direction.setCurrentIndex(self.stripe_direction.findData(d.stripes.direction))
