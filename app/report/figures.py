@@ -191,9 +191,11 @@ def curvature_views(pictures: _Pictures) -> list[Figure]:
     for view in pictures.views:
         pictures.show(Mode.CURVATURE, view)
         low, high = (number_text(v, 3) for v in pictures.session.colour_limits())
+        smallest, largest = (number_text(v, 3) for v in pictures.session.value_extremes())
         caption = (
             f"Mean curvature H, {view.words} (model axes), as the window shows it: colours from {low} to {high} "
-            f"1/mm (larger values show in the end colours); {CURVATURE_SIGN}." + pictures.marker_words
+            f"1/mm, values beyond them in the end colours; the model's values run from {smallest} to {largest} "
+            f"1/mm; {CURVATURE_SIGN}." + pictures.marker_words
         )
         figures.append(pictures.take(f"curvature-{view.name}", caption))
     return figures
