@@ -19,7 +19,7 @@ import math
 import numba as nb
 import numpy as np
 
-from .compiled_eval import JIT_OPTIONS, homogeneous_at, make_scratch
+from .compiled_eval import JIT_OPTIONS, contract_row, homogeneous_at, make_scratch
 
 # Fused multiply-adds (rounding at most as good as separate steps, never worse
 # than the tolerances here) save a third of the arithmetic per sample.
@@ -142,19 +142,7 @@ def grid_kernel(net, nv, p, q, bu, span_u, bv, span_v, rows, sign, sine2, floor2
     row_net = np.zeros((3, nv, 4))
     h = np.zeros((24, b_count))
     for i in range(rows[0], rows[1]):
-        s = span_u[i]
-        for k in range(3):
-            for jp in range(nv):
-                for c in range(4):
-                    row_net[k, jp, c] = 0.0
-            for ia in range(p + 1):
-                coef = bu[i, k, ia]
-                if coef == 0.0:
-                    continue
-                base = (s - p + ia) * nv
-                for jp in range(nv):
-                    for c in range(4):
-                        row_net[k, jp, c] += coef * net[base + jp, c]
+        contract_row(net, nv, p, bu[i], span_u[i], 3, row_net)
         for j in range(b_count):
             t = span_v[j] - q
             for k in range(3):

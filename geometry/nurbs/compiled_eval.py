@@ -17,6 +17,9 @@ form A3.6 (eq. 3.17 differentiated), rational quotient A4.4 (eq. 4.20).
 
 from __future__ import annotations
 
+import os
+from collections.abc import Callable
+from concurrent.futures import ThreadPoolExecutor
 from dataclasses import dataclass
 
 import numba as nb
@@ -343,6 +346,29 @@ def basis_rows(
 
 
 @nb.njit(**JIT_OPTIONS)
+def contract_row(net, nv, p, coefs, span, count, row):
+    """One grid row of the net: ``row[k, j, c] = sum_a coefs[k, a] P^w[span - p + a, j, c]`` for k < count.
+
+    ``net`` (nu * nv, 4) homogeneous poles, ``coefs`` (>= count, p + 1) the u-basis
+    derivatives of the row's parameter, ``row`` (>= count, nv, 4) overwritten.
+    The first half of The NURBS Book A3.6 (2nd ed.), done once per row and reused
+    by every sample along it.
+    """
+    for k in range(count):
+        for jp in range(nv):
+            for c in range(4):
+                row[k, jp, c] = 0.0
+        for ia in range(p + 1):
+            coef = coefs[k, ia]
+            if coef == 0.0:
+                continue
+            base = (span - p + ia) * nv
+            for jp in range(nv):
+                for c in range(4):
+                    row[k, jp, c] += coef * net[base + jp, c]
+
+
+@nb.njit(**JIT_OPTIONS)
 def grid_derivatives_kernel(net, nv, p, q, bu, span_u, bv, span_v, order, out):
     """S_kl on the grid u x v into ``out`` (order+1, order+1, a, b, 3); A3.6 and A4.4 per sample.
 
@@ -354,19 +380,7 @@ def grid_derivatives_kernel(net, nv, p, q, bu, span_u, bv, span_v, order, out):
     hom = np.zeros((order + 1, order + 1, 4))
     ders = np.zeros((order + 1, order + 1, 3))
     for i in range(a_count):
-        s = span_u[i]
-        for k in range(order + 1):
-            for jp in range(nv):
-                for c in range(4):
-                    row[k, jp, c] = 0.0
-            for ia in range(p + 1):
-                coef = bu[i, k, ia]
-                if coef == 0.0:
-                    continue
-                base = (s - p + ia) * nv
-                for jp in range(nv):
-                    for c in range(4):
-                        row[k, jp, c] += coef * net[base + jp, c]
+        contract_row(net, nv, p, bu[i], span_u[i], order + 1, row)
         for j in range(b_count):
             t = span_v[j] - q
             for k in range(order + 1):
@@ -406,3 +420,37 @@ def grid_derivatives(surface, u: np.ndarray, v: np.ndarray, order: int) -> np.nd
         surface.pack.net, nv, surface.degree_u, surface.degree_v, bu, span_u, bv, span_v, int(order), out
     )
     return out
+
+
+def run_row_blocks(
+    work: Callable[[int, int], None], rows: int, workers: int | None, max_rows: int | None = None
+) -> None:
+    """Call ``work(r0, r1)`` on consecutive blocks of grid rows ``[r0, r1)``, on threads.
+
+    The compiled kernels release the interpreter lock (``nogil``), so the blocks
+    run in parallel. Two blocks per worker even out uneven rows; ``max_rows``
+    bounds a block so that its temporaries stay small.
+
+    Parameters
+    ----------
+    work : callable
+        Fills the outputs of rows ``r0`` to ``r1 - 1``.
+    rows : int
+        Number of grid rows.
+    workers : int, optional
+        Threads; default: the number of cores.
+    max_rows : int, optional
+        Most rows in one block.
+    """
+    workers = max(1, min(workers or os.cpu_count() or 1, max(rows, 1)))
+    count = 2 * workers if workers > 1 else 1
+    if max_rows:
+        count = max(count, -(-rows // max_rows))
+    edges = np.linspace(0, rows, count + 1).astype(np.int64)
+    blocks = [(int(r0), int(r1)) for r0, r1 in zip(edges[:-1], edges[1:], strict=True) if r1 > r0]
+    if workers > 1 and len(blocks) > 1:
+        with ThreadPoolExecutor(workers) as pool:
+            list(pool.map(lambda block: work(*block), blocks))
+    else:
+        for block in blocks:
+            work(*block)

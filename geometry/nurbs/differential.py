@@ -17,14 +17,12 @@ frame, which is exact and keeps k1 - k2 accurate near umbilics.
 
 from __future__ import annotations
 
-import os
-from concurrent.futures import ThreadPoolExecutor
 from dataclasses import dataclass, fields
 
 import numpy as np
 
 from .compiled_curvature import OUTPUT_KEYS, UMBILIC_RELATIVE, empty_outputs, grid_kernel, scattered_kernel
-from .compiled_eval import basis_rows
+from .compiled_eval import basis_rows, run_row_blocks
 from .surface import NurbsSurface
 
 # A sample is degenerate when |Su x Sv| is this small against |Su| |Sv|: the
@@ -348,21 +346,14 @@ def curvature_on_grid(
     outs = empty_outputs(a * b)
     floor = area_floor(surface)
     net = surface.pack.net
-    workers = max(1, min(workers or os.cpu_count() or 1, a))
-    edges = np.linspace(0, a, 2 * workers + 1).astype(np.int64) if workers > 1 else np.array([0, a])
 
-    def work(k: int) -> None:
-        rows = edges[k : k + 2].copy()
+    def work(r0: int, r1: int) -> None:
         grid_kernel(
-            net, nv, surface.degree_u, surface.degree_v, bu, span_u, bv, span_v, rows,
+            net, nv, surface.degree_u, surface.degree_v, bu, span_u, bv, span_v, np.array([r0, r1]),
             sign, DEGENERATE_SINE * DEGENERATE_SINE, floor * floor, outs,
         )  # fmt: skip
 
-    if workers > 1:
-        with ThreadPoolExecutor(workers) as pool:
-            list(pool.map(work, range(edges.size - 1)))
-    else:
-        work(0)
+    run_row_blocks(work, a, workers)
     q = dict(zip(OUTPUT_KEYS, outs, strict=True))
     if not q["valid"].all():
         bad = np.flatnonzero(~q["valid"])

@@ -147,36 +147,6 @@ class NurbsSurface:
         # Compiled: each grid row contracted with the net once (A3.6), quotient rule per sample (A4.4).
         return compiled_eval.grid_derivatives(self, u, v, order)
 
-    def homogeneous_from_basis(self, bu: np.ndarray, bv: np.ndarray, order: int, dim: int = 4) -> np.ndarray:
-        """Derivatives A_kl of the homogeneous surface (w x, w y, w z, w) from dense basis matrices.
-
-        Parameters
-        ----------
-        bu : ndarray of shape (>= order + 1, a, nu)
-        bv : ndarray of shape (>= order + 1, b, nv)
-            From :func:`geometry.nurbs.basis.basis_matrices`.
-        order : int
-        dim : int
-            4 for all homogeneous components, 3 for the weighted coordinates only.
-
-        Returns
-        -------
-        hom : ndarray of shape (order + 1, order + 1, dim, a, b)
-            Entries with k + l > order are zero; ``A_kl = Bu^(k) P^w Bv^(l)T``
-            (The NURBS Book eq. 3.17, differentiated). For the draft maps' blocks;
-            curvature and points use the compiled kernels.
-        """
-        net = np.ascontiguousarray(self.homogeneous.transpose(2, 0, 1)[:dim])  # (dim, nu, nv)
-        nv = net.shape[2]
-        a, b = bu.shape[1], bv.shape[1]
-        hom = np.empty((order + 1, order + 1, dim, a, b))
-        for k in range(order + 1):
-            hom[k, order + 1 - k :] = 0.0
-            rows = np.matmul(bu[k], net).reshape(dim * a, nv)
-            for l in range(order + 1 - k):
-                np.matmul(rows, bv[l].T, out=hom[k, l].reshape(dim * a, b))
-        return hom
-
     def derivatives_at(self, u: np.ndarray, v: np.ndarray, order: int = 2) -> np.ndarray:
         """Partial derivatives S_kl at scattered parameter pairs (u[i], v[i]).
 

@@ -36,7 +36,7 @@ from ..nurbs.compiled_inversion import invert
 from ..vectors import dot, unit
 from .adjacency import SeamPair
 from .boundary import BoundaryCurve
-from .measures import DEGENERATE_SPEED, INWARD_OFFSET, ISO_ALIGNED_DEG, ORIENTATION_VOTES, _iso_curvature
+from .measures import DEGENERATE_SPEED, INWARD_OFFSET, ISO_ALIGNED_DEG, ORIENTATION_VOTES, _iso_curvature, seam_samples
 
 # Alternating projections: at most this many rounds, each while the gap still
 # shrinks by more than this fraction (converged, or a real gap between the faces).
@@ -352,26 +352,12 @@ class EdgeSeams:
         db = self._derivatives(self.face_b[seam], uv_b, order)
         n_a = self._normal(da, self.sign_a[seam])
         n_b = self._normal(db, self.sign_b[seam] * self.orientation[seam])
-        angle = np.degrees(np.arctan2(np.linalg.norm(np.cross(n_a, n_b), axis=1), dot(n_a, n_b)))
         tangent = at["tangent"]
         k_a = _cross_normal_curvature(da, n_a, unit(np.cross(n_a, tangent)))
         k_b = _cross_normal_curvature(db, n_b, unit(np.cross(n_b, tangent)))
-        jump = np.abs(k_a - k_b)
-        scale = np.maximum(np.maximum(np.abs(k_a), np.abs(k_b)), self.flat_curvature)
         iso_jump, third_jump = self._iso_jumps(seam, da, db)
-        return {
-            "gap": np.linalg.norm(da[0, 0] - db[0, 0], axis=1),
-            "angle": angle,
-            "curvature_a": k_a,
-            "curvature_b": k_b,
-            "curvature_jump": jump,
-            "curvature_jump_rel": jump / scale,
-            "iso_curvature_jump": iso_jump,
-            "curvature_derivative_jump": third_jump,
-            "points": da[0, 0],
-            "uv_a": uv_a,
-            "uv_b": uv_b,
-        }
+        gap = np.linalg.norm(da[0, 0] - db[0, 0], axis=1)
+        return seam_samples(gap, n_a, n_b, k_a, k_b, self.flat_curvature, iso_jump, third_jump, da[0, 0], uv_a, uv_b)
 
     def _iso_jumps(self, seam: np.ndarray, da: np.ndarray, db: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
         iso_jump = np.full(seam.size, np.nan)

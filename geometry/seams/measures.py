@@ -34,6 +34,7 @@ import numpy as np
 
 from ..model.topology import Face, Model
 from ..nurbs.differential import shape_quantities
+from ..vectors import dot, unit
 from .adjacency import SeamPair
 from .boundary import BoundaryCurve, CurveTarget, arc_length_table, polyline_at
 
@@ -50,12 +51,53 @@ INWARD_OFFSET = 1e-6
 ORIENTATION_VOTES = 9
 
 
-def _unit(a: np.ndarray) -> np.ndarray:
-    return a / np.maximum(np.linalg.norm(a, axis=-1, keepdims=True), 1e-300)
+def seam_samples(
+    gap, n_a, n_b, k_a, k_b, flat_curvature, iso_jump, third_jump, points, uv_a, uv_b
+) -> dict[str, np.ndarray]:
+    """The measures of a seam at k points, from what each side gives there: the one place they are combined.
 
+    Parameters
+    ----------
+    gap : ndarray of shape (k,)
+        Distance between the two sides' points, mm.
+    n_a, n_b : ndarray of shape (k, 3)
+        Unit normals of the two sides (side b already flipped where the shell's
+        orientation is inconsistent).
+    k_a, k_b : ndarray of shape (k,)
+        Normal curvature across the seam on each side, 1/mm (signs in DEVELOPERS.md).
+    flat_curvature : float
+        Curvature below which a side counts as flat for the relative jump, 1/mm.
+    iso_jump, third_jump : ndarray of shape (k,)
+        Jumps of the cross iso-curves' curvature vector and its derivative (NaN where not aligned).
+    points : ndarray of shape (k, 3)
+        Side a's points.
+    uv_a, uv_b : ndarray of shape (k, 2)
 
-def _dot(a: np.ndarray, b: np.ndarray) -> np.ndarray:
-    return np.einsum("ij,ij->i", a, b)
+    Returns
+    -------
+    dict
+        ``gap``, ``angle`` (degrees between the normals, ``atan2(|n_a x n_b|, n_a . n_b)``, which keeps
+        full precision near 0 and 180), ``curvature_a``, ``curvature_b``, ``curvature_jump``
+        (``|k_a - k_b|``), ``curvature_jump_rel`` (the jump over the larger curvature, at least
+        ``flat_curvature``), ``iso_curvature_jump``, ``curvature_derivative_jump``: shape (k,);
+        ``points`` (k, 3); ``uv_a``, ``uv_b`` (k, 2).
+    """
+    angle = np.degrees(np.arctan2(np.linalg.norm(np.cross(n_a, n_b), axis=1), dot(n_a, n_b)))
+    jump = np.abs(k_a - k_b)
+    scale = np.maximum(np.maximum(np.abs(k_a), np.abs(k_b)), flat_curvature)
+    return {
+        "gap": gap,
+        "angle": angle,
+        "curvature_a": k_a,
+        "curvature_b": k_b,
+        "curvature_jump": jump,
+        "curvature_jump_rel": jump / scale,
+        "iso_curvature_jump": iso_jump,
+        "curvature_derivative_jump": third_jump,
+        "points": points,
+        "uv_a": uv_a,
+        "uv_b": uv_b,
+    }
 
 
 def _inward(face: Face, uv: np.ndarray, slope: np.ndarray, ders: np.ndarray) -> np.ndarray:
@@ -80,8 +122,8 @@ def _shape(ders: np.ndarray, sign: float) -> dict[str, np.ndarray]:
 
 def _cross_curvature(q: dict[str, np.ndarray], tangent: np.ndarray) -> np.ndarray:
     """Normal curvature across the seam by Euler's formula, shape (k,)."""
-    w = _unit(np.cross(q["normals"], tangent))
-    return q["k1"] * _dot(w, q["dir1"]) ** 2 + q["k2"] * _dot(w, q["dir2"]) ** 2
+    w = unit(np.cross(q["normals"], tangent))
+    return q["k1"] * dot(w, q["dir1"]) ** 2 + q["k2"] * dot(w, q["dir2"]) ** 2
 
 
 def _iso_curvature(ders: np.ndarray, axis: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
@@ -117,9 +159,9 @@ def _iso_curvature(ders: np.ndarray, axis: np.ndarray) -> tuple[np.ndarray, np.n
     speed = np.linalg.norm(a, axis=1)
     # A collapsed iso-curve (a pole) has no arc length: NaN there, ignored by the maxima.
     sigma = np.where(speed > DEGENERATE_SPEED * np.max(speed, initial=0.0), speed, np.nan)[:, None]
-    ab = _dot(a, b)[:, None]
+    ab = dot(a, b)[:, None]
     r2 = ab / sigma
-    r3 = (_dot(b, b)[:, None] + _dot(a, c)[:, None]) / sigma - ab**2 / sigma**3
+    r3 = (dot(b, b)[:, None] + dot(a, c)[:, None]) / sigma - ab**2 / sigma**3
     second = b / sigma**2 - a * r2 / sigma**3
     third = (c / sigma**2 - 3 * b * r2 / sigma**3 - a * r3 / sigma**3 + 3 * a * r2**2 / sigma**4) / sigma
     return a / sigma, second, third
@@ -178,7 +220,7 @@ class SeamGeometry:
         t = np.interp(tau, self.fraction, self.t_table)
         uv_a, slope_a = polyline_at(self.pair.uv_a, t)
         da = self.face_a.surface.derivatives_at(uv_a[:, 0], uv_a[:, 1], self.order)
-        tangent = _unit(da[1, 0] * slope_a[:, :1] + da[0, 1] * slope_a[:, 1:])
+        tangent = unit(da[1, 0] * slope_a[:, :1] + da[0, 1] * slope_a[:, 1:])
         foot = self.target.project(da[0, 0])
         db = self.face_b.surface.derivatives_at(foot["uv"][:, 0], foot["uv"][:, 1], self.order)
         return uv_a, slope_a, da, tangent, foot, db
@@ -188,12 +230,12 @@ class SeamGeometry:
         uv_a, slope_a, da, tangent, foot, db = self._sides(tau)
         n_a = _shape(da, self.face_a.sign)["normals"]
         n_b = _shape(db, self.face_b.sign)["normals"]
-        turn_a = np.sign(_dot(np.cross(n_a, tangent), _inward(self.face_a, uv_a, slope_a, da)))
-        turn_b = np.sign(_dot(np.cross(n_b, tangent), _inward(self.face_b, foot["uv"], foot["slope"], db)))
+        turn_a = np.sign(dot(np.cross(n_a, tangent), _inward(self.face_a, uv_a, slope_a, da)))
+        turn_b = np.sign(dot(np.cross(n_b, tangent), _inward(self.face_b, foot["uv"], foot["slope"], db)))
         votes = turn_a * turn_b  # -1: opposite traversal (consistent), +1: same (flipped)
         if np.any(votes != 0):
             return 1.0 if votes.sum() <= 0 else -1.0
-        return 1.0 if np.mean(_dot(n_a, n_b)) >= 0 else -1.0
+        return 1.0 if np.mean(dot(n_a, n_b)) >= 0 else -1.0
 
     def evaluate(self, tau: np.ndarray) -> dict[str, np.ndarray]:
         """Every measure at arc-length fractions ``tau``.
@@ -215,27 +257,13 @@ class SeamGeometry:
         uv_a, _, da, tangent, foot, db = self._sides(tau)
         qa = _shape(da, self.face_a.sign)
         qb = _shape(db, self.face_b.sign * self.orientation)
-        n_a, n_b = qa["normals"], qb["normals"]
-        angle = np.degrees(np.arctan2(np.linalg.norm(np.cross(n_a, n_b), axis=1), _dot(n_a, n_b)))
         k_a = _cross_curvature(qa, tangent)
         k_b = _cross_curvature(qb, tangent)
-        jump = np.abs(k_a - k_b)
         iso_jump, third_jump = self._iso_jumps(da, db, foot["curve"])
-        scale = np.maximum(np.maximum(np.abs(k_a), np.abs(k_b)), self.flat_curvature)
-        out = {
-            "gap": foot["distance"],
-            "angle": angle,
-            "curvature_a": k_a,
-            "curvature_b": k_b,
-            "curvature_jump": jump,
-            "curvature_jump_rel": jump / scale,
-            "iso_curvature_jump": iso_jump,
-            "curvature_derivative_jump": third_jump,
-            "points": da[0, 0],
-            "uv_a": uv_a,
-            "uv_b": foot["uv"],
-        }
-        return out
+        return seam_samples(
+            foot["distance"], qa["normals"], qb["normals"], k_a, k_b, self.flat_curvature,
+            iso_jump, third_jump, da[0, 0], uv_a, foot["uv"],
+        )  # fmt: skip
 
     def _iso_jumps(self, da: np.ndarray, db: np.ndarray, curve: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
         k = da.shape[2]

@@ -40,8 +40,9 @@ from .curve_geometry import PLANE, curve_geometry
 from .evaluate import FaceEvaluator
 from .features import analyse_features
 from .iso import IsoCurves
-from .march import FIXED_U, FIXED_V, FREE, MarchGrid, march_face, march_grids
+from .march import FIXED_U, FREE, MarchGrid, march_face, march_grids
 from .pieces import (
+    PieceQueue,
     along_samples,
     approach_pole,
     arc_lengths,
@@ -49,7 +50,6 @@ from .pieces import (
     flip,
     interior_knots,
     moving_runs,
-    resample,
     signed,
     spans_of,
     split_at_knots,
@@ -173,9 +173,7 @@ class SectionEngine(IsoCurves):
             )
             for f in model.faces
         )
-        self.ranges = np.stack(
-            [self.evaluator.u_hi - self.evaluator.u_lo, self.evaluator.v_hi - self.evaluator.v_lo], axis=1
-        )
+        self.ranges = self.evaluator.ranges
         self.neighbours: set[tuple[int, int]] | None = None
         if model.edges:
             pairs = set()
@@ -188,7 +186,6 @@ class SectionEngine(IsoCurves):
     def _project(self, faces: np.ndarray, uv: np.ndarray, fixed: np.ndarray, origin, normal) -> np.ndarray:
         """Newton on the plane equation, along grad f (or along a domain edge), shape (k, 2)."""
         uv = self.evaluator.clip(faces, uv)
-        limit = MAX_STEP_FRACTION * self.ranges[faces]
         tol = PLANE_TOLERANCE * self.size
         for _ in range(NEWTON_MAX_ITERATIONS):
             ders = self.evaluator.derivatives(faces, uv, 1)
@@ -197,19 +194,7 @@ class SectionEngine(IsoCurves):
             if residual <= tol:
                 break
             grad = np.stack([ders[1, 0].T @ normal, ders[0, 1].T @ normal], axis=1)
-            direction = grad.copy()
-            direction[fixed == FIXED_U, 0] = 0.0
-            direction[fixed == FIXED_V, 1] = 0.0
-            # where the curve runs nearly along the line a sample is held to, stepping
-            # along that line is ill-conditioned: step along the gradient instead
-            grazing = np.abs(grad[:, 0] * direction[:, 0] + grad[:, 1] * direction[:, 1]) < GRAZING * np.sum(
-                grad * grad, axis=1
-            )
-            direction[grazing] = grad[grazing]
-            denom = np.einsum("ij,ij->i", grad, direction)
-            ok = np.abs(denom) > 1e-300
-            step = np.where(ok, -f / np.where(ok, denom, 1.0), 0.0)[:, None] * direction
-            uv = self.evaluator.clip(faces, uv + np.clip(step, -limit, limit))
+            uv = self.evaluator.level_step(faces, uv, f, grad, fixed, MAX_STEP_FRACTION, GRAZING)
             if residual <= LAST_STEP_RESIDUAL * self.size:
                 break  # quadratic convergence: this step brought |f| to about C f^2, far below tol
         return uv
@@ -291,7 +276,7 @@ class SectionEngine(IsoCurves):
 
     def _plane_pieces(self, origin, normal) -> list[_Piece]:
         """March every face, resample and split each crossing polyline, refine all samples at once."""
-        queue: dict[str, list] = {"faces": [], "uv": [], "fixed": [], "cycles": []}
+        queue = PieceQueue(self.spacing, MIN_PIECE_POINTS)
         for index, (face, grid) in enumerate(zip(self.model.faces, self.grids, strict=True)):
             crossings = march_face(face, grid, origin, normal)
             if crossings is None:
@@ -302,14 +287,10 @@ class SectionEngine(IsoCurves):
                     uv, fixed = crossings.uv[nodes], crossings.fixed[nodes]
                     if any(cut):  # the line passes a pole
                         uv, fixed = approach_pole(uv, fixed, np.array(face.surface.domain), cut)
-                    self._queue_piece(queue, index, uv, crossings.xyz[nodes], fixed, cycle)
-        if not queue["cycles"]:
+                    queue.add(index, uv, crossings.xyz[nodes], fixed, cycle)
+        if not queue.cycles:
             return []
-        faces = np.concatenate(queue["faces"])
-        bounds = np.cumsum([0] + [f.size for f in queue["faces"]])
-        faces, uv, fixed, pairs, owner = self._split_knots(
-            faces, np.concatenate(queue["uv"]), np.concatenate(queue["fixed"]), bounds
-        )
+        faces, uv, fixed, pairs, owner = self._split_knots(*queue.samples())
         before = uv.copy()
         uv = self._project(faces, uv, fixed, origin, normal)
         geom = self._geometry(PLANE, faces, uv, (origin, normal))
@@ -322,24 +303,13 @@ class SectionEngine(IsoCurves):
         keep = ~np.isin(pairs, pairs[(pairs >= 0) & slipped])
         geom = {k: v[keep] for k, v in geom.items()}
         uv, faces, pairs, owner = uv[keep], faces[keep], pairs[keep], owner[keep]
-        bounds = np.searchsorted(owner, np.arange(len(queue["cycles"]) + 1))
+        bounds = np.searchsorted(owner, np.arange(len(queue.cycles) + 1))
         geom = fill_singular(geom, bounds)
         geom["spans"] = np.concatenate([spans_of(pairs[a:b]) for a, b in zip(bounds[:-1], bounds[1:], strict=True)])
         return [
             _Piece(int(faces[a]), along_samples({k: v[a:b] for k, v in geom.items()}), uv[a:b], cycle)
-            for a, b, cycle in zip(bounds[:-1], bounds[1:], queue["cycles"], strict=True)
+            for a, b, cycle in zip(bounds[:-1], bounds[1:], queue.cycles, strict=True)
         ]
-
-    def _queue_piece(self, queue: dict, index: int, uv, xyz, node_fixed, cycle: bool) -> None:
-        """Resample one crossing polyline at the point spacing."""
-        uv = resample(uv, xyz, cycle, self.spacing, MIN_PIECE_POINTS)
-        flags = np.full(uv.shape[0], FREE)
-        if not cycle:  # end points on a domain edge stay on it
-            flags[0], flags[-1] = node_fixed[0], node_fixed[-1]
-        queue["faces"].append(np.full(uv.shape[0], index))
-        queue["uv"].append(uv)
-        queue["fixed"].append(flags)
-        queue["cycles"].append(cycle)
 
     def _split_knots(self, faces, uv, fixed, bounds):
         """Pieces with knot pairs added (:func:`split_at_knots`): faces, uv, fixed, pair ids, piece of each sample."""

@@ -8,9 +8,11 @@ samples, split them at knot lines and turn them to run one way.
 
 from __future__ import annotations
 
+from dataclasses import dataclass, field
+
 import numpy as np
 
-from .march import FIXED_U, FIXED_V
+from .march import FIXED_U, FIXED_V, FREE
 
 # Knot lines crossed at a smaller sine (in parameter units scaled by the ranges) get no pair.
 STEEP_CROSSING = 0.2
@@ -75,6 +77,47 @@ def along_samples(geom: dict) -> dict:
     step = np.diff(pts, axis=0)
     along = float(np.sum(np.einsum("ij,ij->i", geom["tangents"][:-1] + geom["tangents"][1:], step)))
     return signed({**geom, "orient": np.ones(pts.shape[0])}, -1.0 if along < 0 else 1.0)
+
+
+@dataclass
+class PieceQueue:
+    """Crossing polylines of several faces, resampled and gathered for one batched refinement.
+
+    Attributes
+    ----------
+    spacing : float
+        Distance between samples along a piece, mm.
+    min_points : int
+        Fewest samples of a piece.
+    faces, uv, fixed : list of ndarray
+        Per piece: the face of each sample (m,), its parameters (m, 2), and FREE or the
+        domain edge an end sample is held to (m,).
+    cycles : list of bool
+        Whether each piece closes on itself.
+    """
+
+    spacing: float
+    min_points: int
+    faces: list[np.ndarray] = field(default_factory=list)
+    uv: list[np.ndarray] = field(default_factory=list)
+    fixed: list[np.ndarray] = field(default_factory=list)
+    cycles: list[bool] = field(default_factory=list)
+
+    def add(self, face: int, uv: np.ndarray, xyz: np.ndarray, node_fixed: np.ndarray, cycle: bool) -> None:
+        """Resample one crossing polyline (nodes ``uv`` (n, 2), ``xyz`` (n, 3)) at the spacing."""
+        uv = resample(uv, xyz, cycle, self.spacing, self.min_points)
+        flags = np.full(uv.shape[0], FREE)
+        if not cycle:  # end points on a domain edge stay on it
+            flags[0], flags[-1] = node_fixed[0], node_fixed[-1]
+        self.faces.append(np.full(uv.shape[0], face))
+        self.uv.append(uv)
+        self.fixed.append(flags)
+        self.cycles.append(cycle)
+
+    def samples(self) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
+        """All samples: faces (k,), uv (k, 2), fixed (k,) and each piece's first sample (pieces + 1,)."""
+        bounds = np.cumsum([0] + [f.size for f in self.faces])
+        return np.concatenate(self.faces), np.concatenate(self.uv), np.concatenate(self.fixed), bounds
 
 
 def resample(uv: np.ndarray, xyz: np.ndarray, closed: bool, spacing: float, min_points: int) -> np.ndarray:

@@ -14,21 +14,17 @@ map of the same grid.
 
 from __future__ import annotations
 
-import os
-from concurrent.futures import ThreadPoolExecutor
 from dataclasses import dataclass, fields
 
 import numpy as np
-from threadpoolctl import ThreadpoolController
 
 from ..errors import BattenError
-from ..nurbs.basis import basis_matrices
+from ..nurbs.compiled_eval import basis_rows, grid_derivatives_kernel, run_row_blocks
 from ..nurbs.differential import DEGENERATE_SINE, LIMIT_NUDGE, area_floor
 from ..nurbs.surface import NurbsSurface
 
 # Samples per block of rows: temporaries stay in cache.
 _CHUNK_POINTS = 1 << 15
-_BLAS = ThreadpoolController()
 
 # Classes of a sample (see :func:`draft_classes`).
 RELEASE_MINUS, INSUFFICIENT, RELEASE_PLUS = -1, 0, 1
@@ -164,58 +160,6 @@ def _limit_normals(surface: NurbsSurface, u: np.ndarray, v: np.ndarray, sign: fl
     return normals
 
 
-def _grid_block(hom: np.ndarray, rational: bool, sign: float, floor: float, pull: np.ndarray, dest: dict) -> None:
-    """Points, normals, |Su x Sv|, validity and draft of one block from homogeneous derivatives.
-
-    ``hom`` has shape (2, 2, dim, k), components first; ``dest`` holds the
-    block's output arrays ((3, k) for vectors, (k,) for scalars).
-
-    Notes
-    -----
-    With S = A / w (The NURBS Book eq. 4.20), ``S_u = (A_u - w_u S) / w``, so
-    ``S_u x S_v = (A_u - w_u S) x (A_v - w_v S) / w^2``: the normal's direction
-    needs no division.
-    """
-    points = dest["points"]
-    if rational:
-        inv_w = 1.0 / hom[0, 0, 3]
-        np.multiply(hom[0, 0, :3], inv_w, out=points)
-        su = hom[1, 0, :3] - hom[1, 0, 3] * points
-        sv = hom[0, 1, :3] - hom[0, 1, 3] * points
-        scale = inv_w * inv_w
-    else:
-        points[...] = hom[0, 0, :3]
-        su, sv, scale = hom[1, 0, :3], hom[0, 1, :3], 1.0
-    normal = dest["normals"]
-    np.multiply(su[1], sv[2], out=normal[0])
-    normal[0] -= su[2] * sv[1]
-    np.multiply(su[2], sv[0], out=normal[1])
-    normal[1] -= su[0] * sv[2]
-    np.multiply(su[0], sv[1], out=normal[2])
-    normal[2] -= su[1] * sv[0]
-    norm = np.sqrt(normal[0] * normal[0] + normal[1] * normal[1] + normal[2] * normal[2])
-    lengths = np.sqrt((su[0] * su[0] + su[1] * su[1] + su[2] * su[2]) * (sv[0] * sv[0] + sv[1] * sv[1] + sv[2] * sv[2]))
-    valid = dest["valid"]
-    np.greater(norm, DEGENERATE_SINE * lengths, out=valid)
-    jacobian = np.multiply(norm, scale, out=dest["jacobian"])
-    valid &= jacobian > floor
-    inv = np.divide(sign, norm, out=norm, where=valid)
-    inv[~valid] = 0.0
-    normal *= inv
-    # draft = atan2(n . d, |n x d|) (see draft_angles)
-    sine = normal[0] * pull[0]
-    sine += normal[1] * pull[1]
-    sine += normal[2] * pull[2]
-    cx = normal[1] * pull[2] - normal[2] * pull[1]
-    cy = normal[2] * pull[0] - normal[0] * pull[2]
-    cz = normal[0] * pull[1] - normal[1] * pull[0]
-    cx *= cx
-    cx += cy * cy
-    cx += cz * cz
-    np.degrees(np.arctan2(sine, np.sqrt(cx, out=cx), out=sine), out=dest["draft"])
-    jacobian[~valid] = 0.0
-
-
 def draft_on_grid(
     surface: NurbsSurface, u: np.ndarray, v: np.ndarray, pull, reversed: bool = False, workers: int | None = None
 ) -> DraftField:
@@ -240,9 +184,11 @@ def draft_on_grid(
 
     Notes
     -----
-    First derivatives from basis matrices contracted with the homogeneous net
-    (The NURBS Book, 2nd ed., eq. 3.17), the rational quotient (eq. 4.20) folded
-    into the normal (see :func:`_grid_block`); ``draft = asin(n . d)``.
+    First derivatives on the compiled grid core
+    (:func:`geometry.nurbs.compiled_eval.grid_derivatives_kernel`: each grid row
+    contracted with the homogeneous net once, The NURBS Book, 2nd ed., A3.6, and
+    the rational quotient rule, eq. 4.20), in row blocks on threads; then
+    ``n = Su x Sv / |Su x Sv|`` and ``draft = asin(n . d)`` per block.
     """
     d = unit_pull(pull)
     u, v = surface.clip_to_domain(np.ravel(u), np.ravel(v))
@@ -250,46 +196,31 @@ def draft_on_grid(
     sign = -1.0 if reversed else 1.0
     floor = area_floor(surface)
     nu, nv = surface.shape
-    bu = basis_matrices(surface.knots_u, surface.degree_u, nu, u, 1)
-    bv = basis_matrices(surface.knots_v, surface.degree_v, nv, v, 1)
-    rational = surface.is_rational
-    out = {k: np.empty((3, a * b)) for k in ("points", "normals")}
-    out.update({k: np.empty(a * b) for k in ("jacobian", "draft")})
-    out["valid"] = np.empty(a * b, dtype=bool)
-    rows = max(1, _CHUNK_POINTS // max(b, 1))
+    bu, span_u = basis_rows(surface.knots_u, surface.degree_u, nu, u, 1)
+    bv, span_v = basis_rows(surface.knots_v, surface.degree_v, nv, v, 1)
+    points = np.empty((a, b, 3))
+    normals = np.empty((a, b, 3))
+    jacobian = np.empty((a, b))
+    valid = np.empty((a, b), dtype=bool)
 
-    def work(i0):
-        i1 = min(i0 + rows, a)
-        n = (i1 - i0) * b
-        dest = {k: arr[..., i0 * b : i1 * b] for k, arr in out.items()}
-        hom = surface.homogeneous_from_basis(bu[:, i0:i1], bv, 1, dim=4 if rational else 3)
-        _grid_block(hom.reshape(2, 2, -1, n), rational, sign, floor, d, dest)
+    def work(r0: int, r1: int) -> None:
+        ders = np.zeros((2, 2, r1 - r0, b, 3))
+        grid_derivatives_kernel(
+            surface.pack.net, nv, surface.degree_u, surface.degree_v, bu[r0:r1], span_u[r0:r1], bv, span_v, 1, ders
+        )
+        n, size, ok = _normals_block(ders.reshape(2, 2, -1, 3), sign, floor)
+        points[r0:r1] = ders[0, 0]
+        normals[r0:r1] = n.reshape(r1 - r0, b, 3)
+        jacobian[r0:r1] = size.reshape(r1 - r0, b)
+        valid[r0:r1] = ok.reshape(r1 - r0, b)
 
-    run_blocks(work, range(0, a, rows), workers)
-    points = np.moveaxis(out["points"], 0, -1).reshape(a, b, 3)
-    normals = np.moveaxis(out["normals"], 0, -1).reshape(a, b, 3)
-    draft = out["draft"].reshape(a, b)
-    valid = out["valid"].reshape(a, b)
+    run_row_blocks(work, a, workers, max_rows=max(1, _CHUNK_POINTS // max(b, 1)))
     if not valid.all():
         bad = np.nonzero(~valid)
         normals[bad] = _limit_normals(surface, u[bad[0]], v[bad[1]], sign, floor)
-        draft[bad] = draft_angles(normals[bad], d)
-    area = out["jacobian"].reshape(a, b) * trapezoid_weights(u)[:, None] * trapezoid_weights(v)[None, :]
+    draft = draft_angles(normals, d)
+    area = jacobian * trapezoid_weights(u)[:, None] * trapezoid_weights(v)[None, :]
     return DraftField(points, normals, draft, area, valid)
-
-
-def run_blocks(work, starts, workers: int | None) -> None:
-    """Run ``work(start)`` for every block start, on threads (numpy releases the GIL in its kernels)."""
-    starts = list(starts)
-    workers = workers or os.cpu_count() or 1
-    # the matrix products are small; BLAS threads on top of ours only contend
-    with _BLAS.limit(limits=1, user_api="blas"):
-        if workers > 1 and len(starts) > 1:
-            with ThreadPoolExecutor(workers) as pool:
-                list(pool.map(work, starts))
-        else:
-            for start in starts:
-                work(start)
 
 
 def draft_at(surface: NurbsSurface, u: np.ndarray, v: np.ndarray, pull, reversed: bool = False) -> np.ndarray:

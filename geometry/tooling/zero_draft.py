@@ -20,9 +20,10 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..model.topology import Model
+from ..sections.engine import GRAZING
 from ..sections.evaluate import FaceEvaluator
-from ..sections.march import FIXED_U, FIXED_V, FREE, march_field, march_grids
-from ..sections.pieces import resample
+from ..sections.march import march_field, march_grids
+from ..sections.pieces import PieceQueue
 from .draft import draft_on_grid, unit_pull
 
 # Samples of all marching grids together.
@@ -106,9 +107,6 @@ class ZeroDraftTracer:
             for f, g in zip(model.faces, self.grids, strict=True)
         )
         self.evaluator = FaceEvaluator([f.surface for f in model.faces])
-        self.ranges = np.stack(
-            [self.evaluator.u_hi - self.evaluator.u_lo, self.evaluator.v_hi - self.evaluator.v_lo], axis=1
-        )
 
     def curves(self, pull) -> tuple[ZeroDraftCurve, ...]:
         """Zero-draft curves for a pull direction, longest first.
@@ -122,7 +120,7 @@ class ZeroDraftTracer:
         tuple of ZeroDraftCurve
         """
         d = unit_pull(pull)
-        faces, uvs, fixed, owners, closed = [], [], [], [], []
+        queue = PieceQueue(self.spacing, MIN_PIECE_POINTS)
         for index, (face, grid, normals) in enumerate(zip(self.model.faces, self.grids, self.normals, strict=True)):
             field = np.nan_to_num(normals @ d)
             field[np.abs(field) <= ZERO_SNAP] = 0.0
@@ -135,23 +133,14 @@ class ZeroDraftTracer:
                 xyz = crossings.xyz[line]
                 if np.ptp(xyz, axis=0).max() <= 1e-9 * self.size:
                     continue
-                uv = resample(crossings.uv[line], xyz, ring, self.spacing, MIN_PIECE_POINTS)
-                flags = np.full(uv.shape[0], FREE)
-                if not ring:  # ends on a domain edge stay on it
-                    flags[0], flags[-1] = crossings.fixed[line[0]], crossings.fixed[line[-1]]
-                faces.append(np.full(uv.shape[0], index))
-                uvs.append(uv)
-                fixed.append(flags)
-                owners.append(np.full(uv.shape[0], len(closed)))
-                closed.append(ring)
-        if not closed:
+                queue.add(index, crossings.uv[line], xyz, crossings.fixed[line], ring)
+        if not queue.cycles:
             return ()
-        faces, owner = np.concatenate(faces), np.concatenate(owners)
-        uv, residual = self._refine(faces, np.concatenate(uvs), np.concatenate(fixed), d)
+        faces, uv, fixed, bounds = queue.samples()
+        uv, residual = self._refine(faces, uv, fixed, d)
         points = self.evaluator.derivatives(faces, uv, 0)[0, 0].T
-        bounds = np.searchsorted(owner, np.arange(len(closed) + 1))
         out = []
-        for a, b, ring in zip(bounds[:-1], bounds[1:], closed, strict=True):
+        for a, b, ring in zip(bounds[:-1], bounds[1:], queue.cycles, strict=True):
             # where Newton could not reach the curve (a pole, a fold of the normal field) the point is
             # dropped rather than shown off the curve; a piece that loses points no longer closes
             keep = np.flatnonzero(residual[a:b] <= KEEP_SINE) + a
@@ -170,21 +159,14 @@ class ZeroDraftTracer:
         Returns the refined parameters (k, 2) and |g| left at each (k,).
         """
         uv = self.evaluator.clip(faces, uv)
-        limit = MAX_STEP_FRACTION * self.ranges[faces]
-        g = np.zeros(faces.size)
         for _ in range(NEWTON_ITERATIONS):
             n, nu, nv, size = _normal_field(self.evaluator.derivatives(faces, uv, 2))
             g = d @ n
             if np.all(np.abs(g) <= SINE_TOLERANCE):
                 break
-            grad = np.stack([d @ nu, d @ nv], axis=1)
-            direction = grad.copy()
-            direction[fixed == FIXED_U, 0] = 0.0
-            direction[fixed == FIXED_V, 1] = 0.0
-            denom = np.einsum("ij,ij->i", grad, direction)
-            ok = (np.abs(denom) > 1e-300) & (size > 0)
-            step = np.where(ok, -g / np.where(ok, denom, 1.0), 0.0)[:, None] * direction
-            uv = self.evaluator.clip(faces, uv + np.clip(step, -limit, limit))
+            # no step where the normal is undefined (|Su x Sv| = 0)
+            grad = np.where((size > 0)[:, None], np.stack([d @ nu, d @ nv], axis=1), 0.0)
+            uv = self.evaluator.level_step(faces, uv, g, grad, fixed, MAX_STEP_FRACTION, GRAZING)
         n, _, _, _ = _normal_field(self.evaluator.derivatives(faces, uv, 2))
         return uv, np.abs(d @ n)
 
