@@ -13,6 +13,7 @@ import pytest
 
 from app.cli import main
 from app.report.document import REVIEW_AID
+from app.report.figures import render_figures
 from app.report.tables import seam_rows
 from app.review.batch import check_one
 from app.review.result import FileReview
@@ -100,7 +101,7 @@ def test_pdf_has_every_picture(pdf_report):
 def test_html_is_self_contained(tmp_path):
     from app.report import write_report
 
-    review, figures = check_one(str(VISOR), ReviewSettings(sections=SECTIONS), True, False)
+    review, figures = check_one(str(VISOR), ReviewSettings(sections=SECTIONS), render_figures, False)
     out = write_report(tmp_path / "review.html", [review], [figures], created="2026-12-01 19:00 UTC")
     html = out.read_text()
     sources = re.findall(r'<img src="([^"]+)"', html)

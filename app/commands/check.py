@@ -103,7 +103,7 @@ def add_arguments(parser: argparse.ArgumentParser) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
-    from app.review.batch import BatchOptions, run_batch
+    from app.review.batch import BatchOptions, ReportHooks, run_batch
     from app.review.cache import default_cache_dir
     from app.review.runner import ReviewSettings
     from geometry.tooling import unit_pull
@@ -113,6 +113,12 @@ def run(args: argparse.Namespace) -> int:
         from app.review.review_file import read_review_text
 
         review_text = read_review_text(args.review)  # a bad file stops the check here, naming file and line
+    hooks = None
+    if args.report:  # pyvista loads only for a run that draws
+        from app.report.figures import render_figures
+        from app.report.writers import write_report
+
+        hooks = ReportHooks(render=render_figures, write=write_report)
     options = BatchOptions(
         files=tuple(args.files),
         settings=ReviewSettings(
@@ -131,6 +137,7 @@ def run(args: argparse.Namespace) -> int:
         exclude=tuple(args.exclude),
         cache=None if args.no_cache else str(args.cache or default_cache_dir()),
         cluster=args.cluster,
+        report_hooks=hooks,
     )
     return exit_status(run_batch(options))
 

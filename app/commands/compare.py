@@ -88,7 +88,7 @@ def run(args: argparse.Namespace) -> int:
 
 
 def _created() -> str:
-    from app.report.writers import now_stamp
+    from app.review.result import now_stamp
 
     return now_stamp()
 

@@ -5,10 +5,9 @@ from __future__ import annotations
 import base64
 import os
 from collections.abc import Sequence
-from datetime import UTC, datetime
 from pathlib import Path
 
-from app.review.result import FileReview
+from app.review.result import FileReview, now_stamp
 from geometry import __version__
 from geometry.errors import BattenError
 from geometry.io.files import pdf_complete, write_atomically
@@ -145,7 +144,3 @@ def write_report(
         inputs=inputs,
         verify=pdf_complete,
     )
-
-
-def now_stamp() -> str:
-    return datetime.now(UTC).strftime("%Y-%m-%d %H:%M UTC")

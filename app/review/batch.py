@@ -4,6 +4,10 @@ Models are read where they are checked (the kernel's objects do not pickle);
 what comes back is the plain :class:`FileReview` and the PNG bytes of its
 pictures. Results of unchanged files come from the cache (:mod:`.cache`).
 Progress goes to stderr (:mod:`.progress`); the final table to stdout.
+
+This layer sits below the report (DEVELOPERS.md, Layers): the command that runs
+a check hands in how pictures are drawn and the report is written
+(:class:`ReportHooks`).
 """
 
 from __future__ import annotations
@@ -31,11 +35,28 @@ from .cache import ResultCache, cache_key
 from .discover import discover
 from .junit import SuiteRun, junit_text
 from .progress import Progress, say, silent
-from .result import ERROR, UNREADABLE, FileReview, check_document
+from .result import ERROR, UNREADABLE, FileReview, check_document, now_stamp
 from .runner import ReviewSettings, file_sha256, review_file
 from .table import verdict_table
 
 OUTPUT_SUFFIXES = {"report": (".pdf", ".html", ".htm"), "json": (".json",), "junit": (".xml",)}
+
+
+@dataclass(frozen=True)
+class ReportHooks:
+    """How a check draws its pictures and writes its report, given by the command layer.
+
+    Attributes
+    ----------
+    render : callable
+        ``render(model, review) -> tuple of Figure``; a module-level function, so that it
+        reaches worker processes and cluster workers by name.
+    write : callable
+        ``write(path, reviews, figures, created, inputs=...)``, figures one tuple per review.
+    """
+
+    render: Callable
+    write: Callable
 
 
 @dataclass(frozen=True)
@@ -53,13 +74,14 @@ class BatchOptions:
     exclude: tuple[str, ...] = ()
     cache: str | None = None
     cluster: str | None = None
+    report_hooks: ReportHooks | None = None
 
 
 Outcome = tuple[FileReview, tuple, float]  # review, figures, seconds spent
 
 
-def check_one(path: str, settings: ReviewSettings, pictures: bool, progress: bool):
-    """Review one file and render its pictures (runs in a worker process).
+def check_one(path: str, settings: ReviewSettings, pictures: Callable | None, progress: bool):
+    """Review one file and render its pictures with ``pictures(model, review)`` (runs in a worker process).
 
     Returns
     -------
@@ -77,16 +99,14 @@ def check_one(path: str, settings: ReviewSettings, pictures: bool, progress: boo
     if pictures and model is not None:
         say_stage(f"{Path(path).name}: pictures")
         try:
-            from app.report.figures import render_figures
-
-            figures = render_figures(model, review)
+            figures = pictures(model, review)
         except Exception as exc:  # the numbers stand without pictures; say why they are missing
             note = f"pictures not rendered ({type(exc).__name__}: {exc})"
             review = replace(review, warnings=(*review.warnings, note))
     return review, figures
 
 
-def timed_check(path: str, settings: ReviewSettings, pictures: bool, progress: bool) -> Outcome:
+def timed_check(path: str, settings: ReviewSettings, pictures: Callable | None, progress: bool) -> Outcome:
     """:func:`check_one` and the seconds it took (runs in a worker process or on a cluster worker)."""
     start = time.perf_counter()
     review, figures = check_one(path, settings, pictures, progress)
@@ -107,6 +127,8 @@ def _check_outputs(options: BatchOptions) -> None:
         if Path(target).suffix.lower() not in OUTPUT_SUFFIXES[kind]:
             raise BattenError(f"{target}: --{kind} must end in {' or '.join(OUTPUT_SUFFIXES[kind])}")
         check_writable(target, inputs=_inputs(options))
+    if options.report and options.report_hooks is None:
+        raise BattenError(f"{options.report}: this check was started without a report writer")
     if options.report and options.json and os.path.abspath(options.report) == os.path.abspath(options.json):
         raise BattenError(f"{options.json}: --json and --report name the same file")
 
@@ -202,7 +224,7 @@ def _cache_keys(files: list[str], options: BatchOptions, profile_values: dict) -
 
 
 def _check_all(files: list[str], options: BatchOptions, profile_values: dict, write) -> tuple[list, list[SuiteRun]]:
-    pictures = options.report is not None
+    pictures = options.report_hooks.render if options.report else None
     outcomes: list = [None] * len(files)
     runs = [SuiteRun()] * len(files)
     progress = Progress(len(files), options.progress)
@@ -210,7 +232,7 @@ def _check_all(files: list[str], options: BatchOptions, profile_values: dict, wr
     keys = _cache_keys(files, options, profile_values) if cache else [None] * len(files)
     try:
         for index, key in enumerate(keys):
-            hit = cache.load(key[1], files[index], pictures) if key else None
+            hit = cache.load(key[1], files[index], pictures is not None) if key else None
             if hit is not None:
                 outcomes[index] = (hit.review, hit.figures)
                 runs[index] = SuiteRun(0.0, cached=True)
@@ -250,7 +272,6 @@ def run_batch(options: BatchOptions) -> list[str]:
         (checked before any work starts).
     """
     from app.profiles import get_profile
-    from app.report.writers import now_stamp
     from geometry.io.files import write_atomically
 
     from .spec import parse_spec
@@ -273,10 +294,8 @@ def run_batch(options: BatchOptions) -> list[str]:
         write_atomically(options.junit, junit_text(reviews, runs, started, __version__), inputs=inputs)
         say_done(f"wrote {options.junit}")
     if options.report:
-        from app.report.writers import write_report
-
         say_done(f"writing {options.report}")
-        write_report(options.report, reviews, [f for _, f in outcomes], created, inputs=inputs)
+        options.report_hooks.write(options.report, reviews, [f for _, f in outcomes], created, inputs=inputs)
         say_done(f"wrote {options.report}")
     print(verdict_table(reviews, [r.cached for r in runs]), end="")
     return [r.verdict for r in reviews]

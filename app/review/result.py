@@ -8,9 +8,16 @@ The JSON layout is documented by ``app/report/check_schema.json``; bump
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from datetime import UTC, datetime
 from enum import StrEnum
 
 from .faces import FaceSummary
+
+
+def now_stamp() -> str:
+    """The time a result or report is created, as written in the JSON and the report (UTC, minutes)."""
+    return datetime.now(UTC).strftime("%Y-%m-%d %H:%M UTC")
+
 
 SCHEMA_ID = "batten-check"
 SCHEMA_VERSION = "1.1"  # 1.1: tooling (draft, undercut, cutter reach), faces accounted for
