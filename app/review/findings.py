@@ -11,17 +11,19 @@ marked, not judged.
 
 from __future__ import annotations
 
+import math
+
 from app.profiles import Profile
 
 from .result import FAIL, PASS, Finding, Kind
+from .seam_entries import SeamEntry
 
-# seam measure -> (key of the worst value, unit, profile key of the limit, class it decides)
+# seam measure -> (refined maximum it reads, unit, profile key of the limit, class it decides)
 SEAM_MEASURES = (
-    ("gap", "gap_max", "mm", "position_mm", "G0"),
-    ("angle", "angle_max_deg", "deg", "tangent_deg", "G1"),
-    ("curvature jump", "curvature_jump_rel_max", "fraction", "curvature_relative", "G2"),
+    ("gap", "gap", "mm", "position_mm", "G0"),
+    ("angle", "angle", "deg", "tangent_deg", "G1"),
+    ("curvature jump", "curvature_jump_rel", "fraction", "curvature_relative", "G2"),
 )
-_WORST_KEYS = {"gap_max": "gap", "angle_max_deg": "angle", "curvature_jump_rel_max": "curvature_jump_rel"}
 _CLASS_RANK = {"G0": 0, "G1": 1, "G2": 2, "G3": 3}
 INFLECTION_LIMIT_KEY = "section_inflections_max"
 
@@ -39,21 +41,21 @@ def worst_first(found: list[Finding]) -> tuple[Finding, ...]:
     return tuple(sorted(found, key=lambda f: (f.verdict != FAIL, -_ratio(f))))
 
 
-def seam_finding(seam: dict, profile: Profile) -> Finding:
-    """The deciding measure of one seam (its ``as_dict`` form)."""
-    required = "G0" if seam.get("crease") else str(profile.values.get("required", "G2"))
+def seam_finding(seam: SeamEntry, profile: Profile) -> Finding:
+    """The deciding measure of one seam."""
+    result = seam.result
+    required = "G0" if result.crease else str(profile.values.get("required", "G2"))
     candidates = []
     for measure, key, unit, limit_key, decides in SEAM_MEASURES:
-        value, limit = seam.get(key), profile.limit(limit_key)
-        if value is None or limit is None or _CLASS_RANK[decides] > _CLASS_RANK.get(required, 2):
+        worst, limit = result.worst.get(key), profile.limit(limit_key)
+        if worst is None or not math.isfinite(worst.value) or limit is None:
             continue
-        where = (seam.get("worst") or {}).get(_WORST_KEYS[key], {}).get("xyz")
-        candidates.append(
-            Finding(Kind.SEAM, "", measure, float(value), limit, unit, PASS, None if where is None else tuple(where))
-        )
+        if _CLASS_RANK[decides] > _CLASS_RANK.get(required, 2):
+            continue
+        where = tuple(float(x) for x in worst.xyz)
+        candidates.append(Finding(Kind.SEAM, "", measure, float(worst.value), limit, unit, PASS, where))
     best = max(candidates, key=_ratio) if candidates else Finding(Kind.SEAM, "", "continuity", 0.0, None, "", PASS)
-    names = seam.get("face_names") or [str(f) for f in seam.get("faces", ())]
-    subject = f"seam {seam.get('id', '?')}: {' / '.join(names)} ({seam.get('continuity', '?')}, needs {required})"
+    subject = f"seam {seam.id}: {' / '.join(seam.face_names)} ({result.continuity}, needs {required})"
     return Finding(
         Kind.SEAM,
         subject,
@@ -61,9 +63,9 @@ def seam_finding(seam: dict, profile: Profile) -> Finding:
         best.value,
         best.limit,
         best.unit,
-        FAIL if seam.get("verdict") == FAIL else PASS,
+        FAIL if result.verdict == FAIL else PASS,
         best.where,
-        {"seam": seam.get("id")},
+        {"seam": seam.id},
     )
 
 
@@ -124,10 +126,18 @@ def _face_finding(face, subject: str) -> Finding:
     return Finding(Kind.FACE, subject, "valid samples", 0.0, None, "samples", FAIL, None, {"face": face})
 
 
-def collect(seams, free_edges, sections, profile: Profile, faces=(), skipped=()) -> tuple[Finding, ...]:
+def collect(seams, sections, profile: Profile, faces=(), skipped=()) -> tuple[Finding, ...]:
     """All findings of a review, those over tolerance first, worst (value / limit) first.
 
-    ``faces`` are face summaries, ``skipped`` as :func:`face_findings` takes it.
+    Parameters
+    ----------
+    seams : sequence of SeamEntry
+    sections : sequence of dict
+        The sections' JSON form (:func:`app.review.section_entries.cut_sections`).
+    profile : Profile
+    faces : sequence of FaceSummary
+    skipped : sequence of geometry.model.SkippedFace
+        As :func:`face_findings` takes it.
     """
     found = face_findings(unevaluable_faces(faces), skipped)
     found += [seam_finding(s, profile) for s in seams]

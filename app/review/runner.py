@@ -113,7 +113,7 @@ def review_model(model: Model, settings: ReviewSettings = ReviewSettings(), prog
         progress(f"{name}: tooling checks" + (f" (pull {', '.join(f'{c:g}' for c in pull)})" if pull else ""))
     tooling = tooling_entry(model, run_tooling(model, profile, settings.pull), pull_source)
     found = findings.worst_first(
-        [*findings.collect(seams, free_edges, sections, profile, faces, model.skipped), *tooling_findings(tooling)]
+        [*findings.collect(seams, sections, profile, faces, model.skipped), *tooling_findings(tooling)]
     )
     review = FileReview(
         source=model.source,
@@ -124,8 +124,8 @@ def review_model(model: Model, settings: ReviewSettings = ReviewSettings(), prog
         profile=profile.values,
         sections_spec=settings.sections,
         faces=faces,
-        seams=seams,
-        free_edges=free_edges,
+        seams=tuple(s.as_dict() for s in seams),  # the JSON form: a FileReview is written and cached
+        free_edges=tuple(e.as_dict() for e in free_edges),
         sections=sections,
         findings=found,
         warnings=(*model.warnings, *seam_warnings),

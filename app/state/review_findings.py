@@ -21,7 +21,7 @@ from app.profiles import Profile
 from app.review import findings as review
 from app.review.faces import curvature_range, unevaluable_reason
 from app.review.result import Kind, Verdict
-from app.review.seam_entries import seams_and_free_edges
+from app.review.seam_entries import FreeEdgeEntry, SeamEntry, seams_and_free_edges
 from app.review.section_entries import curve_entry
 from geometry.model import Model
 from geometry.sections import SectionCurve
@@ -37,13 +37,13 @@ def face_label(model: Model, index: int) -> str:
 
 @dataclass(frozen=True, eq=False)
 class SeamReview:
-    """Seams and free edges of a model measured against one profile (the check's plain dicts).
+    """Seams and free edges of a model measured against one profile (the check's own entries).
 
     Attributes
     ----------
     profile : Profile
-    seams, free_edges : tuple of dict
-        As :func:`app.review.seam_entries.seams_and_free_edges` gives them.
+    seams : tuple of app.review.seam_entries.SeamEntry
+    free_edges : tuple of app.review.seam_entries.FreeEdgeEntry
     lines : tuple of app.review.seam_entries.Line
         Seams first (in ``seams`` order), then free edges.
     views : tuple of SeamView
@@ -51,8 +51,8 @@ class SeamReview:
     """
 
     profile: Profile
-    seams: tuple[dict, ...]
-    free_edges: tuple[dict, ...]
+    seams: tuple[SeamEntry, ...]
+    free_edges: tuple[FreeEdgeEntry, ...]
     lines: tuple
     views: tuple[SeamView, ...]
 
@@ -65,10 +65,10 @@ def review_seams(model: Model, profile: Profile, progress=None) -> SeamReview:
     seams, free, lines, _ = seams_and_free_edges(model, profile, progress)
     views = []
     for seam, line in zip(seams, lines[: len(seams)], strict=True):
-        label = f"seam {' / '.join(seam['face_names'])}: {seam['continuity']}, {seam['verdict']}"
-        views.append(SeamView(np.asarray(line.points, float), seam["verdict"], label))
+        label = f"seam {' / '.join(seam.face_names)}: {seam.result.continuity}, {seam.result.verdict}"
+        views.append(SeamView(np.asarray(line.points, float), seam.result.verdict, label))
     for edge, line in zip(free, lines[len(seams) :], strict=True):
-        views.append(SeamView(np.asarray(line.points, float), "free", f"free edge of {edge['face_name']}"))
+        views.append(SeamView(np.asarray(line.points, float), "free", f"free edge of {edge.face_name}"))
     return SeamReview(profile, tuple(seams), tuple(free), tuple(lines), tuple(views))
 
 
@@ -120,23 +120,23 @@ def judged_findings(
     where : tuple of (plane, curve) pairs, one per curve
     profile : Profile
     """
-    seam_dicts = seams.seams if seams is not None else ()
+    seam_entries = seams.seams if seams is not None else ()
     free = seams.free_edges if seams is not None else ()
     flat = {pair: n for n, pair in enumerate(where)}
     found = []
-    for f in review.collect(seam_dicts, free, section_entries(curves, where), profile):
+    for f in review.collect(seam_entries, section_entries(curves, where), profile):
         position = None if f.where is None else np.asarray(f.where, float)
         detail = f"{_measured(f)}; profile {profile.name}"
         if f.kind == Kind.SEAM and "seam" in f.ref:
-            seam = seam_dicts[f.ref["seam"]]
-            names = " / ".join(seam["face_names"])
-            crease = ", designed crease" if seam.get("crease") else ""
-            title = f"seam {names}: {seam['continuity']}{crease}"
-            reasons = "; ".join(seam.get("reasons", ()))
+            seam = seam_entries[f.ref["seam"]].result
+            names = " / ".join(seam_entries[f.ref["seam"]].face_names)
+            crease = ", designed crease" if seam.crease else ""
+            title = f"seam {names}: {seam.continuity}{crease}"
+            reasons = "; ".join(seam.reasons)
             detail += f" ({reasons})" if reasons else ""
             path = np.asarray(seams.lines[f.ref["seam"]].points, float)
-            position = np.asarray(seam["worst_position"], float) if position is None else position
-            extent = max(float(seam["length"]) / 4, 1.0)
+            position = np.asarray(seam.worst_position, float) if position is None else position
+            extent = max(seam.length / 4, 1.0)
         elif f.kind == Kind.INFLECTION and (f.ref.get("section"), f.ref.get("curve")) in flat:
             curve = curves[flat[f.ref["section"], f.ref["curve"]]]
             count = int(f.value)
@@ -148,10 +148,10 @@ def judged_findings(
             title, path, extent = f"{f.subject}: {_measured(f)}", np.zeros((0, 3)), 10.0
             position = np.zeros(3) if position is None else position
         found.append(FindingEntry(f.kind, title, f.verdict, position, extent, detail, path))
-    for edge, line in zip(free, seams.lines[len(seam_dicts) :] if seams else (), strict=True):
+    for edge, line in zip(free, seams.lines[len(seam_entries) :] if seams else (), strict=True):
         points = np.asarray(line.points, float)
-        title = f"free edge of {edge['face_name']}, {float(edge['length']):.1f} mm"
-        extent = max(float(edge["length"]) / 4, 1.0)
+        title = f"free edge of {edge.face_name}, {edge.length:.1f} mm"
+        extent = max(edge.length / 4, 1.0)
         found.append(FindingEntry(Kind.FREE_EDGE, title, Verdict.NOTE, points[len(points) // 2], extent, "", points))
     return found
 

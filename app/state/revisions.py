@@ -71,7 +71,7 @@ def finding_key(session, finding: FindingEntry) -> FindingKey | None:
         for seam, line in zip(review.seams, review.lines, strict=False):
             points = np.asarray(line.points, float)
             if points.shape == finding.path.shape and np.allclose(_midpoint(points), middle):
-                return FindingKey("seam", tuple(sorted(seam["face_names"])), tuple(float(x) for x in middle))
+                return FindingKey("seam", tuple(sorted(seam.face_names)), tuple(float(x) for x in middle))
     if finding.kind == "inflection":
         for curve in session.sections:
             if curve.points.shape == finding.path.shape and np.allclose(curve.points, finding.path):
@@ -230,11 +230,11 @@ def judged_value(session, key: FindingKey) -> tuple[str, float | None]:
     seams = loaded.seam_review
     entries = section_entries(session.sections, session.section_places)
     flat = {pair: n for n, pair in enumerate(session.section_places)}
-    for f in review.collect(seams.seams, seams.free_edges, entries, session.profile):
+    for f in review.collect(seams.seams, entries, session.profile):
         if f.kind == "seam" and key.kind == "seam":
             seam = seams.seams[f.ref["seam"]]
             here = midpoint(seams.lines[f.ref["seam"]].points)
-            same_faces = tuple(sorted(seam["face_names"])) == key.faces
+            same_faces = tuple(sorted(seam.face_names)) == key.faces
             if same_faces and key.distance(FindingKey("seam", key.faces, here)) < 1e-6:
                 return f.measure, f.value
         elif f.kind == "inflection" and key.kind == "inflection":

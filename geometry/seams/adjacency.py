@@ -125,6 +125,15 @@ class FreeEdge:
         object.__setattr__(self, "points", _frozen(self.points, (3,)))
         object.__setattr__(self, "length", float(self.length))
 
+    def as_dict(self) -> dict:
+        """Plain data for JSON (the ``free_edges`` entries of ``batten check``)."""
+        return {
+            "face": self.face,
+            "length": self.length,
+            "start": [float(x) for x in self.points[0]],
+            "end": [float(x) for x in self.points[-1]],
+        }
+
 
 @dataclass(frozen=True, eq=False)
 class Adjacency:

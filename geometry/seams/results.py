@@ -206,15 +206,7 @@ class SeamReport:
             "profile": self.tolerance.as_dict(),
             "search_distance_mm": self.search_distance,
             "seams": [s.as_dict() for s in self.seams],
-            "free_edges": [
-                {
-                    "face": e.face,
-                    "length": e.length,
-                    "start": [float(x) for x in e.points[0]],
-                    "end": [float(x) for x in e.points[-1]],
-                }
-                for e in self.free_edges
-            ],
+            "free_edges": [e.as_dict() for e in self.free_edges],
             "warnings": list(self.warnings),
             "summary": {
                 "seams": len(self.seams),
