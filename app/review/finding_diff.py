@@ -84,8 +84,9 @@ def measured_as(review: FileReview, finding: Finding, measure: str) -> float | N
     seam = finding.ref.get("seam") if finding.kind == "seam" else None
     if seam is None or not 0 <= seam < len(review.seams):
         return None
-    keys = {m: key for m, key, *_ in SEAM_MEASURES}
-    value = review.seams[seam].get(keys.get(measure, ""))
+    keys = {m: key for m, key, *_ in SEAM_MEASURES}  # measure -> its refined maximum in the JSON's "worst"
+    worst = (review.seams[seam].get("worst") or {}).get(keys.get(measure, "")) or {}
+    value = worst.get("value")
     return None if value is None else float(value)
 
 
