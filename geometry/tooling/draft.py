@@ -14,17 +14,16 @@ map of the same grid.
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, fields
 
+import numba as nb
 import numpy as np
 
 from ..errors import BattenError
-from ..nurbs.compiled_eval import basis_rows, grid_derivatives_kernel, run_row_blocks
+from ..nurbs.compiled_eval import JIT_OPTIONS, basis_rows, contract_row, run_row_blocks
 from ..nurbs.differential import DEGENERATE_SINE, LIMIT_NUDGE, area_floor
 from ..nurbs.surface import NurbsSurface
-
-# Samples per block of rows: temporaries stay in cache.
-_CHUNK_POINTS = 1 << 15
 
 # Classes of a sample (see :func:`draft_classes`).
 RELEASE_MINUS, INSUFFICIENT, RELEASE_PLUS = -1, 0, 1
@@ -150,6 +149,77 @@ def _normals_block(ders: np.ndarray, sign: float, floor: float):
     return normals, np.where(valid, norm, 0.0), valid
 
 
+# Fused multiply-adds, as in the curvature kernel (rounding never worse than separate steps).
+_FUSED = {**JIT_OPTIONS, "fastmath": {"contract"}}
+
+
+@nb.njit(**_FUSED)
+def _draft_kernel(
+    net, nv, p, q, bu, span_u, bv, span_v, rows, sign, sine2, floor2, pull, points, normals, area, valid, draft
+):
+    """Point, outward unit normal, |Su x Sv|, validity and draft on grid rows ``rows[0]:rows[1]``.
+
+    ``net`` (nu * nv, 4) homogeneous poles; ``bu`` (a, >= 2, p+1), ``bv`` (b, >= 2, q+1)
+    basis derivatives with spans; outputs flat with sample (i, j) at ``i * b + j``:
+    ``points``, ``normals`` (a * b, 3), ``area`` (a * b,) (|Su x Sv|, zero where
+    degenerate), ``valid`` (a * b,), ``draft`` (a * b,) in degrees against the unit ``pull``
+    (3,) as :func:`draft_angles` computes it; normals and draft are NaN where degenerate.
+    """
+    b_count = bv.shape[0]
+    row = np.zeros((2, nv, 4))
+    # homogeneous A00, A10 (d/du), A01 (d/dv): The NURBS Book eq. 3.17 differentiated
+    h00 = np.zeros(4)
+    h10 = np.zeros(4)
+    h01 = np.zeros(4)
+    for i in range(rows[0], rows[1]):
+        contract_row(net, nv, p, bu[i], span_u[i], 2, row)
+        for j in range(b_count):
+            t = span_v[j] - q
+            for c in range(4):
+                h00[c] = h10[c] = h01[c] = 0.0
+            for ib in range(q + 1):
+                c0 = bv[j, 0, ib]
+                c1 = bv[j, 1, ib]
+                for c in range(4):
+                    h00[c] += c0 * row[0, t + ib, c]
+                    h10[c] += c0 * row[1, t + ib, c]
+                    h01[c] += c1 * row[0, t + ib, c]
+            inv_w = 1.0 / h00[3]
+            k = i * b_count + j
+            px, py, pz = h00[0] * inv_w, h00[1] * inv_w, h00[2] * inv_w
+            # quotient rule (eq. 4.20): S_u = (A_u - w_u S) / w
+            ux = (h10[0] - h10[3] * px) * inv_w
+            uy = (h10[1] - h10[3] * py) * inv_w
+            uz = (h10[2] - h10[3] * pz) * inv_w
+            vx = (h01[0] - h01[3] * px) * inv_w
+            vy = (h01[1] - h01[3] * py) * inv_w
+            vz = (h01[2] - h01[3] * pz) * inv_w
+            nx = uy * vz - uz * vy
+            ny = uz * vx - ux * vz
+            nz = ux * vy - uy * vx
+            size2 = nx * nx + ny * ny + nz * nz
+            lengths2 = (ux * ux + uy * uy + uz * uz) * (vx * vx + vy * vy + vz * vz)
+            ok = size2 > sine2 * lengths2 and size2 > floor2
+            points[k, 0], points[k, 1], points[k, 2] = px, py, pz
+            valid[k] = ok
+            if ok:
+                size = math.sqrt(size2)
+                scale = sign / size
+                nx, ny, nz = nx * scale, ny * scale, nz * scale
+                normals[k, 0], normals[k, 1], normals[k, 2] = nx, ny, nz
+                area[k] = size
+                # draft = atan2(n . d, |n x d|), as draft_angles
+                sine = nx * pull[0] + ny * pull[1] + nz * pull[2]
+                cx = ny * pull[2] - nz * pull[1]
+                cy = nz * pull[0] - nx * pull[2]
+                cz = nx * pull[1] - ny * pull[0]
+                draft[k] = math.degrees(math.atan2(sine, math.sqrt(cx * cx + cy * cy + cz * cz)))
+            else:
+                normals[k, 0] = normals[k, 1] = normals[k, 2] = math.nan
+                area[k] = 0.0
+                draft[k] = math.nan
+
+
 def _limit_normals(surface: NurbsSurface, u: np.ndarray, v: np.ndarray, sign: float, floor: float) -> np.ndarray:
     """Normals at degenerate samples as the limit from a parameter nudged inwards, shape (k, 3)."""
     (u0, u1), (v0, v1) = surface.domain
@@ -184,11 +254,11 @@ def draft_on_grid(
 
     Notes
     -----
-    First derivatives on the compiled grid core
-    (:func:`geometry.nurbs.compiled_eval.grid_derivatives_kernel`: each grid row
-    contracted with the homogeneous net once, The NURBS Book, 2nd ed., A3.6, and
-    the rational quotient rule, eq. 4.20), in row blocks on threads; then
-    ``n = Su x Sv / |Su x Sv|`` and ``draft = asin(n . d)`` per block.
+    One compiled pass over the grid (:func:`_draft_kernel`, in row blocks on
+    threads): each grid row contracted with the homogeneous net once
+    (:func:`geometry.nurbs.compiled_eval.contract_row`, The NURBS Book, 2nd ed.,
+    A3.6), first derivatives by the quotient rule (eq. 4.20), then
+    ``n = Su x Sv / |Su x Sv|``; ``draft = asin(n . d)`` (:func:`draft_angles`).
     """
     d = unit_pull(pull)
     u, v = surface.clip_to_domain(np.ravel(u), np.ravel(v))
@@ -198,27 +268,26 @@ def draft_on_grid(
     nu, nv = surface.shape
     bu, span_u = basis_rows(surface.knots_u, surface.degree_u, nu, u, 1)
     bv, span_v = basis_rows(surface.knots_v, surface.degree_v, nv, v, 1)
-    points = np.empty((a, b, 3))
-    normals = np.empty((a, b, 3))
-    jacobian = np.empty((a, b))
-    valid = np.empty((a, b), dtype=bool)
+    points = np.empty((a * b, 3))
+    normals = np.empty((a * b, 3))
+    jacobian = np.empty(a * b)
+    valid = np.empty(a * b, dtype=bool)
+    draft = np.empty(a * b)
+    net = surface.pack.net
 
     def work(r0: int, r1: int) -> None:
-        ders = np.zeros((2, 2, r1 - r0, b, 3))
-        grid_derivatives_kernel(
-            surface.pack.net, nv, surface.degree_u, surface.degree_v, bu[r0:r1], span_u[r0:r1], bv, span_v, 1, ders
-        )
-        n, size, ok = _normals_block(ders.reshape(2, 2, -1, 3), sign, floor)
-        points[r0:r1] = ders[0, 0]
-        normals[r0:r1] = n.reshape(r1 - r0, b, 3)
-        jacobian[r0:r1] = size.reshape(r1 - r0, b)
-        valid[r0:r1] = ok.reshape(r1 - r0, b)
+        _draft_kernel(
+            net, nv, surface.degree_u, surface.degree_v, bu, span_u, bv, span_v, np.array([r0, r1]),
+            sign, DEGENERATE_SINE * DEGENERATE_SINE, floor * floor, d, points, normals, jacobian, valid, draft,
+        )  # fmt: skip
 
-    run_row_blocks(work, a, workers, max_rows=max(1, _CHUNK_POINTS // max(b, 1)))
+    run_row_blocks(work, a, workers)
+    points, normals = points.reshape(a, b, 3), normals.reshape(a, b, 3)
+    jacobian, valid, draft = jacobian.reshape(a, b), valid.reshape(a, b), draft.reshape(a, b)
     if not valid.all():
         bad = np.nonzero(~valid)
         normals[bad] = _limit_normals(surface, u[bad[0]], v[bad[1]], sign, floor)
-    draft = draft_angles(normals, d)
+        draft[bad] = draft_angles(normals[bad], d)
     area = jacobian * trapezoid_weights(u)[:, None] * trapezoid_weights(v)[None, :]
     return DraftField(points, normals, draft, area, valid)
 
