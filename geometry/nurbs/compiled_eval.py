@@ -412,14 +412,28 @@ def grid_derivatives(surface, u: np.ndarray, v: np.ndarray, order: int) -> np.nd
     ders : ndarray of shape (order + 1, order + 1, a, b, 3)
         Entries with k + l > order are zero.
     """
+    bu, span_u, bv, span_v = grid_basis(surface, u, v, order)
+    out = np.zeros((order + 1, order + 1, bu.shape[0], bv.shape[0], 3))
+    grid_derivatives_kernel(
+        surface.pack.net, surface.shape[1], surface.degree_u, surface.degree_v, bu, span_u, bv, span_v, int(order), out
+    )
+    return out
+
+
+def grid_basis(surface, u: np.ndarray, v: np.ndarray, order: int):
+    """Basis rows and spans of both directions of a grid u x v, what every grid kernel takes.
+
+    Returns
+    -------
+    bu : ndarray of shape (a, order + 1, degree_u + 1)
+    span_u : ndarray of int, shape (a,)
+    bv : ndarray of shape (b, order + 1, degree_v + 1)
+    span_v : ndarray of int, shape (b,)
+    """
     nu, nv = surface.shape
     bu, span_u = basis_rows(surface.knots_u, surface.degree_u, nu, u, order)
     bv, span_v = basis_rows(surface.knots_v, surface.degree_v, nv, v, order)
-    out = np.zeros((order + 1, order + 1, bu.shape[0], bv.shape[0], 3))
-    grid_derivatives_kernel(
-        surface.pack.net, nv, surface.degree_u, surface.degree_v, bu, span_u, bv, span_v, int(order), out
-    )
-    return out
+    return bu, span_u, bv, span_v
 
 
 def run_row_blocks(

@@ -22,7 +22,7 @@ from dataclasses import dataclass, fields
 import numpy as np
 
 from .compiled_curvature import OUTPUT_KEYS, UMBILIC_RELATIVE, empty_outputs, grid_kernel, scattered_kernel
-from .compiled_eval import basis_rows, run_row_blocks
+from .compiled_eval import grid_basis, run_row_blocks
 from .surface import NurbsSurface
 
 # A sample is degenerate when |Su x Sv| is this small against |Su| |Sv|: the
@@ -340,9 +340,8 @@ def curvature_on_grid(
     u, v = surface.clip_to_domain(np.ravel(u), np.ravel(v))
     a, b = u.size, v.size
     sign = -1.0 if reversed else 1.0
-    nu, nv = surface.shape
-    bu, span_u = basis_rows(surface.knots_u, surface.degree_u, nu, u, 2)
-    bv, span_v = basis_rows(surface.knots_v, surface.degree_v, nv, v, 2)
+    nv = surface.shape[1]
+    bu, span_u, bv, span_v = grid_basis(surface, u, v, 2)
     outs = empty_outputs(a * b)
     floor = area_floor(surface)
     net = surface.pack.net

@@ -21,7 +21,7 @@ import numba as nb
 import numpy as np
 
 from ..errors import BattenError
-from ..nurbs.compiled_eval import JIT_OPTIONS, basis_rows, contract_row, run_row_blocks
+from ..nurbs.compiled_eval import JIT_OPTIONS, contract_row, grid_basis, run_row_blocks
 from ..nurbs.differential import DEGENERATE_SINE, LIMIT_NUDGE, area_floor
 from ..nurbs.surface import NurbsSurface
 
@@ -265,9 +265,8 @@ def draft_on_grid(
     a, b = u.size, v.size
     sign = -1.0 if reversed else 1.0
     floor = area_floor(surface)
-    nu, nv = surface.shape
-    bu, span_u = basis_rows(surface.knots_u, surface.degree_u, nu, u, 1)
-    bv, span_v = basis_rows(surface.knots_v, surface.degree_v, nv, v, 1)
+    nv = surface.shape[1]
+    bu, span_u, bv, span_v = grid_basis(surface, u, v, 1)
     points = np.empty((a * b, 3))
     normals = np.empty((a * b, 3))
     jacobian = np.empty(a * b)
