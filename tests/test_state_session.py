@@ -285,17 +285,22 @@ def test_bad_profile_keeps_the_one_in_force(session, tmp_path):
 
 
 def test_review_settings_carry_the_profile_and_the_planes_on_screen(session):
-    from app.review import parse_spec
+    from app.review import parse_spec, spec_text
 
-    assert session.review_settings.sections == "none"  # section tool off
+    assert session.review_settings.sections == ()  # section tool off
+    assert spec_text(session.review_settings.sections) == "none"  # as the JSON names it
     session.set_profile("technical")
     session.set_section(enabled=True, normal=(0, 1, 0), count=3, spacing=10.0)
     settings = session.review_settings
     assert settings.profile == "technical"
-    items = parse_spec(settings.sections)
+    items = settings.sections  # typed, exactly the planes on screen (no text in between)
     assert len(items) == 3
     for item, (origin, normal) in zip(items, session.section.planes(), strict=True):
-        assert_allclose(item.values, [*origin, *normal], atol=1e-9)
+        assert item.kind == "plane"
+        assert item.values == (*map(float, origin), *map(float, normal))
+    # the JSON's SPEC names the same planes
+    for parsed, item in zip(parse_spec(spec_text(items)), items, strict=True):
+        assert_allclose(parsed.values, item.values, rtol=1e-11)
 
 
 def test_choosing_a_curve_for_the_graph_recomputes_nothing(session):

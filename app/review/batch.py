@@ -274,10 +274,10 @@ def run_batch(options: BatchOptions) -> list[str]:
     from app.profiles import get_profile
     from geometry.io.files import write_atomically
 
-    from .spec import parse_spec
+    from .spec import section_items
 
     _check_outputs(options)
-    parse_spec(options.settings.sections)
+    section_items(options.settings.sections)
     profile = get_profile(options.settings.profile)
     options.settings.review()  # a bad review file stops the run before any work, naming its line
     files = discover(options.files, options.exclude)

@@ -25,7 +25,7 @@ from .faces import summarise_faces
 from .result import UNREADABLE, FileReview
 from .seam_entries import seams_and_free_edges
 from .section_entries import cut_sections
-from .spec import DEFAULT_SPEC, parse_spec, planes_for
+from .spec import DEFAULT_SPEC, PlaneItem, planes_for, section_items, spec_text
 from .tooling_entries import pull_in_force, run_tooling, tooling_entry, tooling_findings
 
 Progress = Callable[[str], None]
@@ -40,8 +40,9 @@ class ReviewSettings:
     profile : str or None
         Name of a shipped tolerance profile or path of a TOML file; None for
         the default profile.
-    sections : str
-        A SPEC (see :mod:`app.review.spec`).
+    sections : str or tuple of PlaneItem
+        A SPEC (see :mod:`app.review.spec`; the command line), or typed plane
+        items (the window's planes, :func:`app.review.spec.plane_items`).
     pull : tuple of 3 float or None
         Pull direction for the tooling checks, overriding the profile's.
     review_text : str
@@ -55,7 +56,7 @@ class ReviewSettings:
     """
 
     profile: str | None = None
-    sections: str = DEFAULT_SPEC
+    sections: str | tuple[PlaneItem, ...] = DEFAULT_SPEC
     pull: tuple[float, float, float] | None = None
     review_text: str = ""
     review_source: str = ""
@@ -96,7 +97,7 @@ def review_model(model: Model, settings: ReviewSettings = ReviewSettings(), prog
     """
     name = Path(model.source).name or "model"
     profile = get_profile(settings.profile)
-    items = parse_spec(settings.sections)
+    items = section_items(settings.sections)
     progress(f"{name}: curvature of {len(model.faces)} faces")
     faces = summarise_faces(model)
     progress(f"{name}: seams and free edges")
@@ -122,7 +123,7 @@ def review_model(model: Model, settings: ReviewSettings = ReviewSettings(), prog
         units=model.units,
         source_units=model.source_units,
         profile=profile.values,
-        sections_spec=settings.sections,
+        sections_spec=spec_text(settings.sections),  # the JSON form
         faces=faces,
         seams=tuple(s.as_dict() for s in seams),  # the JSON form: a FileReview is written and cached
         free_edges=tuple(e.as_dict() for e in free_edges),

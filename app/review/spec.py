@@ -143,8 +143,50 @@ def planes_for(items: tuple[PlaneItem, ...], bounds: np.ndarray) -> tuple[Sectio
     return tuple(planes)
 
 
+def plane_items(planes) -> tuple[PlaneItem, ...]:
+    """The window's planes as typed items, exactly (no round trip through text).
+
+    Parameters
+    ----------
+    planes : iterable of (point, normal)
+        Each a sequence of 3 floats.
+
+    Returns
+    -------
+    tuple of PlaneItem
+        ``"plane"`` items; each ``text`` is the SPEC item naming it (for the JSON and the report).
+
+    Raises
+    ------
+    SpecError
+        For a value that is not finite or a zero normal.
+    """
+    items = []
+    for point, normal in planes:
+        values = tuple(float(c) for c in (*point, *normal))
+        text = "plane:" + ",".join(f"{c:.12g}" for c in values)
+        if len(values) != 6 or not all(np.isfinite(values)):
+            raise SpecError(f"sections: '{text}' needs six finite numbers: point x,y,z and normal x,y,z")
+        if np.linalg.norm(values[3:]) == 0:
+            raise SpecError(f"sections: '{text}' has a zero normal")
+        items.append(PlaneItem("plane", values=values, text=text))
+    return tuple(items)
+
+
+def section_items(sections: str | tuple[PlaneItem, ...]) -> tuple[PlaneItem, ...]:
+    """The items of a check's sections: a SPEC is parsed (command line); typed items pass as they are (window)."""
+    return parse_spec(sections) if isinstance(sections, str) else tuple(sections)
+
+
+def spec_text(sections: str | tuple[PlaneItem, ...]) -> str:
+    """The SPEC that names a check's sections (the ``sections_spec`` of the JSON), ``"none"`` for no plane."""
+    if isinstance(sections, str):
+        return sections
+    return ";".join(item.text for item in sections) or "none"
+
+
 def plane_spec(planes) -> str:
-    """A SPEC naming these planes exactly (for the window's section tool, scripts).
+    """A SPEC naming these planes (scripts; the window hands :func:`plane_items` instead).
 
     Parameters
     ----------
@@ -156,5 +198,4 @@ def plane_spec(planes) -> str:
     str
         ``"plane:...;plane:..."``, or ``"none"`` when there are no planes.
     """
-    items = ["plane:" + ",".join(f"{float(c):.12g}" for c in (*point, *normal)) for point, normal in planes]
-    return ";".join(items) or "none"
+    return spec_text(plane_items(planes))

@@ -14,7 +14,7 @@ from dataclasses import replace
 import numpy as np
 
 from app.profiles import Profile, get_profile
-from app.review import ReviewSettings, plane_spec
+from app.review import ReviewSettings, plane_items
 from app.review.result import Kind, Verdict
 from app.review.tooling_entries import run_tooling
 from geometry.model import Model
@@ -199,14 +199,14 @@ class Session:
         Returns
         -------
         app.review.ReviewSettings
-            The profile in force, the section planes on screen (``"none"``
-            when the section tool is off) and the draft view's pull (None when
+            The profile in force, the section planes on screen as typed items
+            (none when the section tool is off) and the draft view's pull (None when
             the draft view is not computed).
         """
         planes = self.section.planes() if self.section.enabled else []
         # the tooling checks go in when the draft view is computed, for the pull it shows
         pull = self.pull if self.tooling is not None else None
-        return ReviewSettings(profile=self.profile_choice, sections=plane_spec(planes), pull=pull)
+        return ReviewSettings(profile=self.profile_choice, sections=plane_items(planes), pull=pull)
 
     def forget_recent(self, path: str) -> None:
         self.recent.remove(path)
