@@ -186,16 +186,5 @@ def spec_text(sections: str | tuple[PlaneItem, ...]) -> str:
 
 
 def plane_spec(planes) -> str:
-    """A SPEC naming these planes (scripts; the window hands :func:`plane_items` instead).
-
-    Parameters
-    ----------
-    planes : iterable of (point, normal)
-        Each a sequence of 3 floats.
-
-    Returns
-    -------
-    str
-        ``"plane:...;plane:..."``, or ``"none"`` when there are no planes.
-    """
+    """``"plane:...;plane:..."`` naming the planes of :func:`plane_items`, ``"none"`` for none (scripts)."""
     return spec_text(plane_items(planes))
