@@ -167,33 +167,39 @@ def _draft_kernel(
     """
     b_count = bv.shape[0]
     row = np.zeros((2, nv, 4))
-    # homogeneous A00, A10 (d/du), A01 (d/dv): The NURBS Book eq. 3.17 differentiated
-    h00 = np.zeros(4)
-    h10 = np.zeros(4)
-    h01 = np.zeros(4)
     for i in range(rows[0], rows[1]):
         contract_row(net, nv, p, bu[i], span_u[i], 2, row)
         for j in range(b_count):
             t = span_v[j] - q
-            for c in range(4):
-                h00[c] = h10[c] = h01[c] = 0.0
+            # homogeneous A00, A10 (d/du), A01 (d/dv): The NURBS Book eq. 3.17 differentiated
+            a0 = a1 = a2 = a3 = u0 = u1 = u2 = u3 = v0 = v1 = v2 = v3 = 0.0
             for ib in range(q + 1):
                 c0 = bv[j, 0, ib]
                 c1 = bv[j, 1, ib]
-                for c in range(4):
-                    h00[c] += c0 * row[0, t + ib, c]
-                    h10[c] += c0 * row[1, t + ib, c]
-                    h01[c] += c1 * row[0, t + ib, c]
-            inv_w = 1.0 / h00[3]
+                r0 = row[0, t + ib]
+                r1 = row[1, t + ib]
+                a0 += c0 * r0[0]
+                a1 += c0 * r0[1]
+                a2 += c0 * r0[2]
+                a3 += c0 * r0[3]
+                u0 += c0 * r1[0]
+                u1 += c0 * r1[1]
+                u2 += c0 * r1[2]
+                u3 += c0 * r1[3]
+                v0 += c1 * r0[0]
+                v1 += c1 * r0[1]
+                v2 += c1 * r0[2]
+                v3 += c1 * r0[3]
+            inv_w = 1.0 / a3
             k = i * b_count + j
-            px, py, pz = h00[0] * inv_w, h00[1] * inv_w, h00[2] * inv_w
+            px, py, pz = a0 * inv_w, a1 * inv_w, a2 * inv_w
             # quotient rule (eq. 4.20): S_u = (A_u - w_u S) / w
-            ux = (h10[0] - h10[3] * px) * inv_w
-            uy = (h10[1] - h10[3] * py) * inv_w
-            uz = (h10[2] - h10[3] * pz) * inv_w
-            vx = (h01[0] - h01[3] * px) * inv_w
-            vy = (h01[1] - h01[3] * py) * inv_w
-            vz = (h01[2] - h01[3] * pz) * inv_w
+            ux = (u0 - u3 * px) * inv_w
+            uy = (u1 - u3 * py) * inv_w
+            uz = (u2 - u3 * pz) * inv_w
+            vx = (v0 - v3 * px) * inv_w
+            vy = (v1 - v3 * py) * inv_w
+            vz = (v2 - v3 * pz) * inv_w
             nx = uy * vz - uz * vy
             ny = uz * vx - ux * vz
             nz = ux * vy - uy * vx
