@@ -260,6 +260,7 @@ def test_a_profile_limit_on_inflections_fails_the_curve_as_the_check_does(sessio
 
     from app.profiles import get_profile
     from app.review import findings as review
+    from app.review.section_entries import CutSections
     from app.state import session as session_module
 
     strict = replace(get_profile("class-a"), section_inflections_max=0)
@@ -271,7 +272,8 @@ def test_a_profile_limit_on_inflections_fails_the_curve_as_the_check_does(sessio
         "section 1, curve 1: 1 inflection, limit 0",
         "section 2, curve 1: 1 inflection, limit 0",
     ]
-    sections = [{"label": str(i + 1), "curves": [c.to_json()]} for i, c in enumerate(session.sections)]
+    places = tuple((i, 0) for i in range(len(session.sections)))
+    sections = CutSections(tuple(str(i + 1) for i in range(len(places))), tuple(session.sections), places)
     assert [f.verdict for f in review.inflection_findings(sections, strict)] == ["fail", "fail"]
 
 

@@ -17,6 +17,7 @@ from app.profiles import Profile
 
 from .result import FAIL, PASS, Finding, Kind
 from .seam_entries import SeamEntry
+from .section_entries import CutSections
 
 # seam measure -> (refined maximum it reads, unit, profile key of the limit, class it decides)
 SEAM_MEASURES = (
@@ -69,29 +70,28 @@ def seam_finding(seam: SeamEntry, profile: Profile) -> Finding:
     )
 
 
-def inflection_findings(sections, profile: Profile) -> list[Finding]:
+def inflection_findings(sections: CutSections, profile: Profile) -> list[Finding]:
+    """One finding per section curve where the profile limits inflections per section."""
     limit = profile.limit(INFLECTION_LIMIT_KEY)
     if limit is None:
         return []
     found = []
-    for si, section in enumerate(sections):
-        for ci, curve in enumerate(section.get("curves", ())):
-            points = curve.get("inflections", ())
-            where = tuple(points[0]["point"]) if points else None
-            verdict = FAIL if len(points) > limit else PASS
-            found.append(
-                Finding(
-                    Kind.INFLECTION,
-                    f"section {section.get('label', si)}, curve {ci + 1}",
-                    "inflections",
-                    float(len(points)),
-                    limit,
-                    "count",
-                    verdict,
-                    where,
-                    {"section": si, "curve": ci},
-                )
+    for curve, (si, ci) in zip(sections.curves, sections.places, strict=True):
+        points = curve.inflections.points
+        where = tuple(float(x) for x in points[0]) if len(points) else None
+        found.append(
+            Finding(
+                Kind.INFLECTION,
+                f"section {sections.labels[si]}, curve {ci + 1}",
+                "inflections",
+                float(len(points)),
+                limit,
+                "count",
+                FAIL if len(points) > limit else PASS,
+                where,
+                {"section": si, "curve": ci},
             )
+        )
     return found
 
 
@@ -126,14 +126,13 @@ def _face_finding(face, subject: str) -> Finding:
     return Finding(Kind.FACE, subject, "valid samples", 0.0, None, "samples", FAIL, None, {"face": face})
 
 
-def collect(seams, sections, profile: Profile, faces=(), skipped=()) -> tuple[Finding, ...]:
+def collect(seams, sections: CutSections, profile: Profile, faces=(), skipped=()) -> tuple[Finding, ...]:
     """All findings of a review, those over tolerance first, worst (value / limit) first.
 
     Parameters
     ----------
     seams : sequence of SeamEntry
-    sections : sequence of dict
-        The sections' JSON form (:func:`app.review.section_entries.cut_sections`).
+    sections : CutSections
     profile : Profile
     faces : sequence of FaceSummary
     skipped : sequence of geometry.model.SkippedFace

@@ -24,7 +24,7 @@ from .dispositions import apply_review
 from .faces import summarise_faces
 from .result import UNREADABLE, FileReview
 from .seam_entries import seams_and_free_edges
-from .section_entries import cut_sections
+from .section_entries import CutSections, cut_sections
 from .spec import DEFAULT_SPEC, PlaneItem, planes_for, section_items, spec_text
 from .tooling_entries import pull_in_force, run_tooling, tooling_entry, tooling_findings
 
@@ -113,8 +113,9 @@ def review_model(model: Model, settings: ReviewSettings = ReviewSettings(), prog
     if pull is not None or profile.limit("cutter_radius_mm") is not None:
         progress(f"{name}: tooling checks" + (f" (pull {', '.join(f'{c:g}' for c in pull)})" if pull else ""))
     tooling = tooling_entry(model, run_tooling(model, profile, settings.pull), pull_source)
+    cut = CutSections(tuple(s["label"] for s in sections), curves, places)
     found = findings.worst_first(
-        [*findings.collect(seams, sections, profile, faces, model.skipped), *tooling_findings(tooling)]
+        [*findings.collect(seams, cut, profile, faces, model.skipped), *tooling_findings(tooling)]
     )
     review = FileReview(
         source=model.source,

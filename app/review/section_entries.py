@@ -1,6 +1,8 @@
-"""Plane sections of a model as the check's plain dicts, and their exact curves for the pictures."""
+"""Plane sections of a model: typed curves for the findings and the pictures, plain dicts for the JSON."""
 
 from __future__ import annotations
+
+from dataclasses import dataclass
 
 import numpy as np
 
@@ -8,6 +10,25 @@ from geometry.model import Model
 
 # Per-point arrays of a section curve: kept for the pictures, left out of the JSON.
 _CURVE_ARRAYS = ("points", "arc_length", "curvature")
+
+
+@dataclass(frozen=True, eq=False)
+class CutSections:
+    """Section curves as the findings judge them, from the check or from the window.
+
+    Attributes
+    ----------
+    labels : tuple of str
+        One per plane, as tables and findings name it.
+    curves : tuple of geometry.sections.SectionCurve
+    places : tuple of (plane, curve) pairs
+        Index of each curve's plane in ``labels`` and of the curve among that
+        plane's curves (both from 0).
+    """
+
+    labels: tuple[str, ...] = ()
+    curves: tuple = ()
+    places: tuple[tuple[int, int], ...] = ()
 
 
 def curve_entry(curve) -> dict:

@@ -22,7 +22,7 @@ from app.review import findings as review
 from app.review.faces import curvature_range, unevaluable_reason
 from app.review.result import Kind, Verdict
 from app.review.seam_entries import FreeEdgeEntry, SeamEntry, seams_and_free_edges
-from app.review.section_entries import curve_entry
+from app.review.section_entries import CutSections
 from geometry.model import Model
 from geometry.sections import SectionCurve
 
@@ -72,8 +72,8 @@ def review_seams(model: Model, profile: Profile, progress=None) -> SeamReview:
     return SeamReview(profile, tuple(seams), tuple(free), tuple(lines), tuple(views))
 
 
-def section_entries(curves: tuple[SectionCurve, ...], where: tuple[tuple[int, int], ...]) -> list[dict]:
-    """The window's section curves in the check's plain form, one entry per plane.
+def cut_sections(curves: tuple[SectionCurve, ...], where: tuple[tuple[int, int], ...]) -> CutSections:
+    """The window's section curves as the check's findings take them, planes labelled from 1.
 
     Parameters
     ----------
@@ -81,10 +81,7 @@ def section_entries(curves: tuple[SectionCurve, ...], where: tuple[tuple[int, in
     where : tuple of (plane, curve) index pairs, one per curve (both from 0)
     """
     planes = 1 + max((p for p, _ in where), default=-1)
-    entries = [{"label": str(p + 1), "curves": []} for p in range(planes)]
-    for curve, (plane, _) in zip(curves, where, strict=True):
-        entries[plane]["curves"].append(curve_entry(curve))
-    return entries
+    return CutSections(tuple(str(p + 1) for p in range(planes)), tuple(curves), tuple(where))
 
 
 def curve_label(where: tuple[int, int]) -> str:
@@ -124,7 +121,7 @@ def judged_findings(
     free = seams.free_edges if seams is not None else ()
     flat = {pair: n for n, pair in enumerate(where)}
     found = []
-    for f in review.collect(seam_entries, section_entries(curves, where), profile):
+    for f in review.collect(seam_entries, cut_sections(curves, where), profile):
         position = None if f.where is None else np.asarray(f.where, float)
         detail = f"{_measured(f)}; profile {profile.name}"
         if f.kind == Kind.SEAM and "seam" in f.ref:

@@ -222,15 +222,15 @@ def judged_value(session, key: FindingKey) -> tuple[str, float | None]:
     """The measure and value the check gives the finding with this identity (what the reviewer saw)."""
     from app.review import findings as review
 
-    from .review_findings import section_entries
+    from .review_findings import cut_sections
 
     loaded = session.loaded
     if loaded is None or loaded.seam_review is None:
         return "", None
     seams = loaded.seam_review
-    entries = section_entries(session.sections, session.section_places)
+    cut = cut_sections(session.sections, session.section_places)
     flat = {pair: n for n, pair in enumerate(session.section_places)}
-    for f in review.collect(seams.seams, entries, session.profile):
+    for f in review.collect(seams.seams, cut, session.profile):
         if f.kind == "seam" and key.kind == "seam":
             seam = seams.seams[f.ref["seam"]]
             here = midpoint(seams.lines[f.ref["seam"]].points)
