@@ -93,7 +93,7 @@ def test_section_plane_moves_combs_and_markers(qtbot, window):
     window.session.show_model(demo_model())
     window.session.set_section(enabled=True, normal=(0.0, 1.0, 0.0), count=2, spacing=12.0)
     qtbot.wait(30)
-    assert window._plane_widget is not None
+    assert window.plane_handle.shown
     teeth = window.scene.lines["teeth"].points.copy()
     marks = window.scene.points["inflections"].points.copy()
     window.move_section((80.0, 15.0, 0.0))
@@ -101,7 +101,7 @@ def test_section_plane_moves_combs_and_markers(qtbot, window):
     assert window.scene.lines["teeth"].n_points > 0
     assert not np.allclose(window.scene.lines["teeth"].points[:, 1].mean(), teeth[:, 1].mean())
     assert not np.allclose(window.scene.points["inflections"].points, marks)
-    assert np.allclose(window._plane_widget.GetOrigin(), (80.0, 15.0, 0.0))
+    assert np.allclose(window.plane_handle.plane()[0], (80.0, 15.0, 0.0))
     window.session.set_display(mode=Mode.CURVATURE)
     shoot(window, "demo-section-combs")
     qtbot.waitUntil(lambda: not window._exact_timer.isActive(), timeout=2000)  # exact pass after the drag

@@ -1,4 +1,4 @@
-"""Side panels: what the faces show, and the section tool.
+"""Side panel: what the faces show (the section tool is in :mod:`app.qt.section_panel`).
 
 Each panel listens to the session and updates itself with its signals
 blocked; a user change goes to the session, never straight to the view.
@@ -22,7 +22,6 @@ from PySide6.QtWidgets import (
 
 from app.render.legend import tick_decimals
 from app.state import Measure, Mode, Session
-from app.state.review_findings import curve_label
 from app.state.settings import AXES, STRIPE_MODES, VALUE_MODES
 from app.state.tooling import SUGGESTIONS
 from geometry.errors import BattenError
@@ -205,72 +204,3 @@ class DisplayPanel(QWidget):
         self._surface_form.setRowVisible(self.range_note, not valued)
         for w in (self.stripe_count, self.stripe_width, self.stripe_direction):
             w.setEnabled(d.mode in STRIPE_MODES)
-
-
-class SectionPanel(QWidget):
-    """Section tool: on/off, plane orientation, family, comb scale and density, graph curve."""
-
-    def __init__(self, session: Session, parent=None):
-        super().__init__(parent)
-        self.session = session
-        self.enabled = QCheckBox("section plane (drag it in the view)")
-        self.axis = QComboBox()
-        for axis in AXES:
-            self.axis.addItem(f"normal along {axis}", axis)
-        self.count = _spin(1, 50, 1)
-        self.spacing = _spin(0.01, 1e5, 1.0, 2)
-        self.spacing.setSuffix(" mm")
-        self.gain = _spin(0.05, 50.0, 0.25, 2)
-        self.density = _spin(2, 2000, 10)
-        self.curve = QComboBox()  # the curve the graph shows (a click on a curve in the view chooses too)
-        self.centre = QPushButton("Back to the middle")
-        box = QGroupBox("Sections")
-        form = QFormLayout(box)
-        form.addRow(self.enabled)
-        form.addRow("Plane", self.axis)
-        form.addRow("Planes", self.count)
-        form.addRow("Spacing", self.spacing)
-        form.addRow("Comb scale", self.gain)
-        form.addRow("Teeth per model size", self.density)
-        form.addRow("Graph of curve", self.curve)
-        form.addRow(self.centre)
-        layout = QVBoxLayout(self)
-        layout.addWidget(box)
-        layout.addStretch(1)
-
-        self.enabled.toggled.connect(lambda on: session.set_section(enabled=bool(on)))
-        self.axis.currentIndexChanged.connect(lambda: session.set_section(normal=AXES[self.axis.currentData()]))
-        self.count.valueChanged.connect(lambda n: session.set_section(count=int(n)))
-        self.spacing.valueChanged.connect(lambda d: session.set_section(spacing=float(d)))
-        self.gain.valueChanged.connect(lambda g: session.set_section(comb_gain=float(g)))
-        self.density.valueChanged.connect(lambda n: session.set_section(comb_density=int(n)))
-        self.curve.currentIndexChanged.connect(lambda n: n >= 0 and session.select_curve(int(n)))
-        self.centre.clicked.connect(self._centre)
-        for topic in ("section", "sections", "curve", "model"):
-            session.subscribe(topic, self.refresh)
-        self.refresh()
-
-    def _centre(self):
-        if self.session.model is not None:
-            lo, hi = self.session.model.bounds
-            self.session.set_section(origin=tuple((lo + hi) / 2))
-
-    def refresh(self, *_):
-        s = self.session.section
-        blockers = _blocked(self.enabled, self.axis, self.count, self.spacing, self.gain, self.density, self.curve)
-        self.enabled.setChecked(s.enabled)
-        axis = next((name for name, v in AXES.items() if tuple(v) == tuple(s.normal)), None)
-        if axis is not None:
-            self.axis.setCurrentIndex(self.axis.findData(axis))
-        self.count.setValue(s.count)
-        self.spacing.setValue(s.spacing)
-        self.gain.setValue(s.comb_gain)
-        self.density.setValue(s.comb_density)
-        labels = [curve_label(place) for place in self.session.section_places]
-        if labels != [self.curve.itemText(i) for i in range(self.curve.count())]:
-            self.curve.clear()
-            self.curve.addItems(labels)
-        self.curve.setCurrentIndex(min(s.selected, len(labels) - 1))
-        del blockers
-        has_model = self.session.model is not None
-        self.setEnabled(has_model)

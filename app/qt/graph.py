@@ -13,6 +13,8 @@ from geometry.sections import SectionCurve
 
 MARGIN_LEFT, MARGIN_RIGHT, MARGIN_TOP, MARGIN_BOTTOM = 78, 12, 22, 34
 TICKS = 6  # about this many labelled distances along the curve
+# A curve bent less than this (1/mm, a radius of 10 km) is drawn flat: its rounding noise is not scaled up.
+FLAT_CURVATURE = 1e-7
 
 
 class CurvatureGraph(QWidget):
@@ -45,7 +47,7 @@ class CurvatureGraph(QWidget):
         """Functions (s, k) -> widget coordinates for the current curve, and the k range."""
         s, k = self.curve.arc_length, self.curve.curvature
         reach = float(np.nanmax(np.abs(k))) if k.size else 0.0
-        reach = reach * 1.1 if reach > 0 else 1.0
+        reach = max(reach, FLAT_CURVATURE) * 1.1
         length = max(float(s[-1]) if s.size else 1.0, 1e-9)
         rect = self._plot_rect()
 

@@ -26,10 +26,12 @@ from app.state.recent import RecentFiles, default_store
 from geometry.io.files import write_atomically
 
 from . import file_dialogs, menus, review_actions
-from .controls import DisplayPanel, SectionPanel
+from .controls import DisplayPanel
 from .export_task import ExportStatus, start_report
 from .findings import FROM_FILE, FindingsPanel
 from .graph import CurvatureGraph
+from .plane_widget import PlaneHandle
+from .section_panel import SectionPanel
 from .settings_store import WindowMemory
 from .snapshot import screenshot_without_tools
 from .worker import LoadJob, SeamJob, start_job
@@ -40,6 +42,8 @@ REPORT_FILTER = "PDF report (*.pdf);;HTML report (*.html)"
 PROFILE_FILTER = "Tolerance profiles (*.toml);;All files (*)"
 # After the plane stops moving this long (ms), its sections are recomputed exactly.
 EXACT_AFTER_MS = 250
+# While the plane is dragged, its fast sections (and the graph) follow at most this often (ms).
+DRAG_EVERY_MS = 30
 PROBE_EVERY_MS = 60
 CLICK_PIXELS = 3  # a press and release this close is a click, not a turn of the view
 
@@ -86,8 +90,9 @@ class MainWindow(QMainWindow):
         self._job_path = ""
         self._job_shown = False
         self.comparing = None  # a comparison running in the background (review_actions.Comparing)
-        self._plane_widget = None
+        self.plane_handle = PlaneHandle(self.view, self._plane_moved, self.scene.to_display)
         self._placing_plane = False
+        self._dragged_to = None  # the latest plane of a drag, not yet sectioned
         self._last_camera = None
         self._probe_at = None
 
@@ -96,6 +101,8 @@ class MainWindow(QMainWindow):
         self._build_status()
         self._exact_timer = QTimer(self, singleShot=True, interval=EXACT_AFTER_MS)
         self._exact_timer.timeout.connect(lambda: self.session.set_section(exact=True))
+        self._drag_timer = QTimer(self, singleShot=True, interval=DRAG_EVERY_MS)
+        self._drag_timer.timeout.connect(self._follow_drag)
         self._probe_timer = QTimer(self, singleShot=True, interval=PROBE_EVERY_MS)
         self._probe_timer.timeout.connect(self._probe)
         self._camera_timer = QTimer(self, singleShot=True, interval=0)
@@ -132,12 +139,13 @@ class MainWindow(QMainWindow):
 
     def _build_docks(self) -> None:
         self.display_panel = DisplayPanel(self.session)
-        self.section_panel = SectionPanel(self.session)
-        scroll = QScrollArea()
-        scroll.setWidgetResizable(True)
-        scroll.setWidget(self.display_panel)
-        self._dock("Display", scroll, Qt.DockWidgetArea.LeftDockWidgetArea, "display")
-        self._dock("Sections", self.section_panel, Qt.DockWidgetArea.LeftDockWidgetArea, "sections")
+        self.section_panel = SectionPanel(self.session, view_direction=lambda: self.scene.camera().direction)
+        panels = (("Display", self.display_panel, "display"), ("Sections", self.section_panel, "sections"))
+        for title, panel, name in panels:
+            scroll = QScrollArea()
+            scroll.setWidgetResizable(True)
+            scroll.setWidget(panel)
+            self._dock(title, scroll, Qt.DockWidgetArea.LeftDockWidgetArea, name)
         self.findings_panel = FindingsPanel(self.session)
         self.findings_panel.chosen.connect(self.session.select)
         self.findings_panel.profile.wanted.connect(self.choose_profile)
@@ -200,6 +208,7 @@ class MainWindow(QMainWindow):
         self.views.add_to(view)
         view.addAction(self._action("Fit model in view", self._fit, "Ctrl+0"))
         self.mode_bar = menus.mode_toolbar(self, self.modes)
+        self.menuBar().addMenu("&Section").addActions(self.section_panel.nudge_actions(self))
         docks = self.menuBar().addMenu("&Panels")
         for dock in self.findChildren(QDockWidget):
             docks.addAction(dock.toggleViewAction())
@@ -378,16 +387,10 @@ class MainWindow(QMainWindow):
     def _section_settings_changed(self, _topic) -> None:
         if not self.session.section.enabled:
             self._remove_plane_widget()
-        elif self._plane_widget is None:
-            if not self._placing_plane:
-                self._placing_plane = True
-                try:
-                    self._add_plane_widget()
-                finally:
-                    self._placing_plane = False
+        elif not self.plane_handle.shown:
+            self._add_plane_widget()
         elif not self._placing_plane:
-            self._plane_widget.SetOrigin(*self.session.section.origin)
-            self._plane_widget.SetNormal(*self.session.section.normal)
+            self.plane_handle.place(self.session.section.origin, self.session.section.normal)
 
     def _selection_changed(self, _topic) -> None:
         finding = self.session.selected_finding
@@ -408,33 +411,28 @@ class MainWindow(QMainWindow):
         lo, hi = self.session.model.bounds
         pad = 0.05 * self.session.model.size
         bounds = [lo[0] - pad, hi[0] + pad, lo[1] - pad, hi[1] + pad, lo[2] - pad, hi[2] + pad]
-        s = self.session.section
-        self._plane_widget = self.view.add_plane_widget(
-            self._plane_moved,
-            normal=s.normal,
-            origin=s.origin,
-            bounds=bounds,
-            factor=1.0,
-            color="#3b6ea5",
-            outline_translation=False,
-            interaction_event="always",
-            implicit=True,
-            test_callback=False,  # the session already has these sections
-        )
+        self.plane_handle.show(bounds, self.session.section.origin, self.session.section.normal)
 
     def _remove_plane_widget(self) -> None:
-        if self._plane_widget is not None:
-            self.view.clear_plane_widgets()
-            self._plane_widget = None
+        self.plane_handle.hide()
 
-    def _plane_moved(self, normal, origin) -> None:
-        """The user drags or turns the plane: fast sections now, exact ones once it rests."""
+    def _plane_moved(self, origin, normal) -> None:
+        """The user drags or turns the plane: fast sections as it goes (throttled), exact ones once it rests."""
+        self._dragged_to = (tuple(origin), tuple(normal))
+        if not self._drag_timer.isActive():
+            self._drag_timer.start()
+        self._exact_timer.start()
+
+    def _follow_drag(self) -> None:
+        if self._dragged_to is None:
+            return
+        (origin, normal), self._dragged_to = self._dragged_to, None
         self._placing_plane = True
         try:
-            self.session.set_section(exact=False, origin=tuple(origin), normal=tuple(normal))
+            self.session.set_section(exact=False, origin=origin, normal=normal)
         finally:
             self._placing_plane = False
-        self._exact_timer.start()
+        self.graph.repaint()  # now, not after the drag: the graph follows the plane
 
     def move_section(self, origin, normal=None) -> None:
         """Move the plane from code (tests, scripts): one fast drag step; the widget follows."""

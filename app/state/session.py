@@ -36,7 +36,17 @@ from .review_findings import (
 )
 from .revisions import ReviewLoop, review_path_for
 from .sectioning import comb_scale, combs_for, sections_for
-from .settings import MEASURE_UNITS, SIGNED_MEASURES, ColourRange, DisplaySettings, Measure, Mode, SectionSettings
+from .settings import (
+    MEASURE_UNITS,
+    SIGNED_MEASURES,
+    STEP_SHARE,
+    ColourRange,
+    DisplaySettings,
+    Measure,
+    Mode,
+    SectionSettings,
+    round_step,
+)
 from .stripes import Camera, stripe_parameters
 from .tooling import starting_pull, suggested_pull, tooling_list
 
@@ -132,7 +142,8 @@ class Session:
         lo, hi = loaded.model.bounds
         centre = tuple(float(x) for x in (lo + hi) / 2)
         spacing = max(loaded.model.size / 20, 1e-3)
-        self.section = replace(self.section, origin=centre, spacing=spacing, selected=0)
+        step = round_step(STEP_SHARE * loaded.model.size)
+        self.section = replace(self.section, origin=centre, spacing=spacing, selected=0, nudge_step=step)
         self.selection = None
         if path is not None:
             self.recent.add(path)
@@ -357,7 +368,8 @@ class Session:
         """
         self.section = replace(self.section, **changes)
         self._recompute_sections(exact)
-        self.events.emit("section", "sections", "findings")
+        # the findings were recomputed and the selection cleared: its mark goes too
+        self.events.emit("section", "sections", "findings", "selection")
 
     @property
     def comb_scale(self) -> float:

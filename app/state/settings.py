@@ -117,6 +117,18 @@ class DisplaySettings:
         object.__setattr__(self, "measure", Measure(self.measure))
 
 
+# The nudge step a new model starts with, as a share of the model size (rounded to 1, 2 or 5 x 10^n mm).
+STEP_SHARE = 0.01
+
+
+def round_step(length: float) -> float:
+    """The 1, 2 or 5 x 10^n mm at or below ``length`` (a step the user can add up in their head)."""
+    if not np.isfinite(length) or length <= 0:
+        return 1.0
+    decade = 10.0 ** np.floor(np.log10(length))
+    return float(decade * max(m for m in (1.0, 2.0, 5.0) if m * decade <= length * (1 + 1e-9)))
+
+
 @dataclass(frozen=True)
 class SectionSettings:
     """The section tool.
@@ -136,6 +148,8 @@ class SectionSettings:
         Teeth per model size of arc length.
     selected : int
         Index of the curve shown in the graph.
+    nudge_step : float
+        How far one nudge moves the plane along its normal (mm).
     """
 
     enabled: bool = False
@@ -146,6 +160,7 @@ class SectionSettings:
     comb_gain: float = 1.0
     comb_density: int = 120
     selected: int = 0
+    nudge_step: float = 1.0
 
     def __post_init__(self):
         n = np.asarray(self.normal, float)
@@ -157,6 +172,8 @@ class SectionSettings:
             raise ValueError("section count must be at least 1")
         if self.comb_density < 2:
             raise ValueError("comb density must be at least 2 teeth")
+        if not self.nudge_step > 0:
+            raise ValueError("the nudge step must be a positive length")
 
     def planes(self) -> list[tuple[np.ndarray, np.ndarray]]:
         """(origin, normal) of each plane of the family, shape (3,) each."""
