@@ -29,7 +29,7 @@ def test_draft_view_of_the_drip_tray(qtbot, window):  # noqa: F811 - the fixture
     assert window.scene.legend == "Draft\n(degrees)"
     kinds = [f.kind for f in window.session.findings if f.verdict == "fail"]
     assert kinds.count("undercut") == 4 and kinds.count("draft") == 1  # back wall, floor strip, two corners
-    assert window.findings_panel.tree.topLevelItemCount() == len(window.session.findings)
+    assert len(window.findings_panel.entries()) == len(window.session.findings)
     assert shoot(window, "drip_tray-draft-typed").stat().st_size > 10_000
     # a zero vector is refused: the pull in force stays, and the boxes show it again
     for box in panel.pull:

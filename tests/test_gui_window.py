@@ -78,7 +78,7 @@ def test_each_sample_in_every_mode(qtbot, window, path):
         assert shoot(window, f"{path.stem}-{mode.name.lower()}").stat().st_size > 10_000
     assert window.recent_menu.actions()[0].text() == str(path)
     assert window.session.loaded.seams_measured
-    assert window.findings_panel.tree.topLevelItemCount() == len(window.session.findings)
+    assert len(window.findings_panel.entries()) == len(window.session.findings)
 
 
 @pytest.mark.parametrize("path", sample_files("iges")[:2], ids=lambda p: p.stem)
@@ -112,14 +112,16 @@ def test_clicking_a_finding_focuses_the_camera(qtbot, window):
     window.session.show_model(demo_model())
     window.session.set_display(mode=Mode.CURVATURE)
     tree = window.findings_panel.tree
-    assert tree.topLevelItemCount() == len(window.session.findings)
+    assert len(window.findings_panel.entries()) == len(window.session.findings)
     before = camera_state(window)
-    item = tree.topLevelItem(0)
+    item = window.findings_panel.item_for(0)
     qtbot.mouseClick(tree.viewport(), Qt.MouseButton.LeftButton, pos=tree.visualItemRect(item).center())
     qtbot.waitUntil(lambda: window.session.selection == 0, timeout=2000)
     finding = window.session.findings[0]
     assert not np.allclose(camera_state(window), before)
-    assert np.allclose(window.view.camera.focal_point, finding.position)
+    seen = window.scene.to_display(np.vstack([finding.path, finding.position]))
+    width, height = window.view.render_window.GetSize()
+    assert ((seen >= 0) & (seen <= (width, height))).all()  # the whole seam in view
     assert window.scene.actors["mark_point"].GetVisibility()
     shoot(window, "demo-finding-focused")
 
@@ -128,8 +130,8 @@ def test_findings_filter_by_verdict(qtbot, window):
     window.session.show_model(demo_model())
     panel = window.findings_panel
     panel.verdict.setCurrentIndex(panel.verdict.findData("fail"))
-    assert 0 < panel.tree.topLevelItemCount() < len(window.session.findings)
-    assert all(panel.tree.topLevelItem(i).text(0) == "fail" for i in range(panel.tree.topLevelItemCount()))
+    assert 0 < len(panel.entries()) < len(window.session.findings)
+    assert all(item.text(1) == "fail" for item in panel.entries())
 
 
 def test_broken_file_shows_a_dialog_and_keeps_the_model(qtbot, window, tmp_path, monkeypatch):
@@ -287,11 +289,11 @@ def test_findings_name_faces_and_filter_section_extrema(qtbot, window):
     window.session.set_section(enabled=True, normal=(0.0, 1.0, 0.0))
     panel = window.findings_panel
     panel.kind.setCurrentIndex(panel.kind.findData("section_extremum"))
-    shown = panel.tree.topLevelItemCount()
-    assert shown == sum(len(c.extrema) for c in window.session.sections) > 0
-    assert all(": curvature m" in panel.tree.topLevelItem(i).text(1) for i in range(shown))
+    shown = panel.entries()
+    assert len(shown) == sum(len(c.extrema) for c in window.session.sections) > 0
+    assert all(": curvature m" in item.text(0) for item in shown)
     panel.kind.setCurrentIndex(panel.kind.findData("free_edge"))
-    assert panel.tree.topLevelItem(0).text(1).startswith("free edge of side_panel")  # the face's name in the file
+    assert panel.entries()[0].text(0).startswith("free edge of side_panel")  # the face's name in the file
 
 
 def test_graph_draws_every_point_of_the_curve(qtbot, window):

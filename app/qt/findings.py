@@ -3,17 +3,16 @@
 from __future__ import annotations
 
 from PySide6.QtCore import QSignalBlocker, Qt, Signal
-from PySide6.QtGui import QBrush, QColor
-from PySide6.QtWidgets import QComboBox, QHBoxLayout, QLabel, QTreeWidget, QTreeWidgetItem, QVBoxLayout, QWidget
+from PySide6.QtWidgets import QComboBox, QHBoxLayout, QLabel, QSplitter, QTreeWidgetItem, QVBoxLayout, QWidget
 
 from app.profiles import shipped_names
-from app.render.colours import VERDICT
 from app.review.result import Kind
 from app.state import Session
-from app.state.revisions import decision_mark
+from app.state.finding_groups import group_findings
 from app.state.session import KIND_ORDER, VERDICT_ORDER
 
 from .dispositions import DispositionEditor
+from .findings_tree import FindingDetail, FindingsTree
 
 ANY = "any"
 FROM_FILE = "from file…"
@@ -65,7 +64,9 @@ class ProfileChooser(QComboBox):
 
 
 class FindingsPanel(QWidget):
-    """Filterable list; choosing an entry selects it in the session (the window then shows it).
+    """Filterable tree of findings, the chosen one's full text and the decision on it.
+
+    Choosing an entry selects it in the session (the window then shows it).
 
     Signals
     -------
@@ -86,11 +87,10 @@ class FindingsPanel(QWidget):
         self.verdict.addItem("any verdict", ANY)
         for verdict in VERDICT_ORDER:
             self.verdict.addItem(str(verdict), str(verdict))
-        self.tree = QTreeWidget()
-        self.tree.setHeaderLabels(["Verdict", "Finding"])
-        self.tree.setRootIsDecorated(False)
-        self.tree.setColumnWidth(0, 56)
+        self.tree = FindingsTree(session, KIND_WORDS)
+        self.detail = FindingDetail(session, KIND_WORDS)
         self.summary = QLabel()
+        self.summary.setWordWrap(True)
         self.profile = ProfileChooser(session)
         chooser = QHBoxLayout()
         chooser.addWidget(QLabel("Judged by profile"))
@@ -98,20 +98,23 @@ class FindingsPanel(QWidget):
         filters = QHBoxLayout()
         filters.addWidget(self.kind)
         filters.addWidget(self.verdict)
+        split = QSplitter(Qt.Orientation.Vertical)
+        split.addWidget(self.tree)
+        split.addWidget(self.detail)
+        split.setStretchFactor(0, 3)
+        split.setStretchFactor(1, 1)
         layout = QVBoxLayout(self)
         layout.addLayout(chooser)
         layout.addLayout(filters)
-        layout.addWidget(self.tree, 1)
+        layout.addWidget(split, 1)
         layout.addWidget(self.summary)
         self.decision = DispositionEditor(session)
         layout.addWidget(self.decision)
         self.kind.currentIndexChanged.connect(self.refresh)
         self.verdict.currentIndexChanged.connect(self.refresh)
-        self.tree.currentItemChanged.connect(self._current_changed)
-        self.tree.itemClicked.connect(lambda item, _col: self._current_changed(item))
-        session.subscribe("findings", self.refresh)
-        session.subscribe("model", self.refresh)
-        session.subscribe("review", self.refresh)
+        self.tree.chosen.connect(self.chosen.emit)
+        for topic in ("findings", "model", "review", "loading"):
+            session.subscribe(topic, self.refresh)
         self.refresh()
 
     def _filters(self):
@@ -119,30 +122,26 @@ class FindingsPanel(QWidget):
         return (None if kind == ANY else (kind,)), (None if verdict == ANY else (verdict,))
 
     def refresh(self, *_):
+        if self.session.loading is not None:
+            # the findings on record belong to the model shown, not to the one opening: show none
+            self.tree.show_groups([])
+            self.summary.setText(f"Opening {self.session.loading}: its findings follow once it is read.")
+            return
         kinds, verdicts = self._filters()
         shown = self.session.filtered_findings(kinds, verdicts)
-        blocker = QSignalBlocker(self.tree)
-        self.tree.clear()
-        for index, finding in shown:
-            item = QTreeWidgetItem([finding.verdict, finding.title + decision_mark(self.session, finding)])
-            item.setData(0, Qt.ItemDataRole.UserRole, index)
-            item.setToolTip(1, finding.detail or finding.title)
-            item.setForeground(0, QBrush(QColor(VERDICT.get(finding.verdict, VERDICT["note"]))))
-            self.tree.addTopLevelItem(item)
-        del blocker
+        self.tree.show_groups(group_findings(shown, KIND_ORDER))
         failing = sum(1 for f in self.session.findings if f.verdict == "fail")
-        self.summary.setText(
+        text = (
             f"{len(shown)} shown of {len(self.session.findings)}; {failing} failing"
             f" (profile {self.session.profile.name})"
         )
+        if self.session.loaded is not None and not self.session.loaded.seams_measured:
+            text += "; the seams are still being measured"
+        self.summary.setText(text)
+
+    def entries(self) -> list[QTreeWidgetItem]:
+        """The rows of findings (not their groups), in the order shown."""
+        return self.tree.leaves()
 
     def item_for(self, index: int) -> QTreeWidgetItem | None:
-        for row in range(self.tree.topLevelItemCount()):
-            item = self.tree.topLevelItem(row)
-            if item.data(0, Qt.ItemDataRole.UserRole) == index:
-                return item
-        return None
-
-    def _current_changed(self, item, *_):
-        if item is not None:
-            self.chosen.emit(int(item.data(0, Qt.ItemDataRole.UserRole)))
+        return self.tree.item_for(index)

@@ -255,6 +255,7 @@ class MainWindow(QMainWindow):
         self.progress.setValue(0)
         self.progress.setVisible(True)
         self.open_action.setEnabled(False)
+        self.session.begin_loading(path)
         self._job_thread = start_job(self._job, self)
 
     def wait_for_job(self) -> None:
@@ -334,6 +335,7 @@ class MainWindow(QMainWindow):
     def _load_failed(self, message: str) -> None:
         shown = self._job_shown
         self._job_done()
+        self.session.end_loading()
         self.open_failed.emit(message)
         if shown:  # the model is on screen; only its seam analysis failed
             QMessageBox.critical(self, "Cannot measure the seams", message + "\n\nThe model is shown without seams.")

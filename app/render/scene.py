@@ -16,14 +16,13 @@ from app.state.settings import MEASURE_UNITS, STRIPE_MODES, VALUE_MODES, Measure
 
 from . import colours
 from .combs import comb_envelopes, comb_teeth, marker_points, polylines, section_curves
+from .framing import framing
 from .legend import SHIFT, WINDOW_LEGEND, LegendPlace, clipped_ends, ends_text, measure_title, place_legend, tick_format
 from .meshes import FaceMesh, face_mesh
 from .seams import seam_lines
 from .stripes import stripe_range, stripe_table
 from .tooling import LEGEND_TITLE, add_tooling
 
-# How far the camera stands from a focused finding, in finding extents.
-FOCUS_DISTANCE = 4.0
 # A click this close to a section curve (display pixels) chooses it.
 CURVE_PICK_PIXELS = 8.0
 # Stands for an infinite value (a flat sample's radius): far above any colour range, finite for VTK.
@@ -295,15 +294,23 @@ class Scene:
         self._render()
 
     def focus(self, finding: FindingEntry) -> None:
-        """Turn the camera onto a finding, keeping the viewing direction."""
+        """Turn the camera onto a finding, keeping the viewing direction: the whole item in view, with a margin.
+
+        A seam or an edge is framed over its full length, a section over its
+        extent, a point with ``finding.extent`` round it.
+        """
         cam = self.plotter.camera
         position, focal = np.array(cam.position), np.array(cam.focal_point)
-        direction = (focal - position) / max(np.linalg.norm(focal - position), 1e-300)
-        distance = FOCUS_DISTANCE * max(finding.extent, 1e-3)
-        cam.focal_point = tuple(finding.position)
-        cam.position = tuple(finding.position - direction * distance)
+        width, height = self.plotter.render_window.GetSize()
+        points = finding.path if finding.path.shape[0] >= 2 else finding.position[None, :]
+        points = np.vstack([points, finding.position])
+        focal, position, scale = framing(
+            points, focal - position, cam.view_angle, width / max(height, 1), max(finding.extent, 1e-3) / 2
+        )
+        cam.focal_point = tuple(focal)
+        cam.position = tuple(position)
         if cam.parallel_projection:
-            cam.parallel_scale = distance / 2
+            cam.parallel_scale = scale
         self.plotter.reset_camera_clipping_range()
         self.mark(finding)
 

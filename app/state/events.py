@@ -20,6 +20,7 @@ TOPICS = (
     "curve",
     "tooling",
     "review",
+    "loading",
 )
 
 

@@ -85,6 +85,8 @@ class FindingEntry:
         Longer text (tooltip).
     path : ndarray of shape (n, 3)
         The seam or edge polyline, or the point alone.
+    place : str
+        Where it is, for grouping: the face (or the faces of a seam), or the section curve.
     """
 
     kind: Kind
@@ -94,6 +96,7 @@ class FindingEntry:
     extent: float = 10.0
     detail: str = ""
     path: np.ndarray = field(default_factory=lambda: np.zeros((0, 3)))
+    place: str = ""
 
     def __post_init__(self):
         object.__setattr__(self, "position", np.asarray(self.position, float).reshape(3))

@@ -134,6 +134,7 @@ def judged_findings(
             path = np.asarray(seams.lines[f.ref["seam"]].points, float)
             position = np.asarray(seam.worst_position, float) if position is None else position
             extent = max(seam.length / 4, 1.0)
+            place = names
         elif f.kind == Kind.INFLECTION and (f.ref.get("section"), f.ref.get("curve")) in flat:
             curve = curves[flat[f.ref["section"], f.ref["curve"]]]
             count = int(f.value)
@@ -141,15 +142,19 @@ def judged_findings(
             path = curve.points
             position = curve.points[len(curve.points) // 2] if position is None else position
             extent = max(curve.length / 4, 1.0)
+            place = f.subject
         else:  # a kind this window does not know yet: show it as the check words it
             title, path, extent = f"{f.subject}: {_measured(f)}", np.zeros((0, 3)), 10.0
             position = np.zeros(3) if position is None else position
-        found.append(FindingEntry(f.kind, title, f.verdict, position, extent, detail, path))
+            place = ""
+        found.append(FindingEntry(f.kind, title, f.verdict, position, extent, detail, path, place))
     for edge, line in zip(free, seams.lines[len(seam_entries) :] if seams else (), strict=True):
         points = np.asarray(line.points, float)
         title = f"free edge of {edge.face_name}, {edge.length:.1f} mm"
         extent = max(edge.length / 4, 1.0)
-        found.append(FindingEntry(Kind.FREE_EDGE, title, Verdict.NOTE, points[len(points) // 2], extent, "", points))
+        detail = f"free edge of {edge.face_name}: {edge.length:.2f} mm long, no neighbouring face"
+        middle = points[len(points) // 2]
+        found.append(FindingEntry(Kind.FREE_EDGE, title, Verdict.NOTE, middle, extent, detail, points, edge.face_name))
     return found
 
 
@@ -162,15 +167,14 @@ def section_notes(curves: tuple[SectionCurve, ...], where: tuple[tuple[int, int]
         marks = curve.inflections
         for p, s, seam in zip(marks.points, marks.arc_length, marks.at_seam, strict=True):
             across = " (across a seam)" if seam else ""
-            found.append(
-                FindingEntry(Kind.INFLECTION, f"{label}: inflection at s = {s:.1f} mm{across}", Verdict.NOTE, p, extent)
-            )
+            title = f"{label}: inflection at s = {s:.1f} mm{across}"
+            found.append(FindingEntry(Kind.INFLECTION, title, Verdict.NOTE, p, extent, place=label))
         ext = curve.extrema
         for p, s, k, top in zip(ext.points, ext.arc_length, ext.curvature, ext.is_maximum, strict=True):
             radius = f", radius {1 / abs(k):.4g} mm" if k else ""
             title = f"{label}: curvature {'max' if top else 'min'} {k:.3g} at s = {s:.1f} mm"
             detail = f"curvature {'maximum' if top else 'minimum'} along {label}: {k:.5g} 1/mm{radius}, s = {s:.2f} mm"
-            found.append(FindingEntry(Kind.SECTION_EXTREMUM, title, Verdict.NOTE, p, extent, detail))
+            found.append(FindingEntry(Kind.SECTION_EXTREMUM, title, Verdict.NOTE, p, extent, detail, place=label))
     return found
 
 
@@ -190,7 +194,11 @@ def curvature_extremes(model: Model, samples: tuple[FaceSamples, ...]) -> list[F
         title = f"{face_label(model, s.face)}: tightest radius {ranges.min_radius:.3g} mm"
         detail = f"max |k| {k:.4g} 1/mm (k1 {s.field.k1[i, j]:.4g}, k2 {s.field.k2[i, j]:.4g})"
         extent = min(10.0 / k, float(np.ptp(s.field.points[s.inside], axis=0).max()) or 10.0)
-        found.append((k, FindingEntry(Kind.CURVATURE, title, Verdict.NOTE, s.field.points[i, j], extent, detail)))
+        where = s.field.points[i, j]
+        entry = FindingEntry(
+            Kind.CURVATURE, title, Verdict.NOTE, where, extent, detail, place=face_label(model, s.face)
+        )
+        found.append((k, entry))
     return [f for _, f in sorted(found, key=lambda pair: -pair[0])]
 
 

@@ -23,6 +23,7 @@ from geometry.tooling import unit_pull
 
 from .colour_scale import FLAT_RADIUS_MM, one_sided_limits, signed_limits
 from .events import Notifier
+from .finding_groups import unique_titles
 from .loading import Progress, prepare, with_seams_judged
 from .recent import RecentFiles
 from .results import FaceSamples, FindingEntry, Loaded, measure_values
@@ -103,6 +104,7 @@ class Session:
         self._face_extremes: list[FindingEntry] = []
         self._face_problems: list[FindingEntry] = []
         self.review = ReviewLoop()  # review file and comparison with an earlier revision
+        self.loading: str | None = None  # the file being opened (its model not yet adopted)
 
     # -- what is loaded --------------------------------------------------
     @property
@@ -132,8 +134,19 @@ class Session:
         """Show an in-memory model (scripts and tests)."""
         self.adopt(prepare(model=model, profile=self.profile), None)
 
+    def begin_loading(self, path: str) -> None:
+        """A file is being opened (off the GUI thread): the findings on record are the old model's."""
+        self.loading = os.path.basename(str(path)) or str(path)
+        self.events.emit("loading")
+
+    def end_loading(self) -> None:
+        """The opening failed: the model shown and its findings stand again."""
+        self.loading = None
+        self.events.emit("loading")
+
     def adopt(self, loaded: Loaded, path: str | None) -> None:
         """Make an already prepared model current (the window prepares it in a worker thread)."""
+        self.loading = None
         self.loaded = loaded
         self.path = path
         # they depend on the samples alone: found once, not on every drag step of the plane
@@ -150,7 +163,7 @@ class Session:
         self._recompute_tooling()
         self._adopt_review_file(path)
         self._recompute_sections()
-        self.events.emit("model", "section", "sections", "findings", "selection", "recent", "review")
+        self.events.emit("model", "section", "sections", "findings", "selection", "recent", "review", "loading")
 
     def _adopt_review_file(self, path: str | None) -> None:
         """A new model: no comparison; its review file (beside it) when there is a readable one."""
@@ -438,7 +451,7 @@ class Session:
         found.extend(tooling_list(self.loaded.model, self.tooling, self.profile))
         # failing first, then by kind; a stable sort keeps each source's own order within
         found.sort(key=lambda f: (VERDICT_ORDER.index(f.verdict), KIND_ORDER.index(f.kind)))
-        return tuple(found)
+        return tuple(unique_titles(found))
 
     def filtered_findings(self, kinds=None, verdicts=None) -> list[tuple[int, FindingEntry]]:
         """(index, finding) pairs whose kind and verdict are among those given (None: any)."""

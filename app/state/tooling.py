@@ -44,7 +44,8 @@ def tooling_list(model: Model, analysis: ToolingAnalysis | None, profile: Profil
         position = np.zeros(3) if f.where is None else np.asarray(f.where, float)
         value = f"{f.value:.4g} {f.unit}" + ("" if f.limit is None else f", limit {f.limit:g} {f.unit}")
         detail = f"{f.measure} {value}; profile {profile.name}"
-        found.append(FindingEntry(f.kind, f.subject, f.verdict, position, extent, detail, position))
+        place = f.subject.split(":")[0]  # the face's label
+        found.append(FindingEntry(f.kind, f.subject, f.verdict, position, extent, detail, position, place))
     return found
 
 
