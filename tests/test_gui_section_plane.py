@@ -147,3 +147,38 @@ def test_the_graph_follows_a_drag_and_a_facing_plane_still_moves(qtbot, window):
     assert window.graph.curve is not before
     assert np.allclose(window.graph.curve.points[:, 0], 60.0) or window.graph.curve.points[:, 0].min() >= 100.0
     shoot(window, "plane-dragged")
+
+
+def drag(qtbot, window, start, motion, steps: int = 8) -> None:
+    """Press on the plane at world point ``start``, move the cursor by ``motion`` pixels, release."""
+    iren = window.view.iren.interactor
+    x, y = window.scene.to_display(np.asarray(start, float)[None])[0]
+    iren.SetEventInformation(int(x), int(y))
+    iren.InvokeEvent("MouseMoveEvent")
+    iren.InvokeEvent("LeftButtonPressEvent")
+    for k in range(1, steps + 1):
+        iren.SetEventInformation(int(x + motion[0] * k / steps), int(y + motion[1] * k / steps))
+        iren.InvokeEvent("MouseMoveEvent")
+        qtbot.wait(10)
+    iren.InvokeEvent("LeftButtonReleaseEvent")
+    qtbot.waitUntil(lambda: not window._drag_timer.isActive(), timeout=2000)
+
+
+@pytest.mark.parametrize("view", ["facing", "side on"])
+def test_dragging_the_plane_moves_it_with_the_cursor(qtbot, window, view):
+    window.session.set_section(origin=(40.0, 30.0, 0.0), normal=(1.0, 0.0, 0.0))
+    if view == "facing":
+        window.view.view_yz()  # the normal looks along the view: VTK alone would hardly move it
+        start, motion = (40.0, 45.0, 2.0), (0, 64)
+    else:
+        window.view.view_xz()
+        start, motion = (40.0, 30.0, 9.5), (64, 0)  # on the plane, clear of its origin ball
+    window.view.render()
+    pixel = window.plane_handle.pixel_size(np.array(window.session.section.origin))
+    drag(qtbot, window, start, motion)
+    moved = abs(window.session.section.origin[0] - 40.0)
+    assert moved == pytest.approx(64 * pixel, rel=0.05)  # one pixel of cursor, one pixel of plane
+    assert window.session.section.origin[1:] == (30.0, 0.0)
+    assert window.graph.curve is window.session.selected_section  # the graph followed the drag
+    assert np.allclose(window.plane_handle.plane()[0], window.session.section.origin)
+    shoot(window, f"plane-drag-{view.replace(' ', '-')}")

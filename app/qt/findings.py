@@ -91,6 +91,7 @@ class FindingsPanel(QWidget):
         self.detail = FindingDetail(session, KIND_WORDS)
         self.summary = QLabel()
         self.summary.setWordWrap(True)
+        self.summary.setMinimumHeight(2 * self.summary.fontMetrics().lineSpacing() + 4)  # room to wrap
         self.profile = ProfileChooser(session)
         chooser = QHBoxLayout()
         chooser.addWidget(QLabel("Judged by profile"))
@@ -125,7 +126,7 @@ class FindingsPanel(QWidget):
         if self.session.loading is not None:
             # the findings on record belong to the model shown, not to the one opening: show none
             self.tree.show_groups([])
-            self.summary.setText(f"Opening {self.session.loading}: its findings follow once it is read.")
+            self.summary.setText(f"Opening {self.session.loading}: its findings follow.")
             return
         kinds, verdicts = self._filters()
         shown = self.session.filtered_findings(kinds, verdicts)

@@ -33,6 +33,7 @@ NUDGE_KEYS = {1: "Alt+Up", -1: "Alt+Down"}
 NUDGE_FAR = 10  # steps of the shifted keys
 NUDGE_FAR_KEYS = {NUDGE_FAR: "Alt+Shift+Up", -NUDGE_FAR: "Alt+Shift+Down"}
 COORDINATE_RANGE = 1e6  # mm; the readers refuse larger models
+SPIN_PIXELS = 64
 
 
 def _spin(low, high, step, decimals=None) -> QDoubleSpinBox | QSpinBox:
@@ -42,6 +43,7 @@ def _spin(low, high, step, decimals=None) -> QDoubleSpinBox | QSpinBox:
     if decimals is not None:
         box.setDecimals(decimals)
     box.setKeyboardTracking(False)  # act on Enter or arrows, not on every typed digit
+    box.setMinimumWidth(SPIN_PIXELS)  # the range's widest text would make the panel wider than its dock
     return box
 
 

@@ -8,7 +8,15 @@ dragged, exact (markers by root finding) once it rests.
 
 from __future__ import annotations
 
-from geometry.sections import CurvatureComb, SectionCurve, SectionEngine, curvature_comb
+import numpy as np
+
+from geometry.sections import (
+    CurvatureComb,
+    SectionCurve,
+    SectionEngine,
+    curvature_comb,
+    scale_for_longest_tooth,
+)
 
 from .settings import SectionSettings
 
@@ -36,12 +44,21 @@ def sections_for(
     return tuple(c for c, _ in kept), tuple(where)
 
 
-# At comb gain 1 a tooth of the model's typical curvature is this share of the model size.
+# At comb gain 1 the longest tooth of the sections on screen is this share of the model size.
 COMB_REACH = 0.1
+# Sections bent less than this share of the model's typical curvature are flat: the model's stands in.
+FLAT_SHARE = 1e-6
 
 
-def comb_scale(model_size: float, typical_curvature: float, gain: float) -> float:
+def comb_scale(
+    model_size: float, typical_curvature: float, gain: float, curves: tuple[SectionCurve, ...] = ()
+) -> float:
     """Tooth length per unit curvature (mm^2), for the window and the report alike.
+
+    The longest tooth of ``curves`` is ``gain * COMB_REACH * model_size``
+    (common practice: a comb is read by its shape, which must be visible
+    whatever the curvature's magnitude); a gently curved section gets teeth as
+    long as a tight one's.
 
     Parameters
     ----------
@@ -49,11 +66,18 @@ def comb_scale(model_size: float, typical_curvature: float, gain: float) -> floa
         mm.
     typical_curvature : float
         The model's typical |k| (1/mm), see :func:`app.state.loading.typical_curvature`;
+        it stands in when the sections are (nearly) straight or there are none,
         0 for a flat model (then 1 / size stands in).
     gain : float
         The user's multiplier (:attr:`SectionSettings.comb_gain`).
+    curves : tuple of SectionCurve
+        The section curves the combs stand on.
     """
     typical = typical_curvature or 1.0 / max(model_size, 1e-9)
+    # a straight curve's |k| is rounding noise: scaled up to a tooth it would draw a comb of noise
+    bent = [c for c in curves if c.curvature.size and np.max(np.abs(c.curvature)) > FLAT_SHARE * typical]
+    if bent:
+        return gain * scale_for_longest_tooth(bent, COMB_REACH * model_size)
     return gain * COMB_REACH * model_size / typical
 
 

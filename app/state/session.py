@@ -389,7 +389,7 @@ class Session:
         """Tooth length per unit curvature (mm^2)."""
         if self.model is None:
             return 0.0
-        return comb_scale(self.model.size, self.loaded.curvature_scale, self.section.comb_gain)
+        return comb_scale(self.model.size, self.loaded.curvature_scale, self.section.comb_gain, self.sections)
 
     @property
     def comb_spacing(self) -> float:

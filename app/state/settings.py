@@ -142,8 +142,8 @@ class SectionSettings:
         Number of parallel planes, stepping ``spacing`` mm along the normal.
     spacing : float
     comb_gain : float
-        Multiplier on the automatic comb scale (teeth of the model's typical
-        curvature reach a tenth of the model size at gain 1).
+        Multiplier on the automatic comb scale (the longest tooth of the
+        sections on screen reaches a tenth of the model size at gain 1).
     comb_density : int
         Teeth per model size of arc length.
     selected : int
