@@ -25,6 +25,7 @@ STEAMER = ROOT / "sample_surfaces" / "steamer_body.stp"
 ARTIFACTS = Path(__file__).resolve().parent / "artifacts"
 LOAD_MS = 120_000
 CORNER_MM = 1e-6  # a corner extremum sits on the seam's point
+TOOTH_RTOL = 0.02
 
 
 @pytest.fixture
@@ -72,6 +73,7 @@ def test_a_gently_curved_section_shows_its_comb(qtbot, steamer):
     steepest = max(float(np.abs(c.curvature).max()) for c in w.session.sections)
     assert steepest < 0.25 * w.session.loaded.curvature_scale  # gentle against the model's typical bend
     teeth = np.concatenate([np.linalg.norm(c.tips - c.roots, axis=1) for c in w.session.combs])
-    assert teeth.max() == pytest.approx(COMB_REACH * w.session.model.size, rel=1e-9)
+    # teeth stand a comb spacing apart: the curve's peak may fall between two of them
+    assert teeth.max() == pytest.approx(COMB_REACH * w.session.model.size, rel=TOOTH_RTOL)
     w.view.view_xz()
     shoot(w, "steamer-gentle-comb")

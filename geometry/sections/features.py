@@ -35,6 +35,10 @@ JUMP_WIDTH = 1e-7
 # Every this many steps, a bracket that has not halved since the last check is bisected.
 SAFEGUARD_EVERY = 4
 JUMP_FRACTION = 1e-3
+# Two faces whose curvatures at a seam's point differ by less than this share meet
+# curvature-continuously there: a turn of dk/ds across that seam is an extremum (the
+# corner peaks of a rounded box split into faces at its corners), not a jump.
+SEAM_CONTINUITY = 1e-3
 
 # probe(ia, ib, t) -> dict with "points", "uv", "faces", "curvature", "slope" at
 # the curve point a fraction t of the way from sample ia to sample ib.
@@ -125,7 +129,7 @@ def _features(
     curve: dict,
     probe: Probe,
     closed: bool,
-    allow_seams: bool,
+    continuous_seams_only: bool,
 ) -> CurvePoints:
     i, j = _sign_changes(signs, closed)
     n = signs.size
@@ -136,6 +140,9 @@ def _features(
     bracket = adjacent & same_piece & (spans[i] == spans[j])
     knot = adjacent & same_piece & (spans[i] != spans[j])
     seam = adjacent & ~same_piece
+    if continuous_seams_only:
+        k = curve["curvature"]
+        seam &= np.abs(k[i] - k[j]) <= SEAM_CONTINUITY * np.maximum(np.abs(k[i]), np.abs(k[j]))
     flat = ~adjacent
     parts = []
     if np.any(bracket):
@@ -159,7 +166,7 @@ def _features(
         no = np.zeros(ia.size, bool)
         parts.append((at["points"], s, at["faces"], at["uv"], at["curvature"], signs[ia] < 0, no, no))
     for mask, where in ((seam, "seam"), (knot, "knot"), (flat, "flat")):
-        if not np.any(mask) or (where == "seam" and not allow_seams):
+        if not np.any(mask):
             continue
         # at a seam or a knot: the point after the jump; a flat run: its middle sample
         ia, ib = i[mask], j[mask]
@@ -219,8 +226,9 @@ def analyse_features(
     slope_band = max(EXTREMUM_BAND * kmax / max(length, 1e-300), 1.0 / (STRAIGHT_RADIUS * model_size**2))
     # limits at singular samples (poles) are too rough to carry a sign of their own
     known = ~curve["singular"]
-    inflections = _features("curvature", _band_signs(k, k_band) * known, curve, probe, closed, True)
-    extrema = _features("slope", _band_signs(slope, slope_band) * known, curve, probe, closed, False)
+    inflections = _features("curvature", _band_signs(k, k_band) * known, curve, probe, closed, False)
+    # a curvature jump at a seam is the seam check's; a turn of dk/ds where k is continuous is an extremum
+    extrema = _features("slope", _band_signs(slope, slope_band) * known, curve, probe, closed, True)
     same = curve["spans"][1:] == curve["spans"][:-1]
     ds = np.diff(s)[same]
     sq = slope**2
