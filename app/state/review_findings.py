@@ -216,5 +216,7 @@ def unchecked_faces(model: Model, samples: tuple[FaceSamples, ...]) -> list[Find
         # an unevaluable face is in the model (focus on its control net); a skipped one is not
         inside = n < len(unevaluable)
         where = model.faces[unevaluable[n][0]].surface.poles.reshape(-1, 3).mean(axis=0) if inside else centre
-        found.append(FindingEntry(f.kind, f.subject, f.verdict, where, max(model.size / 4, 1.0), f.subject))
+        place = face_label(model, unevaluable[n][0]) if inside else "left out by the reader"
+        extent = max(model.size / 4, 1.0)
+        found.append(FindingEntry(f.kind, f.subject, f.verdict, where, extent, f.subject, place=place))
     return found
