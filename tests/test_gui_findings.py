@@ -114,18 +114,18 @@ def test_tree_groups_by_kind_and_face_and_the_pane_reads_in_full(qtbot, lid):
     assert len(tops) == len(kinds)
     for top in tops:  # only groups with a failing entry start open: this lid passes
         assert not top.isExpanded()
-        assert all(f.verdict != "fail" for f in w.session.findings if top.text(0).startswith(f"{_words(f)} ("))
+        assert all(f.verdict != "fail" for f in w.session.findings if top.text(1).startswith(f"{_words(f)} ("))
     leaves = panel.entries()
     assert len(leaves) == len(w.session.findings)
-    titles = [item.text(0) for item in leaves]
+    titles = [item.text(1) for item in leaves]
     assert len(set(titles)) == len(titles)
     # grouped by face under each kind: the curvature notes sit under their faces' names
-    curvature = next(top for top in tops if top.text(0).startswith("tightest spot"))
+    curvature = next(top for top in tops if top.text(1).startswith("tightest spot"))
     assert curvature.childCount() >= 1
     # no title is cut: the column is as wide as its longest text
     metrics = tree.fontMetrics()
     widest = max(metrics.horizontalAdvance(t) for t in titles)
-    assert tree.header().sectionSize(0) >= widest
+    assert tree.header().sectionSize(1) >= widest
     index = max(range(len(w.session.findings)), key=lambda i: len(w.session.findings[i].detail))
     click_finding(qtbot, w, index)
     finding = w.session.findings[index]
@@ -158,11 +158,11 @@ def test_while_a_model_loads_no_old_findings_show(qtbot, window):
 def test_failing_groups_open_and_notes_folded(qtbot, window):
     window.session.show_model(demo_model())  # its seam fails (G0 where G2 is asked)
     tree = window.findings_panel.tree
-    tops = {tree.topLevelItem(i).text(0).split(" (")[0]: tree.topLevelItem(i) for i in range(tree.topLevelItemCount())}
+    tops = {tree.topLevelItem(i).text(1).split(" (")[0]: tree.topLevelItem(i) for i in range(tree.topLevelItemCount())}
     assert tops["seams"].isExpanded()
     assert not tops["tightest spot of each face"].isExpanded()
     tops["tightest spot of each face"].setExpanded(True)  # the user's choice survives a redraw
     window.session.set_section(enabled=True)
-    tops = {tree.topLevelItem(i).text(0).split(" (")[0]: tree.topLevelItem(i) for i in range(tree.topLevelItemCount())}
+    tops = {tree.topLevelItem(i).text(1).split(" (")[0]: tree.topLevelItem(i) for i in range(tree.topLevelItemCount())}
     assert tops["tightest spot of each face"].isExpanded()
     shoot(window, "demo-findings-tree")

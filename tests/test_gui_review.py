@@ -75,7 +75,7 @@ def test_accepting_a_finding_saves_the_review_file(qtbot, window, tmp_path):
     assert decision.decision == ACCEPTED and decision.reviewer == "Ada Example"
     assert decision.measure == "curvature jump" and decision.value == pytest.approx(1.0)
     assert "accepted by Ada Example" in editor.current.text()
-    titles = [item.text(0) for item in window.findings_panel.entries()]
+    titles = [item.text(1) for item in window.findings_panel.entries()]
     assert any("[accepted: Ada Example]" in t for t in titles)
     shoot(window, "review-decision")
     # The window's decision applies to the check of the same model.

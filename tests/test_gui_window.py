@@ -131,7 +131,7 @@ def test_findings_filter_by_verdict(qtbot, window):
     panel = window.findings_panel
     panel.verdict.setCurrentIndex(panel.verdict.findData("fail"))
     assert 0 < len(panel.entries()) < len(window.session.findings)
-    assert all(item.text(1) == "fail" for item in panel.entries())
+    assert all(item.text(0) == "fail" for item in panel.entries())
 
 
 def test_broken_file_shows_a_dialog_and_keeps_the_model(qtbot, window, tmp_path, monkeypatch):
@@ -291,9 +291,9 @@ def test_findings_name_faces_and_filter_section_extrema(qtbot, window):
     panel.kind.setCurrentIndex(panel.kind.findData("section_extremum"))
     shown = panel.entries()
     assert len(shown) == sum(len(c.extrema) for c in window.session.sections) > 0
-    assert all(": curvature m" in item.text(0) for item in shown)
+    assert all(": curvature m" in item.text(1) for item in shown)
     panel.kind.setCurrentIndex(panel.kind.findData("free_edge"))
-    assert panel.entries()[0].text(0).startswith("free edge of side_panel")  # the face's name in the file
+    assert panel.entries()[0].text(1).startswith("free edge of side_panel")  # the face's name in the file
 
 
 def test_graph_draws_every_point_of_the_curve(qtbot, window):

@@ -105,12 +105,16 @@ def test_reflection_stripes_follow_the_camera(scene, session):
     assert not np.allclose(scene.surface.point_data["stripe"], before)
 
 
-def test_focus_moves_the_camera_onto_a_finding(scene, session):
-    finding = session.findings[0]
+def test_focus_frames_the_whole_finding(scene, session):
+    finding = session.findings[0]  # the demo's seam, along its whole 60 mm edge
     start = np.array(scene.plotter.camera.position)
     scene.focus(finding)
-    assert_allclose(scene.plotter.camera.focal_point, finding.position)
+    lo, hi = finding.path.min(axis=0), finding.path.max(axis=0)
+    assert_allclose(scene.plotter.camera.focal_point, (lo + hi) / 2)  # the item's middle, not its worst point
     assert not np.allclose(scene.plotter.camera.position, start)
+    seen = scene.to_display(finding.path)
+    size = np.array(scene.plotter.render_window.GetSize(), float)
+    assert (seen > 0).all() and (seen < size).all()  # every point of the seam in view
     assert scene.actors["mark_point"].GetVisibility()
 
 

@@ -21,6 +21,9 @@ from app.state.finding_groups import KindGroup, place_of
 from app.state.revisions import decision_mark
 
 ROLE = Qt.ItemDataRole.UserRole
+# The verdict stands first, narrow, where it cannot be pushed out of sight by a long title.
+VERDICT_COLUMN, TEXT_COLUMN = 0, 1
+VERDICT_PIXELS = 48
 
 
 def _count(total: int, failing: int) -> str:
@@ -28,8 +31,8 @@ def _count(total: int, failing: int) -> str:
 
 
 def _verdict_cell(item: QTreeWidgetItem, verdict: str) -> None:
-    item.setText(1, verdict)
-    item.setForeground(1, QBrush(QColor(VERDICT.get(verdict, VERDICT["note"]))))
+    item.setText(VERDICT_COLUMN, verdict)
+    item.setForeground(VERDICT_COLUMN, QBrush(QColor(VERDICT.get(verdict, VERDICT["note"]))))
 
 
 class FindingsTree(QTreeWidget):
@@ -47,14 +50,16 @@ class FindingsTree(QTreeWidget):
         self.session = session
         self.kind_words = kind_words
         self._folding: dict[tuple, bool] = {}  # groups the user opened or closed, by (kind, place)
-        self.setHeaderLabels(["Finding", "Verdict"])
+        self.setHeaderLabels(["Verdict", "Finding"])
+        self.setTreePosition(TEXT_COLUMN)  # the branches open in the text's column
         self.setTextElideMode(Qt.TextElideMode.ElideNone)  # never cut a title: scroll sideways instead
         self.setHorizontalScrollBarPolicy(Qt.ScrollBarPolicy.ScrollBarAsNeeded)
         self.setHorizontalScrollMode(QAbstractItemView.ScrollMode.ScrollPerPixel)
         header = self.header()
         header.setStretchLastSection(False)
-        header.setSectionResizeMode(0, QHeaderView.ResizeMode.ResizeToContents)
-        header.setSectionResizeMode(1, QHeaderView.ResizeMode.ResizeToContents)
+        header.setSectionResizeMode(VERDICT_COLUMN, QHeaderView.ResizeMode.Fixed)
+        header.resizeSection(VERDICT_COLUMN, VERDICT_PIXELS)
+        header.setSectionResizeMode(TEXT_COLUMN, QHeaderView.ResizeMode.ResizeToContents)
         self.setUniformRowHeights(True)
         self.currentItemChanged.connect(lambda item, _previous: self._choose(item))
         self.itemClicked.connect(lambda item, _col: self._choose(item))
@@ -62,30 +67,30 @@ class FindingsTree(QTreeWidget):
         self.itemCollapsed.connect(lambda item: self._remember(item, False))
 
     def _choose(self, item) -> None:
-        if item is not None and item.data(0, ROLE) is not None:
-            self.chosen.emit(int(item.data(0, ROLE)))
+        if item is not None and item.data(TEXT_COLUMN, ROLE) is not None:
+            self.chosen.emit(int(item.data(TEXT_COLUMN, ROLE)))
 
     def _remember(self, item, open_: bool) -> None:
-        key = item.data(1, ROLE)
+        key = item.data(VERDICT_COLUMN, ROLE)
         if key is not None:
             self._folding[tuple(key)] = open_
 
     def _group_item(self, parent, text: str, key: tuple, failing: int, default_open: bool) -> QTreeWidgetItem:
-        item = QTreeWidgetItem(parent, [text])
-        item.setData(1, ROLE, list(key))
+        item = QTreeWidgetItem(parent, ["", text])
+        item.setData(VERDICT_COLUMN, ROLE, list(key))
         if failing:
             _verdict_cell(item, str(Verdict.FAIL))
-        font = item.font(0)
+        font = item.font(TEXT_COLUMN)
         font.setBold(parent is self)
-        item.setFont(0, font)
+        item.setFont(TEXT_COLUMN, font)
         item.setExpanded(self._folding.get(key, default_open))
         return item
 
     def _entry_item(self, parent, index: int, finding: FindingEntry) -> QTreeWidgetItem:
-        item = QTreeWidgetItem(parent, [finding.title + decision_mark(self.session, finding)])
+        item = QTreeWidgetItem(parent, ["", finding.title + decision_mark(self.session, finding)])
         _verdict_cell(item, str(finding.verdict))
-        item.setData(0, ROLE, index)
-        item.setToolTip(0, finding.detail or finding.title)
+        item.setData(TEXT_COLUMN, ROLE, index)
+        item.setToolTip(TEXT_COLUMN, finding.detail or finding.title)
         return item
 
     def show_groups(self, groups: list[KindGroup]) -> None:
@@ -115,13 +120,13 @@ class FindingsTree(QTreeWidget):
         found, stack = [], [self.topLevelItem(i) for i in reversed(range(self.topLevelItemCount()))]
         while stack:
             item = stack.pop()
-            if item.data(0, ROLE) is not None:
+            if item.data(TEXT_COLUMN, ROLE) is not None:
                 found.append(item)
             stack.extend(item.child(i) for i in reversed(range(item.childCount())))
         return found
 
     def item_for(self, index: int) -> QTreeWidgetItem | None:
-        return next((item for item in self.leaves() if item.data(0, ROLE) == index), None)
+        return next((item for item in self.leaves() if item.data(TEXT_COLUMN, ROLE) == index), None)
 
 
 class FindingDetail(QTextBrowser):

@@ -105,6 +105,7 @@ class SectionPanel(QWidget):
         plane = QGroupBox("Plane")
         form = QFormLayout(plane)
         form.addRow(self.enabled)
+        form.addRow(self.readout)  # first, where it stays in sight as the plane moves
         for axis, box in zip("xyz", self.origin, strict=True):
             form.addRow(f"Point {axis}", box)
         normal_row = _row(*self.normal)
@@ -116,7 +117,6 @@ class SectionPanel(QWidget):
         form.addRow(_row(self.back, self.forward))
         form.addRow(self.snap)
         form.addRow(self.centre)
-        form.addRow(self.readout)
         form.addRow(self.message)
         family = QGroupBox("Sections and combs")
         fform = QFormLayout(family)
