@@ -238,7 +238,7 @@ def test_exported_image_has_no_tool_widgets(qtbot, window, tmp_path):
     window.session.show_model(demo_model())
     window.session.set_display(mode=Mode.CURVATURE)
     window.session.set_section(enabled=True, normal=(0.0, 1.0, 0.0))
-    plane = window._plane_widget
+    plane = window.plane_handle.widget
     assert plane is not None and plane.GetEnabled()
     view = window.view
     view.render()
