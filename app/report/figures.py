@@ -168,6 +168,9 @@ class _Pictures:
 
     def take(self, name: str, caption: str) -> Figure:
         self.scene.place_legend(PRINT_LEGEND)  # set just before the shot: a new bar takes the window's place
+        # VTK lays a scalar bar's text out one render behind a change of its font sizes: render once first,
+        # or the picture carries the window's small legend text.
+        self.plotter.render()
         return Figure(name, caption, _png(self.plotter))
 
     def close(self) -> None:
