@@ -59,7 +59,7 @@ def test_report_is_written_while_the_window_keeps_working(qtbot, window, tmp_pat
     assert target.read_bytes()[:5] == b"%PDF-" and b"%%EOF" in target.read_bytes()[-1024:]
     assert sum(ticks) > 3  # the event loop ran while the report was being written
     assert [p for p, _ in seen] == sorted(p for p, _ in seen) and seen[-1][0] == 100
-    assert any("pictures" in text for _, text in seen)
+    assert any("pictures" in text for _, text in seen) and any("seams 1 of 1" in text for _, text in seen)
     assert not window.export_status.isVisible()
     assert leftovers(tmp_path) == []
 

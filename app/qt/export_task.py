@@ -16,11 +16,13 @@ import sys
 import tempfile
 from pathlib import Path
 
-from PySide6.QtCore import QObject, QProcess, QProcessEnvironment, QTimer, Signal
+from PySide6.QtCore import QObject, QProcess, QProcessEnvironment, Qt, QTimer, Signal
 from PySide6.QtWidgets import QHBoxLayout, QLabel, QProgressBar, QToolButton, QWidget
 
 from app.report.window_export import ExportRequest
 
+# Characters of the export's current step shown in the status bar (the rest in its tooltip).
+LABEL_CHARACTERS = 44
 # How long a cancelled export may take to remove its temporary file before it is killed (ms).
 STOP_GRACE_MS = 10_000
 
@@ -164,7 +166,10 @@ class ExportStatus(QWidget):
 
     def _progress(self, percent: int, text: str) -> None:
         self.bar.setValue(percent)
-        self.label.setText(text if len(text) <= 60 else text[:57] + "...")
+        # a permanent status widget keeps its first width: give the words room, the whole line in the tip
+        width = self.label.fontMetrics().horizontalAdvance("x" * LABEL_CHARACTERS)
+        self.label.setMinimumWidth(width)
+        self.label.setText(self.label.fontMetrics().elidedText(text, Qt.TextElideMode.ElideMiddle, width))
         self.label.setToolTip(text)
 
     def _cancel(self) -> None:

@@ -12,6 +12,7 @@ the write the atomic writer removes its temporary file before the process ends.
 from __future__ import annotations
 
 import pickle
+import re
 import sys
 from dataclasses import dataclass, replace
 from pathlib import Path
@@ -23,6 +24,7 @@ from geometry.model import Model
 EXIT_WRITTEN, EXIT_FAILED = 0, 2
 # share of the work done when each stage starts (for the progress bar)
 STAGES = {"check": 0.02, "pictures": 0.55, "writing": 0.9}
+SEAMS_DONE = re.compile(r"seams (\d+) of (\d+)")  # the check's progress line (DEVELOPERS.md, Seams)
 
 
 @dataclass(frozen=True)
@@ -72,6 +74,14 @@ def request_for(session, path: str) -> ExportRequest:
     )
 
 
+def check_fraction(line: str) -> float:
+    """Share of the export done at a progress line of the check: the seams, measured in batches, take most of it."""
+    found = SEAMS_DONE.search(line)
+    if found is None or int(found[2]) == 0:
+        return STAGES["check"]
+    return STAGES["check"] + (STAGES["pictures"] - STAGES["check"]) * int(found[1]) / int(found[2])
+
+
 def _quiet(_fraction: float, _text: str) -> None:
     pass
 
@@ -94,16 +104,22 @@ def write_requested(request: ExportRequest, progress=_quiet) -> Path:
 
     from . import render_figures, write_report
 
-    progress(STAGES["check"], "checking the model")
-    review = review_model(request.model, request.settings, lambda line: progress(STAGES["check"], line))
+    reached = [0.0]
+
+    def say(fraction: float, text: str) -> None:  # the bar never runs backwards
+        reached[0] = max(reached[0], fraction)
+        progress(reached[0], text)
+
+    say(STAGES["check"], "checking the model")
+    review = review_model(request.model, request.settings, lambda line: say(check_fraction(line), line))
     if request.review_file is not None:
         review = apply_review(review, request.review_file)
     comparison = request.comparison
     if comparison is not None:
         comparison = replace(comparison, new=review)
-    progress(STAGES["pictures"], "drawing the pictures")
+    say(STAGES["pictures"], "drawing the pictures")
     figures = render_figures(request.model, review, request.stripes, request.section)
-    progress(STAGES["writing"], f"writing {request.path}")
+    say(STAGES["writing"], f"writing {request.path}")
     return write_report(request.path, [review], [figures], comparison=comparison, inputs=request.inputs)
 
 
