@@ -154,3 +154,20 @@ def test_a_narrowed_range_reaches_map_and_legend(scene, session, mode):
     assert_allclose(mapper, auto)
     assert_allclose(legend, auto)
     assert len(scene.plotter.scalar_bars) == 1
+
+
+@pytest.mark.parametrize("width", [320, 420, 900])
+def test_the_legend_text_fits_a_narrow_view(session, width):
+    # A legend placed in fixed viewport units cut its title off in a narrow view ("Mean curvatur").
+    session.set_display(mode=Mode.CURVATURE)
+    plotter = pv.Plotter(off_screen=True, window_size=(width, 500))
+    plotter.set_background("white")
+    scene = Scene(plotter, session)
+    scene.rebuild()
+    plotter.set_background("white")
+    scene.update_surface()
+    pixels = plotter.screenshot(return_img=True)[..., :3].astype(int)
+    plotter.close()
+    assert scene.legend is not None
+    edge = pixels[:, -3:]
+    assert (edge.sum(axis=2) < 300).sum() == 0  # no dark text pixel touches the right edge

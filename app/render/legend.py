@@ -12,7 +12,7 @@ draws as the same upright stroke.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from importlib.util import find_spec
 from pathlib import Path
 
@@ -53,6 +53,35 @@ WINDOW_LEGEND = LegendPlace(0.87, 0.3, 0.05, 0.5, TITLE_SIZE, LABEL_SIZE)
 PRINT_LEGEND = LegendPlace(0.8, 0.26, 0.045, 0.54, 32, 30)
 # How far (share of half the view's width) the model moves left while a legend is shown.
 SHIFT = 0.14
+# Width of a DejaVu Sans character, as a share of the font size (a generous average), and the least gap
+# kept between the legend's text and the view's right edge, pixels.
+CHARACTER_WIDTH = 0.62
+EDGE_GAP_PX = 6
+
+
+def fitted(where: LegendPlace, title: str, labels: tuple[str, ...], view_px: int) -> LegendPlace:
+    """``where`` moved left just enough that the title (centred over the bar) and the tick labels fit the view.
+
+    A fixed place in viewport units cut the title off in a narrow view (``Mean curvatur``).
+
+    Parameters
+    ----------
+    where : LegendPlace
+    title : str
+        The title as drawn; its longest line counts.
+    labels : tuple of str
+        The tick labels as drawn; the longest counts.
+    view_px : int
+        Width of the view in pixels.
+    """
+    if view_px <= 0:
+        return where
+    title_px = CHARACTER_WIDTH * where.title_size * max((len(line) for line in title.split("\n")), default=0)
+    label_px = CHARACTER_WIDTH * where.label_size * max((len(text) for text in labels), default=0) + 8
+    gap, half_bar = EDGE_GAP_PX / view_px, where.width / 2
+    # the title is centred on the bar; the labels stand right of it
+    x = min(where.x, 1 - gap - half_bar - title_px / 2 / view_px, 1 - gap - where.width - label_px / view_px)
+    return replace(where, x=max(x, 0.0))
 
 
 def measure_title(measure: Measure) -> str:

@@ -17,7 +17,17 @@ from app.state.settings import MEASURE_UNITS, STRIPE_MODES, VALUE_MODES, Measure
 from . import colours
 from .combs import comb_envelopes, comb_teeth, marker_points, polylines, section_curves
 from .framing import framing
-from .legend import SHIFT, WINDOW_LEGEND, LegendPlace, clipped_ends, ends_text, measure_title, place_legend, tick_format
+from .legend import (
+    SHIFT,
+    WINDOW_LEGEND,
+    LegendPlace,
+    clipped_ends,
+    ends_text,
+    fitted,
+    measure_title,
+    place_legend,
+    tick_format,
+)
 from .meshes import FaceMesh, face_mesh
 from .seams import seam_lines
 from .stripes import stripe_range, stripe_table
@@ -85,6 +95,8 @@ class Scene:
             # Multisampling smooths triangle edges only; FXAA also smooths stripe edges inside triangles
             # (the report's off-screen pictures are supersampled instead).
             plotter.enable_anti_aliasing("fxaa")
+            # a narrower view (a dock widened, the window resized) moves the legend so its text still fits
+            plotter.render_window.AddObserver("WindowResizeEvent", lambda *_: self.place_legend())
 
     # -- whole model -----------------------------------------------------
     def rebuild(self) -> None:
@@ -211,7 +223,12 @@ class Scene:
         """Put the legend (bar, title, clipped ends) at ``where`` with its font sizes (window or print)."""
         if self.legend is None or self.legend not in self.plotter.scalar_bars:
             return
-        place_legend(self.plotter.scalar_bars[self.legend], self.legend_ends, where)
+        bar = self.plotter.scalar_bars[self.legend]
+        low, high = bar.GetLookupTable().GetRange()
+        labels = tuple(bar.GetLabelFormat() % v for v in (low, high))
+        left, _, right, _ = self.plotter.renderer.GetViewport()
+        view_px = int(self.plotter.window_size[0] * (right - left))
+        place_legend(bar, self.legend_ends, fitted(where, self.legend, labels, view_px))
 
     def update_stripes(self, render: bool = True) -> None:
         """Recompute the stripe parameter (after a camera move in reflection mode)."""
