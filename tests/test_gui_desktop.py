@@ -18,6 +18,7 @@ import pytest
 pytest.importorskip("pyvistaqt")
 
 from PySide6.QtGui import QImage  # noqa: E402
+from PySide6.QtWidgets import QDockWidget  # noqa: E402
 
 from app.cli import EXIT_BAD_INPUT, main  # noqa: E402
 from app.qt import file_dialogs  # noqa: E402
@@ -321,3 +322,18 @@ def test_a_bad_file_in_an_empty_window_does_not_claim_a_model_is_kept(qtbot, win
     with qtbot.waitSignal(window.open_failed, timeout=LOAD_MS):
         window.open_file(str(empty))
     assert "already shown is kept" in messages[-1]
+
+
+def test_the_panels_menu_shows_and_hides_each_panel(qtbot, window):
+    entries = menu_actions(window, "Panels")
+    docks = {d.windowTitle(): d for d in window.findChildren(QDockWidget)}
+    assert set(docks) | {"Display modes"} <= set(entries)
+    for title, dock in docks.items():
+        action = entries[title]
+        assert action.isChecked() and dock.isVisible(), title
+        action.trigger()
+        assert not dock.isVisible() and not action.isChecked(), title
+        action.trigger()
+        assert dock.isVisible() and action.isChecked(), title
+    entries["Display modes"].trigger()
+    assert window.mode_bar.isHidden()

@@ -111,6 +111,20 @@ class ViewActions:
         menu.addAction(self.parallel)
 
 
+def panel_toggle(panel, parent: QMainWindow) -> QAction:
+    """A checked menu entry that shows and hides a dock or tool bar, made here rather than taken from Qt.
+
+    ``toggleViewAction()`` hands back an action Qt made; on PySide6 6.11 its
+    wrapper could come back as a stale wrapper of another type at the same
+    address (a ``QSurface``, seen once in CI), so the window builds its own.
+    """
+    action = QAction(panel.windowTitle(), parent, checkable=True)
+    action.setChecked(not panel.isHidden())
+    action.toggled.connect(panel.setVisible)
+    panel.visibilityChanged.connect(action.setChecked)
+    return action
+
+
 def help_menu(window: QMainWindow) -> QMenu:
     """Help: the guide (F1) and what Batten is built on."""
     menu = window.menuBar().addMenu("&Help")

@@ -210,9 +210,8 @@ class MainWindow(QMainWindow):
         self.mode_bar = menus.mode_toolbar(self, self.modes)
         self.menuBar().addMenu("&Section").addActions(self.section_panel.nudge_actions(self))
         docks = self.menuBar().addMenu("&Panels")
-        for dock in self.findChildren(QDockWidget):
-            docks.addAction(dock.toggleViewAction())
-        docks.addAction(self.mode_bar.toggleViewAction())
+        for panel in (*self.findChildren(QDockWidget), self.mode_bar):
+            docks.addAction(menus.panel_toggle(panel, self))
         menus.help_menu(self)
 
     def _build_status(self) -> None:
