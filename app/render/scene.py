@@ -232,8 +232,9 @@ class Scene:
         place = fitted(where, self.legend, labels, view_px)
         place_legend(bar, self.legend_ends, place)
         if where is WINDOW_LEGEND:
-            # the model moves left to the middle of what the legend leaves free (half-widths of the view)
-            self.plotter.camera.SetWindowCenter(max(SHIFT, 1.0 - place.x), 0.0)
+            # the model moves left a little, so the bar covers less of it; further would push it out of a
+            # narrow view (fitting it to the free area would need a zoom that fights the user's own)
+            self.plotter.camera.SetWindowCenter(SHIFT, 0.0)
 
     def update_stripes(self, render: bool = True) -> None:
         """Recompute the stripe parameter (after a camera move in reflection mode)."""
