@@ -104,11 +104,14 @@ def test_an_interrupt_while_writing_keeps_the_old_file_and_leaves_nothing(tmp_pa
         os.kill(os.getpid(), signum)  # arrives in the middle of the (native) writer
 
     previous = signal.signal(signal.SIGTERM, _terminate)  # as the command line sets it
+    # a run started in the background of a shell without job control inherits SIGINT ignored
+    previous_int = signal.signal(signal.SIGINT, signal.default_int_handler)
     try:
         with pytest.raises(KeyboardInterrupt if signum == signal.SIGINT else SystemExit):
             write_atomically(target, interrupted, verify=pdf_complete)
     finally:
         signal.signal(signal.SIGTERM, previous)
+        signal.signal(signal.SIGINT, previous_int)
     assert target.read_bytes() == OLD
     assert _leftovers(tmp_path) == []
 
