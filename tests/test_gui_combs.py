@@ -14,41 +14,29 @@ import pytest
 
 pytest.importorskip("pyvistaqt")
 
-from app.qt.window import MainWindow  # noqa: E402
-from app.state import Mode, Session  # noqa: E402
+from app.state import Mode  # noqa: E402
 from app.state.sectioning import COMB_REACH  # noqa: E402
+from tests.gui_support import shoot, show_window  # noqa: E402
 
 pytestmark = pytest.mark.gui
 
 ROOT = Path(__file__).resolve().parents[1]
 STEAMER = ROOT / "sample_surfaces" / "steamer_body.stp"
-ARTIFACTS = Path(__file__).resolve().parent / "artifacts"
 LOAD_MS = 120_000
 CORNER_MM = 1e-6  # a corner extremum sits on the seam's point
 TOOTH_RTOL = 0.02
 
 
 @pytest.fixture
-def steamer(qtbot, tmp_path, monkeypatch):
+def steamer(qtbot):
     if not STEAMER.is_file():
         pytest.skip("samples not built")
-    monkeypatch.setenv("XDG_CONFIG_HOME", str(tmp_path))
-    w = MainWindow(Session(), multi_samples=0)
-    qtbot.addWidget(w)
-    w.resize(1280, 860)
-    w.show()
-    qtbot.waitExposed(w)
+    w = show_window(qtbot, (1280, 860))
     with qtbot.waitSignals([w.model_shown, w.seams_measured], timeout=LOAD_MS):
         w.open_file(str(STEAMER))
     w.session.set_display(mode=Mode.CURVATURE)
     yield w
     w.close()
-
-
-def shoot(w: MainWindow, name: str) -> None:
-    ARTIFACTS.mkdir(exist_ok=True)
-    w.view.update()
-    assert w.grab().save(str(ARTIFACTS / f"{name}.png"))
 
 
 def test_a_cross_section_marks_its_corner_peaks_and_its_flattest_points(qtbot, steamer):

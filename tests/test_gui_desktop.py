@@ -30,11 +30,11 @@ from app.qt.window import MainWindow  # noqa: E402
 from app.state import Measure, Mode, Session  # noqa: E402
 from app.state.demo import demo_model  # noqa: E402
 from app.state.recent import RecentFiles  # noqa: E402
+from tests.gui_support import ARTIFACTS, shoot  # noqa: E402
 
 pytestmark = pytest.mark.gui
 
 SAMPLES = Path(__file__).resolve().parents[1] / "sample_surfaces"
-ARTIFACTS = Path(__file__).resolve().parent / "artifacts"
 SMALL_SAMPLE = SAMPLES / "hood_visor.stp"
 LOAD_MS = 120_000
 
@@ -58,13 +58,6 @@ def window(qtbot, memory):
     w.resize(1280, 800)
     yield w
     w.close()
-
-
-def shoot(widget, name: str) -> Path:
-    ARTIFACTS.mkdir(exist_ok=True)
-    target = ARTIFACTS / f"{name}.png"
-    assert widget.grab().save(str(target))
-    return target
 
 
 def menu_actions(w: MainWindow, title: str) -> dict[str, object]:

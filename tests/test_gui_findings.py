@@ -15,26 +15,21 @@ pytest.importorskip("pyvistaqt")
 from PySide6.QtCore import Qt  # noqa: E402
 
 from app.qt.window import MainWindow  # noqa: E402
-from app.state import Mode, Session  # noqa: E402
+from app.state import Mode  # noqa: E402
 from app.state.demo import demo_model  # noqa: E402
+from tests.gui_support import shoot, show_window  # noqa: E402
 
 pytestmark = pytest.mark.gui
 
 ROOT = Path(__file__).resolve().parents[1]
 LID = ROOT / "sample_surfaces" / "console_lid.stp"
-ARTIFACTS = Path(__file__).resolve().parent / "artifacts"
 LOAD_MS = 120_000
 FRAME_MARGIN_SHARE = 0.03  # each framed point stays this share of the view inside its edges
 
 
 @pytest.fixture
-def window(qtbot, tmp_path, monkeypatch):
-    monkeypatch.setenv("XDG_CONFIG_HOME", str(tmp_path))
-    w = MainWindow(Session(), multi_samples=0)
-    qtbot.addWidget(w)
-    w.resize(1280, 860)
-    w.show()
-    qtbot.waitExposed(w)
+def window(qtbot):
+    w = show_window(qtbot, (1280, 860))
     yield w
     w.close()
 
@@ -47,12 +42,6 @@ def lid(qtbot, window):
         window.open_file(str(LID))
     window.session.set_display(mode=Mode.CURVATURE)
     return window
-
-
-def shoot(w: MainWindow, name: str) -> None:
-    ARTIFACTS.mkdir(exist_ok=True)
-    w.view.update()
-    assert w.grab().save(str(ARTIFACTS / f"{name}.png"))
 
 
 def click_finding(qtbot, w: MainWindow, index: int) -> None:

@@ -13,10 +13,10 @@ import pytest
 pytest.importorskip("pyvistaqt")
 
 from app.qt import review_actions  # noqa: E402
-from app.qt.window import MainWindow  # noqa: E402
 from app.review.review_file import ACCEPTED, read_review_file  # noqa: E402
-from app.state import Mode, Session  # noqa: E402
-from tests.test_gui_window import LOAD_MS, open_and_wait, shoot  # noqa: E402
+from app.state import Mode  # noqa: E402
+from tests.gui_support import shoot, show_window  # noqa: E402
+from tests.test_gui_window import LOAD_MS, open_and_wait  # noqa: E402
 
 pytestmark = pytest.mark.gui
 
@@ -24,13 +24,8 @@ SAMPLES = Path(__file__).resolve().parents[1] / "sample_surfaces"
 
 
 @pytest.fixture
-def window(qtbot, tmp_path, monkeypatch):
-    monkeypatch.setenv("XDG_CONFIG_HOME", str(tmp_path))
-    w = MainWindow(Session(), multi_samples=0)
-    qtbot.addWidget(w)
-    w.resize(1400, 900)
-    w.show()
-    qtbot.waitExposed(w)
+def window(qtbot):
+    w = show_window(qtbot, (1400, 900))
     yield w
     w.close()
 

@@ -7,8 +7,6 @@ Screenshots go to tests/artifacts/ for a person to look at.
 
 from __future__ import annotations
 
-from pathlib import Path
-
 import numpy as np
 import pytest
 
@@ -16,13 +14,12 @@ pytest.importorskip("pyvistaqt")
 
 from PySide6.QtCore import Qt  # noqa: E402
 
-from app.qt.window import MainWindow  # noqa: E402
-from app.state import Mode, Session  # noqa: E402
+from app.state import Mode  # noqa: E402
 from app.state.demo import demo_model  # noqa: E402
+from tests.gui_support import shoot, show_window  # noqa: E402
 
 pytestmark = pytest.mark.gui
 
-ARTIFACTS = Path(__file__).resolve().parent / "artifacts"
 WAVE = 8.0  # mm, the demo panel's wave
 ON_PLANE = 1e-9  # mm
 
@@ -33,24 +30,13 @@ def bezier_height(x: float) -> float:
 
 
 @pytest.fixture
-def window(qtbot, tmp_path, monkeypatch):
-    monkeypatch.setenv("XDG_CONFIG_HOME", str(tmp_path))
-    w = MainWindow(Session(), multi_samples=0)
-    qtbot.addWidget(w)
-    w.resize(1280, 860)
-    w.show()
-    qtbot.waitExposed(w)
+def window(qtbot):
+    w = show_window(qtbot, (1280, 860))
     w.session.show_model(demo_model())
     w.session.set_display(mode=Mode.CURVATURE)
     w.section_panel.enabled.click()
     yield w
     w.close()
-
-
-def shoot(w: MainWindow, name: str) -> None:
-    ARTIFACTS.mkdir(exist_ok=True)
-    w.view.update()
-    assert w.grab().save(str(ARTIFACTS / f"{name}.png"))
 
 
 def type_into(qtbot, box, text: str) -> None:

@@ -21,14 +21,14 @@ from app.profiles import get_profile  # noqa: E402
 from app.qt import file_dialogs  # noqa: E402
 from app.qt import window as window_module  # noqa: E402
 from app.qt.window import MainWindow, camera_state  # noqa: E402
-from app.state import Mode, Session  # noqa: E402
+from app.state import Mode  # noqa: E402
 from app.state.demo import demo_model  # noqa: E402
+from tests.gui_support import shoot, show_window  # noqa: E402
 
 pytestmark = pytest.mark.gui
 
 ROOT = Path(__file__).resolve().parents[1]
 SAMPLES = ROOT / "sample_surfaces"
-ARTIFACTS = Path(__file__).resolve().parent / "artifacts"
 LOAD_MS = 120_000  # a loaded CI machine; the benchmark reports real times
 
 
@@ -41,13 +41,8 @@ def sample_files(kind: str) -> list[Path]:
 
 
 @pytest.fixture
-def window(qtbot, tmp_path, monkeypatch):
-    monkeypatch.setenv("XDG_CONFIG_HOME", str(tmp_path))
-    w = MainWindow(Session(), multi_samples=0)
-    qtbot.addWidget(w)
-    w.resize(1280, 800)
-    w.show()
-    qtbot.waitExposed(w)
+def window(qtbot):
+    w = show_window(qtbot, (1280, 800))
     yield w
     w.close()
 
@@ -56,14 +51,6 @@ def open_and_wait(qtbot, w: MainWindow, path: Path) -> None:
     """Open and wait until the model is shown and its seams are measured."""
     with qtbot.waitSignals([w.model_shown, w.seams_measured], timeout=LOAD_MS, raising=True):
         w.open_file(str(path))
-
-
-def shoot(w: MainWindow, name: str) -> Path:
-    ARTIFACTS.mkdir(exist_ok=True)
-    w.view.update()
-    target = ARTIFACTS / f"{name}.png"
-    assert w.grab().save(str(target))
-    return target
 
 
 @pytest.mark.parametrize("path", sample_files("step"), ids=lambda p: p.stem)
