@@ -178,9 +178,8 @@ class Scene:
             self.surface_actor = self.plotter.add_mesh(
                 mesh, scalars=None, color=colours.SURFACE, show_scalar_bar=False, **colours.SHADED_LIGHT, **common
             )
-        # With a legend at the right edge the model moves left (place_legend moves the view's centre right).
-        if self.legend is None:
-            self.plotter.camera.SetWindowCenter(0.0, 0.0)
+        # With a legend at the right edge the model moves left (the view's centre moves right), so they do not meet.
+        self.plotter.camera.SetWindowCenter(SHIFT if self.legend is not None else 0.0, 0.0)
         self._render()
 
     def _show_values(self, mesh: pv.PolyData, common: dict) -> None:
@@ -229,12 +228,7 @@ class Scene:
         labels = tuple(bar.GetLabelFormat() % v for v in (low, high))
         left, _, right, _ = self.plotter.renderer.GetViewport()
         view_px = int(self.plotter.window_size[0] * (right - left))
-        place = fitted(where, self.legend, labels, view_px)
-        place_legend(bar, self.legend_ends, place)
-        if where is WINDOW_LEGEND:
-            # the model moves left a little, so the bar covers less of it; further would push it out of a
-            # narrow view (fitting it to the free area would need a zoom that fights the user's own)
-            self.plotter.camera.SetWindowCenter(SHIFT, 0.0)
+        place_legend(bar, self.legend_ends, fitted(where, self.legend, labels, view_px))
 
     def update_stripes(self, render: bool = True) -> None:
         """Recompute the stripe parameter (after a camera move in reflection mode)."""

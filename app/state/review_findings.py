@@ -178,15 +178,22 @@ def section_notes(curves: tuple[SectionCurve, ...], where: tuple[tuple[int, int]
     return found
 
 
-def curvature_extremes(model: Model, samples: tuple[FaceSamples, ...]) -> list[FindingEntry]:
+def face_ranges(samples: tuple[FaceSamples, ...]) -> tuple:
+    """Each face's curvature range (:func:`app.review.faces.curvature_range`, None where nothing evaluates).
+
+    The one pass over the samples that :func:`curvature_extremes` and :func:`unchecked_faces` read.
+    """
+    return tuple(curvature_range(s.field, s.inside) for s in samples)
+
+
+def curvature_extremes(model: Model, samples: tuple[FaceSamples, ...], face_range: tuple) -> list[FindingEntry]:
     """The tightest spot (largest max |k|) of each face, tightest face first.
 
-    The radius is the face range's (:func:`app.review.faces.curvature_range`),
+    The radius is the face range's (``face_range``, from :func:`face_ranges`),
     the one ``batten summary`` and ``batten check`` print.
     """
     found = []
-    for s in samples:
-        ranges = curvature_range(s.field, s.inside)
+    for s, ranges in zip(samples, face_range, strict=True):
         if ranges is None or ranges.min_radius is None:
             continue
         i, j = ranges.tightest
@@ -202,13 +209,16 @@ def curvature_extremes(model: Model, samples: tuple[FaceSamples, ...]) -> list[F
     return [f for _, f in sorted(found, key=lambda pair: -pair[0])]
 
 
-def unchecked_faces(model: Model, samples: tuple[FaceSamples, ...]) -> list[FindingEntry]:
+def unchecked_faces(model: Model, samples: tuple[FaceSamples, ...], face_range: tuple) -> list[FindingEntry]:
     """A failing entry for each face not checked: none of its samples evaluates, or the reader left it out.
 
-    The same findings as ``batten check`` gives (:func:`app.review.findings.face_findings`).
+    The same findings as ``batten check`` gives (:func:`app.review.findings.face_findings`);
+    ``face_range`` is :func:`face_ranges` of the samples.
     """
     unevaluable = [
-        (s.face, unevaluable_reason(model.faces[s.face])) for s in samples if curvature_range(s.field, s.inside) is None
+        (s.face, unevaluable_reason(model.faces[s.face]))
+        for s, ranges in zip(samples, face_range, strict=True)
+        if ranges is None
     ]
     centre = model.bounds.mean(axis=0)
     found = []

@@ -31,6 +31,7 @@ from .review_findings import (
     curvature_extremes,
     curve_label,
     face_label,
+    face_ranges,
     judged_findings,
     section_notes,
     unchecked_faces,
@@ -150,8 +151,9 @@ class Session:
         self.loaded = loaded
         self.path = path
         # they depend on the samples alone: found once, not on every drag step of the plane
-        self._face_extremes = curvature_extremes(loaded.model, loaded.samples)
-        self._face_problems = unchecked_faces(loaded.model, loaded.samples)
+        ranges = face_ranges(loaded.samples)
+        self._face_extremes = curvature_extremes(loaded.model, loaded.samples, ranges)
+        self._face_problems = unchecked_faces(loaded.model, loaded.samples, ranges)
         lo, hi = loaded.model.bounds
         centre = tuple(float(x) for x in (lo + hi) / 2)
         spacing = max(loaded.model.size / 20, 1e-3)
