@@ -299,7 +299,7 @@ def test_graph_draws_every_point_of_the_curve(qtbot, window):
 
 
 def test_clicking_a_section_curve_shows_it_in_the_graph(qtbot, window):
-    import vtk
+    from vtkmodules.vtkRenderingCore import vtkCoordinate
 
     window.session.show_model(demo_model())
     window.session.set_section(enabled=True, normal=(0.0, 1.0, 0.0), count=3, spacing=12.0)
@@ -307,7 +307,7 @@ def test_clicking_a_section_curve_shows_it_in_the_graph(qtbot, window):
     qtbot.wait(50)
     curve = window.session.sections[2]
     # display pixel of a point on the third curve, by VTK's own world -> display conversion
-    coordinate = vtk.vtkCoordinate()
+    coordinate = vtkCoordinate()
     coordinate.SetCoordinateSystemToWorld()
     coordinate.SetValue(*curve.points[len(curve.points) // 3])
     x, y = coordinate.GetComputedDoubleDisplayValue(window.view.renderer)

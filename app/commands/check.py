@@ -12,7 +12,7 @@ from __future__ import annotations
 
 import argparse
 
-from app.commands import add_pull_argument
+from app.commands import add_pull_argument, signals_held
 
 from .reading import add_read_options, read_budget
 
@@ -115,8 +115,9 @@ def run(args: argparse.Namespace) -> int:
         review_text = read_review_text(args.review)  # a bad file stops the check here, naming file and line
     hooks = None
     if args.report:  # pyvista loads only for a run that draws
-        from app.report.figures import render_figures
-        from app.report.writers import write_report
+        with signals_held():  # an interrupt inside VTK's set-up crashed the process (exit 139)
+            from app.report.figures import render_figures
+            from app.report.writers import write_report
 
         hooks = ReportHooks(render=render_figures, write=write_report)
     options = BatchOptions(

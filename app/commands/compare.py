@@ -12,6 +12,8 @@ from __future__ import annotations
 import argparse
 import sys
 
+from app.commands import signals_held
+
 
 def add_arguments(parser: argparse.ArgumentParser) -> None:
     from app.commands.check import SPEC_HELP
@@ -76,8 +78,9 @@ def run(args: argparse.Namespace) -> int:
         write_atomically(args.json, json.dumps(json_ready(doc), indent=1, allow_nan=False) + "\n")
         say(f"wrote {args.json}")
     if args.report:
-        from app.report.figures import render_figures
-        from app.report.writers import write_report
+        with signals_held():  # as in check: an interrupt inside VTK's set-up must not crash the process
+            from app.report.figures import render_figures
+            from app.report.writers import write_report
 
         say(f"writing {args.report}")
         figures = render_figures(new_model, comparison.new)

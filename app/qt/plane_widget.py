@@ -15,7 +15,8 @@ from __future__ import annotations
 from collections.abc import Callable
 
 import numpy as np
-import vtk
+from vtkmodules.vtkCommonDataModel import vtkPlane
+from vtkmodules.vtkInteractionWidgets import vtkImplicitPlaneRepresentation, vtkImplicitPlaneWidget2
 
 # Below this on-screen length of one mm of normal (in mm per mm of cursor motion, i.e.
 # |projection| / pixel size), the normal looks along the view and the vertical motion pushes.
@@ -41,7 +42,7 @@ class PlaneHandle:
         self.view = view
         self.moved = moved
         self.to_display = to_display
-        self.rep = vtk.vtkImplicitPlaneRepresentation()
+        self.rep = vtkImplicitPlaneRepresentation()
         self.rep.SetPlaceFactor(1.0)
         self.rep.SetOutlineTranslation(False)
         self.rep.SetScaleEnabled(False)
@@ -52,7 +53,7 @@ class PlaneHandle:
         self.rep.SetEdgeColor(*colour)
         self.rep.GetOutlineProperty().SetColor(*colour)
         self.rep.GetPlaneProperty().SetOpacity(0.25)
-        self.widget = vtk.vtkImplicitPlaneWidget2()
+        self.widget = vtkImplicitPlaneWidget2()
         self.widget.SetRepresentation(self.rep)
         self.widget.SetInteractor(view.iren.interactor)
         self.widget.SetCurrentRenderer(view.renderer)
@@ -89,7 +90,7 @@ class PlaneHandle:
         self.widget.SetEnabled(bool(on) and self.shown)
 
     def plane(self) -> tuple[np.ndarray, np.ndarray]:
-        plane = vtk.vtkPlane()
+        plane = vtkPlane()
         self.rep.GetPlane(plane)
         return np.array(plane.GetOrigin()), np.array(plane.GetNormal())
 
@@ -101,7 +102,7 @@ class PlaneHandle:
         origin, normal = self.plane()
         mouse = np.array(self.view.iren.interactor.GetEventPosition(), float)
         last, self._last_mouse = self._last_mouse, mouse
-        if self.rep.GetInteractionState() == vtk.vtkImplicitPlaneRepresentation.Pushing and last is not None:
+        if self.rep.GetInteractionState() == vtkImplicitPlaneRepresentation.Pushing and last is not None:
             # our own push replaces VTK's (which vanishes with the normal towards the viewer)
             distance = self.push_for(self._origin, self._normal, mouse - last)
             origin = self._origin + distance * self._normal

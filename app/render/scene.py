@@ -9,7 +9,8 @@ from __future__ import annotations
 
 import numpy as np
 import pyvista as pv
-import vtk
+from vtkmodules.vtkCommonDataModel import vtkStaticCellLocator
+from vtkmodules.vtkRenderingCore import vtkCellPicker
 
 from app.state import Camera, FindingEntry, Mode, Session
 from app.state.settings import MEASURE_UNITS, STRIPE_MODES, VALUE_MODES, Measure
@@ -337,10 +338,10 @@ class Scene:
         if self.faces is None or self.surface_actor is None or self.session.display.mode == Mode.DRAFT:
             return None  # the draft view draws its own grids, which the curvature probe does not index
         if self._locator is None:
-            self._locator = vtk.vtkStaticCellLocator()
+            self._locator = vtkStaticCellLocator()
             self._locator.SetDataSet(self.faces.mesh)
             self._locator.BuildLocator()
-        picker = vtk.vtkCellPicker()
+        picker = vtkCellPicker()
         picker.SetTolerance(0.0005)
         picker.AddLocator(self._locator)
         picker.PickFromListOn()
