@@ -13,7 +13,7 @@ from scipy.interpolate import BSpline
 
 import geometry
 from geometry.nurbs.compiled_eval import SurfacePack, basis_rows, derivatives
-from geometry.nurbs.compiled_inversion import invert
+from geometry.nurbs.compiled_inversion import invert, invert_with_derivatives
 from tests.surface_factories import random_geomdl_nurbs
 
 RTOL = 1e-9
@@ -129,3 +129,32 @@ def test_inversion_finds_the_foot_of_a_normal_offset(seed):
     fu, fv = invert(surf.pack, 0, targets, start_u, start_v)
     assert_allclose(fu, u, atol=1e-9)
     assert_allclose(fv, v, atol=1e-9)
+
+
+@pytest.mark.parametrize("seed", range(3))
+def test_inversion_hands_back_the_derivatives_at_its_foot(seed):
+    # The foot's derivatives come from the last Newton iteration: they must be
+    # the evaluator's own at the returned parameters (which geomdl checks
+    # above), and the foot of a point moved along the normal is where it
+    # started (The NURBS Book sec. 6.1, eq. 6.3).
+    _, surf = random_geomdl_nurbs(seed + 60, degrees=(3, 2), counts=(7, 5))
+    rng = np.random.default_rng(seed)
+    u, v = rng.uniform(0.05, 0.95, 150), rng.uniform(0.05, 0.95, 150)
+    field = geometry.curvature_at(surf, u, v)
+    offset = 0.1 * np.minimum(1.0 / np.maximum(field.max_abs, 1e-9), 5.0)
+    targets = field.points + offset[:, None] * field.normals
+    orders = rng.integers(0, 4, 150)
+    start_u = np.clip(u + rng.normal(scale=0.01, size=150), 0, 1)
+    start_v = np.clip(v + rng.normal(scale=0.01, size=150), 0, 1)
+    fu, fv, ders = invert_with_derivatives(surf.pack, 0, targets, start_u, start_v, orders)
+    assert ders.shape == (4, 4, 150, 3)
+    assert_allclose(fu, u, atol=1e-9)
+    assert_allclose(fv, v, atol=1e-9)
+    reference = derivatives(surf.pack, np.zeros(150, dtype=int), fu, fv, 3)
+    for k in range(4):
+        for m in range(4 - k):
+            asked = orders >= k + m
+            assert_allclose(ders[k, m][asked], reference[k, m][asked], rtol=1e-13, atol=1e-13)
+            assert not ders[k, m][~asked].any()
+    with pytest.raises(ValueError, match="orders"):
+        invert_with_derivatives(surf.pack, 0, targets[:2], u[:2], v[:2], 4)

@@ -306,6 +306,44 @@ def derivatives(pack: SurfacePack, sids: np.ndarray, u: np.ndarray, v: np.ndarra
 
 
 @nb.njit(**JIT_OPTIONS)
+def knot_spans_kernel(arrays, sids, u, v, out):
+    """Knot spans (A2.1) of every (sids[i], u[i], v[i]) into ``out`` (k, 2)."""
+    degrees, counts, knot_starts, knots, _, _ = arrays
+    for i in range(u.size):
+        sid = sids[i]
+        p, q = degrees[sid, 0], degrees[sid, 1]
+        nu, nv = counts[sid, 0], counts[sid, 1]
+        ku = knots[knot_starts[sid, 0] : knot_starts[sid, 0] + nu + p + 1]
+        kv = knots[knot_starts[sid, 1] : knot_starts[sid, 1] + nv + q + 1]
+        out[i, 0] = find_span(ku, p, nu, min(max(u[i], ku[p]), ku[nu]))
+        out[i, 1] = find_span(kv, q, nv, min(max(v[i], kv[q]), kv[nv]))
+
+
+def knot_spans(pack: SurfacePack, sids: np.ndarray, u: np.ndarray, v: np.ndarray) -> np.ndarray:
+    """Knot span indices of scattered parameters on packed surfaces (The NURBS Book, 2nd ed., A2.1).
+
+    Parameters
+    ----------
+    pack : SurfacePack
+    sids : ndarray of int, shape (k,)
+    u, v : ndarray of shape (k,)
+        Clipped into each surface's domain.
+
+    Returns
+    -------
+    ndarray of int, shape (k, 2)
+        The span in u and in v: ``knots[s] <= u < knots[s + 1]`` (the last
+        non-empty span at the domain's end).
+    """
+    u = np.ascontiguousarray(u, dtype=float).ravel()
+    v = np.ascontiguousarray(v, dtype=float).ravel()
+    sids = np.ascontiguousarray(np.broadcast_to(sids, u.shape), dtype=np.int64)
+    out = np.zeros((u.size, 2), dtype=np.int64)
+    knot_spans_kernel(pack.arrays, sids, u, v, out)
+    return out
+
+
+@nb.njit(**JIT_OPTIONS)
 def basis_rows_kernel(knots, p, n, u, order, ders, spans):
     """Basis derivatives of many parameters: ``ders`` (k, order+1, p+1), ``spans`` (k,)."""
     m = p + 1

@@ -6,7 +6,9 @@ Gauss-Newton where the Hessian is not positive definite, a small
 Levenberg-Marquardt damping (a collapsed pole makes the Jacobian singular),
 projected steps on the domain's bounds, a trust region, and step halving when
 a step would move away from the point. Each point iterates on its own, so a
-point that has converged costs nothing more.
+point that has converged costs nothing more. The derivatives of the last
+iteration are handed back with the foot (:func:`invert_with_derivatives`), so a
+caller measuring at the foot evaluates nothing more.
 """
 
 from __future__ import annotations
@@ -14,7 +16,7 @@ from __future__ import annotations
 import numba as nb
 import numpy as np
 
-from .compiled_eval import JIT_OPTIONS, SurfacePack, binomials, homogeneous_at, make_scratch, rational_at
+from .compiled_eval import JIT_OPTIONS, MAX_ORDER, SurfacePack, binomials, homogeneous_at, make_scratch, rational_at
 
 # Newton stops when the parameter step is below this fraction of the domain.
 STEP_RTOL = 1e-14
@@ -40,12 +42,18 @@ def _distance2(arrays, sid, u, v, target, hom, scratch):
 
 
 @nb.njit(**JIT_OPTIONS)
-def invert_kernel(arrays, domains, sids, targets, u, v, iterations, max_degree):
-    """Refine ``u``, ``v`` in place towards the feet of ``targets`` (k, 3)."""
-    scratch = make_scratch(max_degree, 2)
-    binom = binomials(2)
-    hom = np.zeros((3, 3, 4))
-    ders = np.zeros((3, 3, 3))
+def invert_kernel(arrays, domains, sids, targets, u, v, iterations, max_degree, orders, out):
+    """Refine ``u``, ``v`` in place towards the feet of ``targets`` (k, 3).
+
+    ``out[k, l, i]`` receives S_kl at the foot for ``k + l <= orders[i]``
+    (``out`` of shape (o+1, o+1, k, 3), o the largest order asked): the
+    derivatives of the last Newton iteration, so the foot costs no further
+    evaluation unless a third order is asked.
+    """
+    scratch = make_scratch(max_degree, MAX_ORDER)
+    binom = binomials(MAX_ORDER)
+    hom = np.zeros((MAX_ORDER + 1, MAX_ORDER + 1, 4))
+    ders = np.zeros((MAX_ORDER + 1, MAX_ORDER + 1, 3))
     r = np.zeros(3)
     for i in range(u.size):
         sid = sids[i]
@@ -53,9 +61,11 @@ def invert_kernel(arrays, domains, sids, targets, u, v, iterations, max_degree):
         x = min(max(u[i], u0), u1)
         y = min(max(v[i], v0), v1)
         target = targets[i]
+        fresh = False  # ders hold S_kl (k + l <= 2) at (x, y)
         for _ in range(iterations):
             homogeneous_at(arrays, sid, x, y, 2, hom, scratch)
             rational_at(hom, 2, binom, ders)
+            fresh = True
             dist = 0.0
             for c in range(3):
                 r[c] = ders[0, 0, c] - target[c]
@@ -95,6 +105,10 @@ def invert_kernel(arrays, domains, sids, targets, u, v, iterations, max_degree):
             if scale > 1.0:
                 du /= scale
                 dv /= scale
+            # Converged: the step left is below rounding of the parameters, so
+            # the foot stays where its derivatives were just evaluated.
+            if abs(du) / (u1 - u0) + abs(dv) / (v1 - v0) <= STEP_RTOL:
+                break
             step = 1.0
             nx, ny = x, y
             moved_ok = False
@@ -110,11 +124,20 @@ def invert_kernel(arrays, domains, sids, targets, u, v, iterations, max_degree):
             if not moved_ok:
                 break  # a step that still moves away after the halvings is not taken
             moved = abs(nx - x) / (u1 - u0) + abs(ny - y) / (v1 - v0)
+            fresh = fresh and nx == x and ny == y
             x, y = nx, ny
             if moved <= STEP_RTOL:
                 break
         u[i] = x
         v[i] = y
+        order = orders[i]
+        if order > 2 or not fresh:
+            homogeneous_at(arrays, sid, x, y, order, hom, scratch)
+            rational_at(hom, order, binom, ders)
+        for k in range(order + 1):
+            for l in range(order + 1 - k):
+                for c in range(3):
+                    out[k, l, i, c] = ders[k, l, c]
 
 
 def invert(
@@ -142,9 +165,58 @@ def invert(
     u, v : ndarray of shape (k,)
         Local minimisers of ``|S(u, v) - P|`` inside each domain (new arrays).
     """
+    u, v, _ = invert_with_derivatives(pack, sids, points, u, v, 0, iterations)
+    return u, v
+
+
+def invert_with_derivatives(
+    pack: SurfacePack,
+    sids: np.ndarray,
+    points: np.ndarray,
+    u: np.ndarray,
+    v: np.ndarray,
+    orders: np.ndarray | int = 0,
+    iterations: int = NEWTON_ITERATIONS,
+) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Feet of ``points`` on their surfaces, with the surface derivatives there.
+
+    Parameters
+    ----------
+    pack : SurfacePack
+    sids : ndarray of int, shape (k,) or scalar
+        Surface of the pack each point is inverted onto.
+    points : ndarray of shape (k, 3)
+    u, v : ndarray of shape (k,)
+        Starting parameters.
+    orders : ndarray of int, shape (k,) or scalar
+        Highest derivative order wanted at each foot, 0 to :data:`MAX_ORDER`.
+    iterations : int
+
+    Returns
+    -------
+    u, v : ndarray of shape (k,)
+        Local minimisers of ``|S(u, v) - P|`` inside each domain (new arrays).
+    ders : ndarray of shape (o + 1, o + 1, k, 3)
+        ``ders[a, b, i]`` is d^(a+b) S / du^a dv^b at ``(u[i], v[i])`` for
+        ``a + b <= orders[i]``, zero otherwise; ``o = max(orders)``. Order 0 is
+        the foot point itself.
+
+    Notes
+    -----
+    Newton's method for point inversion, The NURBS Book (2nd ed.), sec. 6.1,
+    eq. 6.6. Every iteration evaluates the derivatives to second order at the
+    current parameters (A3.6 on the homogeneous net, A4.4 for the quotient);
+    those of the last iteration are the foot's, so up to second order the foot
+    and its derivatives come without another evaluation.
+    """
     pts = np.ascontiguousarray(points, dtype=float).reshape(-1, 3)
     uu = np.array(u, dtype=float).ravel()
     vv = np.array(v, dtype=float).ravel()
     sids = np.ascontiguousarray(np.broadcast_to(sids, uu.shape), dtype=np.int64)
-    invert_kernel(pack.arrays, pack.domains, sids, pts, uu, vv, int(iterations), pack.max_degree)
-    return uu, vv
+    orders = np.ascontiguousarray(np.broadcast_to(orders, uu.shape), dtype=np.int64)
+    top = int(orders.max(initial=0))
+    if int(orders.min(initial=0)) < 0 or top > MAX_ORDER:
+        raise ValueError(f"derivative orders must lie in 0..{MAX_ORDER}")
+    out = np.zeros((top + 1, top + 1, uu.size, 3))
+    invert_kernel(pack.arrays, pack.domains, sids, pts, uu, vv, int(iterations), pack.max_degree, orders, out)
+    return uu, vv, out

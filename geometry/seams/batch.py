@@ -14,11 +14,9 @@ from types import MappingProxyType
 import numpy as np
 
 from .results import SeamResult, Worst
-from .tolerance import SeamTolerance, classify
+from .spacing import MAX_SPACING_MM, MIN_SAMPLES, sample_counts
+from .tolerance import CREASE_BAND_DEG, SeamTolerance, classify
 
-# Sampling along a seam: at most this spacing (mm), within these counts.
-MAX_SPACING_MM = 1.0
-MIN_SAMPLES, MAX_SAMPLES = 129, 4097
 # Refinement of each maximum: grid points per round and rounds; the bracket
 # (two sample spacings) shrinks 4-fold per round, to about 2e-6 spacings.
 ZOOM_POINTS, ZOOM_ROUNDS = 9, 10
@@ -44,12 +42,6 @@ SAMPLED = (
     "iso_curvature_jump",
     "curvature_derivative_jump",
 )
-
-
-def sample_counts(lengths: np.ndarray, max_spacing: float, min_samples: int) -> np.ndarray:
-    """Samples per seam: at most ``max_spacing`` apart, within the bounds, shape (s,)."""
-    n = np.ceil(np.asarray(lengths, float) / max_spacing) + 1
-    return np.clip(n, max(min_samples, 3), max(MAX_SAMPLES, min_samples)).astype(int)
 
 
 def even_samples(counts: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
@@ -180,6 +172,30 @@ def refine_maxima_batch(
     return best_tau, best
 
 
+def _crease_minimum(evaluate, seam, tau, start, angle, tolerance: SeamTolerance) -> np.ndarray:
+    """Smallest angle between the normals along each seam, degrees, shape (s,).
+
+    The sampled minimum, refined between the samples (the maxima's search on
+    the negated angle, :func:`refine_maxima_batch`) on the seams it makes
+    creases: there a lower minimum between two samples could undo the crease,
+    so the decision does not hang on where the samples fall. On the other
+    seams a lower minimum changes nothing.
+    """
+    sampled = np.fmin.reduceat(angle, start)
+    if tolerance.crease_deg is None:
+        return sampled
+    candidate = sampled >= tolerance.crease_deg - CREASE_BAND_DEG
+    if not candidate.any():
+        return sampled
+    low = np.where(candidate[seam], -angle, np.nan)  # NaN: not refined
+
+    def negated(s, t):
+        return {"angle_low": -evaluate(s, t)["angle"]}
+
+    _, best = refine_maxima_batch(negated, seam, tau, start, {"angle_low": low}, ("angle_low",))
+    return np.where(candidate, np.fmin(sampled, -best[:, 0]), sampled)
+
+
 def _segment_mean(values: np.ndarray, seam: np.ndarray, n_seams: int) -> np.ndarray:
     finite = np.isfinite(values)
     total = np.bincount(seam[finite], values[finite], minlength=n_seams)
@@ -196,6 +212,8 @@ def measure_batch(
     tolerance: SeamTolerance,
     max_spacing: float = MAX_SPACING_MM,
     min_samples: int = MIN_SAMPLES,
+    turning: np.ndarray | None = None,
+    spans: np.ndarray | None = None,
 ) -> list[SeamResult]:
     """Sample, refine and classify a batch of seams.
 
@@ -214,20 +232,24 @@ def measure_batch(
         Largest sample spacing, mm.
     min_samples : int
         Fewest samples along a seam (at least 3).
+    turning, spans : ndarray of shape (s,), optional
+        Each seam's total turning (radians) and the knot spans it crosses
+        (:func:`geometry.seams.spacing.seam_demands`): more samples where the
+        seam bends or crosses knots (:func:`geometry.seams.spacing.sample_counts`).
 
     Returns
     -------
     list of SeamResult
         In the order of ``pairs``.
     """
-    counts = sample_counts(lengths, max_spacing, min_samples)
+    counts = sample_counts(lengths, max_spacing, min_samples, turning, spans)
     seam, tau, start = even_samples(counts)
     values = evaluator(seam, tau)
     tau_best, best = refine_maxima_batch(evaluator, seam, tau, start, values, REFINED)
     n_seams, n_keys = start.size, len(REFINED)
     at = evaluate_unique(evaluator, np.repeat(np.arange(n_seams), n_keys), tau_best.ravel())
     means = {key: _segment_mean(values[key], seam, n_seams) for key in SAMPLED}
-    angle_min = np.fmin.reduceat(values["angle"], start)
+    angle_min = _crease_minimum(evaluator, seam, tau, start, values["angle"], tolerance)
     out = []
     for j, pair in enumerate(pairs):
         rows = slice(start[j], start[j] + counts[j])

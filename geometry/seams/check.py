@@ -26,11 +26,12 @@ import numpy as np
 
 from ..model.topology import Model
 from .adjacency import Adjacency, FreeEdge, SeamPair, find_seams, free_piece
-from .batch import MAX_SPACING_MM, MIN_SAMPLES, REFINED, SAMPLED, ZOOM_POINTS, ZOOM_ROUNDS, measure_batch
+from .batch import REFINED, SAMPLED, ZOOM_POINTS, ZOOM_ROUNDS, measure_batch
 from .batch import refine_maxima_batch as _refine_batch
 from .edges import EdgeSeams, measurable_at_edge
 from .measures import SeamGeometry
 from .results import SeamReport, SeamResult, Worst
+from .spacing import MAX_SPACING_MM, MIN_SAMPLES, sample_counts, seam_demands
 from .tolerance import SeamTolerance
 
 # Edge seams measured in one batch: about this many samples (bounds memory; each
@@ -95,6 +96,7 @@ def measure_seam(
     tolerance: SeamTolerance,
     max_spacing: float = MAX_SPACING_MM,
     min_samples: int = MIN_SAMPLES,
+    demand: tuple[float, int] | None = None,
 ) -> SeamResult:
     """Measure one seam from side a's boundary to side b's (see :class:`SeamGeometry`).
 
@@ -107,12 +109,18 @@ def measure_seam(
         Largest sample spacing, mm.
     min_samples : int
         Fewest samples along the seam (at least 3).
+    demand : (float, int), optional
+        The seam's turning (radians) and knot spans crossed, as
+        :func:`geometry.seams.spacing.seam_demands` gives them (computed when not given).
 
     Returns
     -------
     SeamResult
     """
     geometry = SeamGeometry(model, pair, tolerance.flat_curvature_per_mm)
+    if demand is None:
+        _, turning, spans = seam_demands(model, [pair])
+        demand = (float(turning[0]), int(spans[0]))
     (result,) = measure_batch(
         lambda _, tau: geometry.evaluate(tau),
         [pair],
@@ -121,6 +129,8 @@ def measure_seam(
         tolerance,
         max_spacing,
         min_samples,
+        np.array([demand[0]]),
+        np.array([demand[1]]),
     )
     return result
 
@@ -135,13 +145,12 @@ def _tolerance(tolerance) -> SeamTolerance:
     return tolerance
 
 
-def _batches(pairs: list[SeamPair], max_spacing: float) -> list[list[int]]:
-    """Indices of ``pairs`` in groups of about :data:`BATCH_SAMPLES` samples."""
+def _batches(counts: np.ndarray) -> list[list[int]]:
+    """Indices of seams in groups of about :data:`BATCH_SAMPLES` samples, given each seam's sample count."""
     groups, current, size = [], [], 0
-    for i, pair in enumerate(pairs):
-        length = float(np.linalg.norm(np.diff(pair.points, axis=0), axis=1).sum())
+    for i, count in enumerate(counts.tolist()):
         current.append(i)
-        size += int(np.clip(length / max_spacing + 1, MIN_SAMPLES, 4097))
+        size += count
         if size >= BATCH_SAMPLES:
             groups.append(current)
             current, size = [], 0
@@ -231,11 +240,23 @@ def measure_seams(
     total = len(pairs)
     results: list[SeamResult | None] = [None] * total
     at_edge = [i for i, p in enumerate(pairs) if measurable_at_edge(p)]
+    lengths, turning, spans = seam_demands(model, pairs)
+    counts = sample_counts(lengths, max_spacing, sampling.get("min_samples", MIN_SAMPLES), turning, spans)
     done = 0
-    for group in _batches([pairs[i] for i in at_edge], max_spacing):
+    for group in _batches(counts[at_edge]):
         chosen = [pairs[at_edge[g]] for g in group]
+        rows = [at_edge[g] for g in group]
         batch = EdgeSeams(model, chosen, tolerance.flat_curvature_per_mm)
-        measured = measure_batch(batch.evaluate, chosen, batch.length, batch.orientation, tolerance, **sampling)
+        measured = measure_batch(
+            batch.evaluate,
+            chosen,
+            batch.length,
+            batch.orientation,
+            tolerance,
+            **sampling,
+            turning=turning[rows],
+            spans=spans[rows],
+        )
         for g, result in zip(group, measured, strict=True):
             results[at_edge[g]] = result
         done += len(group)
@@ -246,7 +267,7 @@ def measure_seams(
     for i, pair in enumerate(pairs):
         if results[i] is not None:
             continue
-        result = measure_seam(model, pair, tolerance, **sampling)
+        result = measure_seam(model, pair, tolerance, **sampling, demand=(turning[i], spans[i]))
         if pair.source == "geometry":
             kept, cut = _within_search(model, pair, result, adjacency.search_distance, tolerance, sampling)
             if cut:

@@ -22,8 +22,8 @@ parameters. At an arc-length fraction ``tau`` of a seam:
 
 Everything is vectorised over every sample of every seam: each stage is one
 compiled call over every face of the model at once
-(:func:`geometry.nurbs.compiled_eval.derivatives`,
-:func:`geometry.nurbs.compiled_inversion.invert` on a :class:`SurfacePack`).
+(:func:`geometry.nurbs.compiled_inversion.invert_with_derivatives` on a
+:class:`SurfacePack`, which hands back each foot with its derivatives).
 """
 
 from __future__ import annotations
@@ -31,8 +31,8 @@ from __future__ import annotations
 import numpy as np
 
 from ..model.topology import Model
-from ..nurbs.compiled_eval import SurfacePack, derivatives
-from ..nurbs.compiled_inversion import invert
+from ..nurbs.compiled_eval import SurfacePack
+from ..nurbs.compiled_inversion import invert_with_derivatives
 from ..vectors import dot, unit
 from .adjacency import SeamPair
 from .boundary import BoundaryCurve
@@ -171,23 +171,26 @@ class EdgeSeams:
         }
 
     # -- batched surface work ---------------------------------------------
-    def _project(self, faces: np.ndarray, points: np.ndarray, uv: np.ndarray) -> np.ndarray:
-        """Closest surface parameters of ``points`` on their ``faces``, from nearby ``uv``; shape (k, 2).
+    def _project(self, faces: np.ndarray, points: np.ndarray, uv: np.ndarray, orders) -> tuple[np.ndarray, np.ndarray]:
+        """Closest surface parameters of ``points`` on their ``faces``, from nearby ``uv``, and the derivatives there.
+
+        Returns
+        -------
+        uv : ndarray of shape (k, 2)
+        ders : ndarray of shape (4, 4, k, 3)
+            Derivatives at the feet up to ``orders`` (int or shape (k,)); zero above.
 
         Notes
         -----
         Point inversion, The NURBS Book (2nd ed.), sec. 6.1, eq. 6.6, compiled,
-        every point of every face in one call (:func:`geometry.nurbs.compiled_inversion.invert`).
+        every point of every face in one call; the foot's derivatives are those
+        of the last Newton iteration
+        (:func:`geometry.nurbs.compiled_inversion.invert_with_derivatives`).
         """
-        u, v = invert(self.pack, faces, points, uv[:, 0], uv[:, 1])
-        return np.stack([u, v], axis=1)
-
-    def _derivatives(self, faces: np.ndarray, uv: np.ndarray, order: np.ndarray) -> np.ndarray:
-        """Derivatives up to order 3 (the highest ``order`` asked), shape (4, 4, k, 3); one compiled call."""
+        u, v, ders = invert_with_derivatives(self.pack, faces, points, uv[:, 0], uv[:, 1], orders)
         out = np.zeros((4, 4, faces.size, 3))
-        top = int(order.max(initial=0))
-        out[: top + 1, : top + 1] = derivatives(self.pack, faces, uv[:, 0], uv[:, 1], top)
-        return out
+        out[: ders.shape[0], : ders.shape[1]] = ders
+        return np.stack([u, v], axis=1), out
 
     def _inside(self, faces: np.ndarray, uv: np.ndarray) -> np.ndarray:
         out = np.zeros(faces.size, dtype=bool)
@@ -195,46 +198,55 @@ class EdgeSeams:
             out[idx] = self.model.faces[face].inside(uv[idx, 0], uv[idx, 1])
         return out
 
-    def _feet(self, seam: np.ndarray, at: dict) -> tuple[np.ndarray, np.ndarray]:
-        """Parameters of the two feet (see the module notes, steps 2 and 3), shape (k, 2) each."""
+    def _feet(self, seam: np.ndarray, at: dict, orders) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
+        """Parameters of the two feet (see the module notes, steps 2 and 3) and the derivatives there.
+
+        Returns
+        -------
+        uv_a, uv_b : ndarray of shape (k, 2)
+        da, db : ndarray of shape (4, 4, k, 3)
+            Derivatives of each side at its foot, up to ``orders`` (int or shape (k,)).
+        """
         fa, fb = self.face_a[seam], self.face_b[seam]
+        orders = np.broadcast_to(np.maximum(orders, 1), seam.shape)  # normals for the common point
         # The edge point onto face a, that foot onto face b, and that one back
         # onto face a: where either face ends exactly on the edge (its foot
         # clamped to its boundary), both feet come to that same edge point,
         # whatever the polyline's own small error.
-        uv_a = self._project(fa, at["edge"], at["uv_a"])
-        pa = self._points(fa, uv_a)
-        uv_b = self._project(fb, pa, at["uv_b"])
-        pb = self._points(fb, uv_b)
-        uv_a = self._project(fa, pb, uv_a)
-        pa = self._points(fa, uv_a)
-        gap = np.linalg.norm(pa - pb, axis=1)
+        uv_a, da = self._project(fa, at["edge"], at["uv_a"], 0)
+        uv_b, db = self._project(fb, da[0, 0], at["uv_b"], orders)
+        uv_a, da = self._project(fa, db[0, 0], uv_a, orders)
+        gap = np.linalg.norm(da[0, 0] - db[0, 0], axis=1)
         active = np.flatnonzero(gap > ALTERNATE_ABOVE_MM)
         for _ in range(ALTERNATIONS):
             if active.size == 0:
                 break
             m = active.size
-            target = self._common_point(fa[active], uv_a[active], pa[active], fb[active], uv_b[active], pb[active])
-            uv = self._project(
+            target = self._common_point(da[:, :, active], db[:, :, active])
+            uv, d = self._project(
                 np.concatenate([fa[active], fb[active]]),
                 np.concatenate([target, target]),
                 np.concatenate([uv_a[active], uv_b[active]]),
+                np.concatenate([orders[active], orders[active]]),
             )
-            new_pa = self._points(fa[active], uv[:m])
-            new_pb = self._points(fb[active], uv[m:])
-            new_gap = np.linalg.norm(new_pa - new_pb, axis=1)
+            new_gap = np.linalg.norm(d[0, 0, :m] - d[0, 0, m:], axis=1)
             better = new_gap < gap[active]
             shrink = gap[active] - new_gap
             enough = shrink > ALTERNATION_RTOL * gap[active]
             take = active[better]
             uv_a[take], uv_b[take] = uv[:m][better], uv[m:][better]
-            pa[take], pb[take] = new_pa[better], new_pb[better]
+            da[:, :, take], db[:, :, take] = d[:, :, :m][:, :, better], d[:, :, m:][:, :, better]
             gap[take] = new_gap[better]
             active = active[better & enough & (new_gap > ALTERNATE_ABOVE_MM)]
-        return uv_a, uv_b
+        return uv_a, uv_b, da, db
 
-    def _common_point(self, fa, uv_a, pa, fb, uv_b, pb) -> np.ndarray:
+    def _common_point(self, da: np.ndarray, db: np.ndarray) -> np.ndarray:
         """Where the two tangent planes at the feet meet, nearest the feet's midpoint, shape (k, 3).
+
+        Parameters
+        ----------
+        da, db : ndarray of shape (>= 2, >= 2, k, 3)
+            Derivatives at the two feet, to first order at least.
 
         Notes
         -----
@@ -246,10 +258,9 @@ class EdgeSeams:
         parallel (or apart, not crossing) the step is the midpoint itself, and
         projecting it onto both surfaces is an averaged alternating projection.
         """
-        ones = np.ones(fa.size, dtype=int)
-        da, db = self._derivatives(fa, uv_a, ones), self._derivatives(fb, uv_b, ones)
-        na = np.nan_to_num(self._normal(da, np.ones(fa.size)))
-        nb = np.nan_to_num(self._normal(db, np.ones(fb.size)))
+        pa, pb = da[0, 0], db[0, 0]
+        na = np.nan_to_num(self._normal(da, np.ones(pa.shape[0])))
+        nb = np.nan_to_num(self._normal(db, np.ones(pb.shape[0])))
         middle = 0.5 * (pa + pb)
         c = dot(na, nb)
         det = 1.0 - c * c
@@ -263,9 +274,6 @@ class EdgeSeams:
         far = np.linalg.norm(step, axis=1) > MAX_STEP_GAPS * np.linalg.norm(pa - pb, axis=1)
         step[far] = 0.0
         return middle + step
-
-    def _points(self, faces: np.ndarray, uv: np.ndarray) -> np.ndarray:
-        return derivatives(self.pack, faces, uv[:, 0], uv[:, 1], 0)[0, 0]
 
     # -- orientation ------------------------------------------------------
     def _inward_turn(self, faces, uv, slope, d, normal, tangent) -> np.ndarray:
@@ -285,10 +293,7 @@ class EdgeSeams:
         seam = np.repeat(np.arange(n), ORIENTATION_VOTES)
         tau = np.tile(np.linspace(0.05, 0.95, ORIENTATION_VOTES), n)
         at = self._along(seam, tau)
-        uv_a, uv_b = self._feet(seam, at)
-        ones = np.ones(seam.size, dtype=int)
-        da = self._derivatives(self.face_a[seam], uv_a, ones)
-        db = self._derivatives(self.face_b[seam], uv_b, ones)
+        uv_a, uv_b, da, db = self._feet(seam, at, 1)
         n_a = self._normal(da, self.sign_a[seam])
         n_b = self._normal(db, self.sign_b[seam])
         turn_a = self._inward_turn(self.face_a[seam], uv_a, at["slope_a"], da, n_a, at["tangent"])
@@ -346,10 +351,7 @@ class EdgeSeams:
         seam = np.asarray(seam, int)
         tau = np.clip(np.asarray(tau, float), 0.0, 1.0)
         at = self._along(seam, tau)
-        uv_a, uv_b = self._feet(seam, at)
-        order = np.where(self.has_iso[seam], 3, 2)
-        da = self._derivatives(self.face_a[seam], uv_a, order)
-        db = self._derivatives(self.face_b[seam], uv_b, order)
+        uv_a, uv_b, da, db = self._feet(seam, at, np.where(self.has_iso[seam], 3, 2))
         n_a = self._normal(da, self.sign_a[seam])
         n_b = self._normal(db, self.sign_b[seam] * self.orientation[seam])
         tangent = at["tangent"]
