@@ -64,7 +64,8 @@ def edge_params(edge, uses=()) -> np.ndarray:
     -----
     Starts from :data:`START_EDGE_SAMPLES` points evenly spaced in arc length
     (``GCPnts_UniformAbscissa``), then halves every interval whose midpoint
-    lies further than the chord bound (:data:`EDGE_CHORD_MM`) from its chord:
+    lies further than the chord bound (:data:`EDGE_CHORD_MM`) from its chord (an
+    interval that passed is not checked again):
     in 3-D, and for each use, the p-curve's point on the surface against the
     surface at the middle of the (u, v) chord. A straight 3-D edge thus still
     gets as many points as its p-curves need on a curved face. A valid BRep
@@ -91,23 +92,29 @@ def edge_params(edge, uses=()) -> np.ndarray:
     pcurves = [(BRepAdaptor_Curve2d(e, f), BRepAdaptor_Surface(f)) for e, f in uses]
     points = _values(curve, ts)
     traces = [_values(c2d, ts)[:, :2] for c2d, _ in pcurves]
+    # Only intervals new in a round are checked: one that passed once passes again.
+    pending = np.arange(ts.size - 1)
     for _ in range(REFINE_ROUNDS):
-        mid = 0.5 * (ts[:-1] + ts[1:])
+        lo, hi = pending, pending + 1
+        mid = 0.5 * (ts[lo] + ts[hi])
         mid_points = _values(curve, mid)
-        error = np.linalg.norm(mid_points - 0.5 * (points[:-1] + points[1:]), axis=1)
+        error = np.linalg.norm(mid_points - 0.5 * (points[lo] + points[hi]), axis=1)
         mid_traces = []
         for (c2d, surface), uv in zip(pcurves, traces, strict=True):
             uv_mid = _values(c2d, mid)[:, :2]
-            sag = np.linalg.norm(_on_surface(surface, uv_mid) - _on_surface(surface, 0.5 * (uv[:-1] + uv[1:])), axis=1)
+            sag = np.linalg.norm(_on_surface(surface, uv_mid) - _on_surface(surface, 0.5 * (uv[lo] + uv[hi])), axis=1)
             error = np.maximum(error, sag)
             mid_traces.append(uv_mid)
-        split = np.flatnonzero(error > bound)
+        bad = error > bound
+        split = pending[bad]
         if split.size == 0 or ts.size + split.size > MAX_EDGE_SAMPLES:
             break
-        order = np.argsort(np.concatenate([ts, mid[split]]), kind="stable")
-        ts = np.concatenate([ts, mid[split]])[order]
-        points = np.concatenate([points, mid_points[split]])[order]
-        traces = [np.concatenate([uv, m[split]])[order] for uv, m in zip(traces, mid_traces, strict=True)]
+        ts = np.insert(ts, split + 1, mid[bad])
+        points = np.insert(points, split + 1, mid_points[bad], axis=0)
+        traces = [np.insert(uv, split + 1, m[bad], axis=0) for uv, m in zip(traces, mid_traces, strict=True)]
+        # Interval j split becomes intervals j' and j' + 1, j' = j + the splits before it.
+        first = split + np.arange(split.size)
+        pending = np.stack([first, first + 1], axis=1).ravel()
     if ts.size < MIN_EDGE_SAMPLES:
         ts = np.interp(np.linspace(0, ts.size - 1, MIN_EDGE_SAMPLES), np.arange(ts.size), ts)
     return ts
