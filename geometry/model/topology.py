@@ -7,6 +7,7 @@ analysis takes one. All lengths are millimetres.
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from functools import cached_property
 
 import numpy as np
 
@@ -232,17 +233,20 @@ class Model:
             "skipped": [s.as_dict() for s in self.skipped],
         }
 
-    @property
+    @cached_property
     def bounds(self) -> np.ndarray:
-        """Axis-aligned box of the control nets, shape (2, 3): min and max corner.
+        """Axis-aligned box of the control nets, shape (2, 3): min and max corner (read-only).
 
         The convex-hull property (The NURBS Book, P4.9) makes this a box that
-        holds every face.
+        holds every face. Computed once: the seam search asks for it per edge.
         """
         if not self.faces:
-            return np.zeros((2, 3))
-        pts = np.concatenate([f.surface.poles.reshape(-1, 3) for f in self.faces])
-        return np.stack([pts.min(axis=0), pts.max(axis=0)])
+            box = np.zeros((2, 3))
+        else:
+            pts = np.concatenate([f.surface.poles.reshape(-1, 3) for f in self.faces])
+            box = np.stack([pts.min(axis=0), pts.max(axis=0)])
+        box.setflags(write=False)
+        return box
 
     @property
     def size(self) -> float:
