@@ -120,6 +120,35 @@ def edge_params(edge, uses=()) -> np.ndarray:
     return ts
 
 
+class EdgeParams:
+    """:func:`edge_params` once per edge of a shape, shared by every polyline drawn along it.
+
+    The trims of each face and the shared-edge topology follow the same edges:
+    sampled once with every face's p-curve (:meth:`prime`), an edge serves
+    them all, and its trim polylines and edge uses agree point for point.
+    """
+
+    def __init__(self):
+        self._found: dict[int, list] = {}  # hash of the edge (orientation-free) -> [(edge, ts)]
+
+    def prime(self, edge, uses) -> None:
+        """Sample ``edge`` for ``uses`` now; a failure is left to the caller that needs it."""
+        try:
+            self(edge, uses)
+        except Exception:  # the kernel's own failure on one curve: raised again where it matters
+            pass
+
+    def __call__(self, edge, uses=()) -> np.ndarray:
+        """:func:`edge_params` of ``edge``: sampled for ``uses`` unless already sampled (for any uses)."""
+        bucket = self._found.setdefault(hash(edge), [])
+        for known, ts in bucket:
+            if known.IsSame(edge):
+                return ts
+        ts = edge_params(edge, uses)
+        bucket.append((edge, ts))
+        return ts
+
+
 def pcurve_points(edge, face, ts: np.ndarray) -> np.ndarray:
     """The edge's p-curve on the (input) face at the edge parameters ``ts``.
 
@@ -194,7 +223,7 @@ class TrimProblem(Exception):
     """A trim wire that cannot bound a region (open or without area); the message says which and why."""
 
 
-def _wire_polyline(wire, face) -> np.ndarray:
+def _wire_polyline(wire, face, params: EdgeParams) -> np.ndarray:
     """The wire as a closed (u, v) polyline, first point not repeated.
 
     Raises
@@ -211,7 +240,7 @@ def _wire_polyline(wire, face) -> np.ndarray:
     explorer = BRepTools_WireExplorer(wire, face)
     while explorer.More():
         edge = explorer.Current()
-        uv = pcurve_points(edge, face, edge_params(edge, [(edge, face)]))
+        uv = pcurve_points(edge, face, params(edge, [(edge, face)]))
         if edge.Orientation() == TopAbs_REVERSED:
             uv = uv[::-1]
         chunks.append(uv)
@@ -251,8 +280,11 @@ def _is_natural(loops: list[np.ndarray], surface: NurbsSurface) -> bool:
     return bool(on_box and abs(abs(_signed_area(loops[0])) - domain_area) <= NATURAL_LOOP_RTOL * domain_area)
 
 
-def face_loops(face, to_nurbs: FaceMap) -> tuple[tuple[np.ndarray, ...], list[str]]:
+def face_loops(face, to_nurbs: FaceMap, params: EdgeParams | None = None) -> tuple[tuple[np.ndarray, ...], list[str]]:
     """Trimming loops of an input face on its NURBS, outer first; ``()`` for the natural boundary.
+
+    ``params`` gives each edge's sampling parameters (shared with the other
+    faces along it); by default each edge is sampled for this face alone.
 
     Returns
     -------
@@ -275,11 +307,12 @@ def face_loops(face, to_nurbs: FaceMap) -> tuple[tuple[np.ndarray, ...], list[st
         if outer.IsNull() or not wire.IsSame(outer):
             wires.append(wire)
         explorer.Next()
+    params = params if params is not None else EdgeParams()
     polylines, notes = [], []
     for k, wire in enumerate(wires):
         which = "outer trim" if k == 0 and not outer.IsNull() else "a hole"
         try:
-            loop = _wire_polyline(wire, face)
+            loop = _wire_polyline(wire, face, params)
             if len(loop) < 3:
                 raise TrimProblem(f"trim wire has {len(loop)} distinct point(s)")
         except TrimProblem as exc:

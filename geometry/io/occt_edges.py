@@ -19,7 +19,7 @@ from __future__ import annotations
 import numpy as np
 
 from ..model.topology import Edge, EdgeUse
-from .occt_curves import FaceMap, edge_params, edge_points, pcurve_points
+from .occt_curves import EdgeParams, FaceMap, edge_points, pcurve_points
 
 # Loose faces whose edges lie this close are taken to share them (IGES without
 # topology); well below the 0.01 mm a G0 check commonly asks (common practice),
@@ -45,8 +45,15 @@ def _listed(shapes) -> list:
     return [shapes.First(), shapes.Last()][:n] if n <= 2 else list(shapes)
 
 
-def shared_edges(shape, faces_map, kept: dict[int, tuple[int, FaceMap]]) -> list[Edge]:
-    """Every non-degenerate edge with one use per (kept) face side, matched point for point."""
+def edge_uses(shape, faces_map, kept: dict[int, tuple[int, FaceMap]]) -> list[tuple]:
+    """Every non-degenerate edge used by a kept face, with its uses.
+
+    Returns
+    -------
+    list of (edge, uses)
+        ``uses``: (oriented edge, input face, model face index, its (u, v) map)
+        for each kept face side; a seam edge of a periodic face has both sides.
+    """
     from OCP.BRep import BRep_Tool
     from OCP.collections import IndexedDataMap_TopoDS_Shape_List_TopoDS_Shape_TopTools_ShapeMapHasher as EdgeFaces
     from OCP.TopAbs import TopAbs_EDGE, TopAbs_FACE, TopAbs_FORWARD, TopAbs_REVERSED
@@ -55,7 +62,7 @@ def shared_edges(shape, faces_map, kept: dict[int, tuple[int, FaceMap]]) -> list
 
     edge_faces = EdgeFaces()
     TopExp.MapShapesAndUniqueAncestors_s(shape, TopAbs_EDGE, TopAbs_FACE, edge_faces)
-    edges = []
+    listing = []
     for k in range(1, edge_faces.Extent() + 1):
         edge = TopoDS.Edge(edge_faces.FindKey(k))
         if BRep_Tool.Degenerated_s(edge):
@@ -63,14 +70,37 @@ def shared_edges(shape, faces_map, kept: dict[int, tuple[int, FaceMap]]) -> list
         sides = [a for a in _listed(edge_faces.FindFromIndex(k)) if faces_map.FindIndex(a) - 1 in kept]
         if not sides:
             continue
-        oriented = []  # (oriented edge, input face, model face index, its (u, v) map)
+        oriented = []
         for ancestor in sides:
             index, to_nurbs = kept[faces_map.FindIndex(ancestor) - 1]
             face = TopoDS.Face(ancestor)
             closed = BRep_Tool.IsClosed_s(edge, face)
             for side in (TopAbs_FORWARD, TopAbs_REVERSED) if closed else (edge.Orientation(),):
                 oriented.append((TopoDS.Edge(edge.Oriented(side)), face, index, to_nurbs))
-        ts = edge_params(edge, [(e, f) for e, f, _, _ in oriented])
+        listing.append((edge, oriented))
+    return listing
+
+
+def sampling_uses(uses) -> list[tuple]:
+    """The (oriented edge, face) pairs whose p-curves an edge's sampling follows."""
+    return [(e, f) for e, f, _, _ in uses]
+
+
+def shared_edges(
+    shape, faces_map, kept: dict[int, tuple[int, FaceMap]], params: EdgeParams | None = None, listing=None
+) -> list[Edge]:
+    """Every non-degenerate edge with one use per (kept) face side, matched point for point.
+
+    ``listing`` is :func:`edge_uses` of the shape when already made; ``params``
+    the edges' sampling shared with the trims (:class:`.occt_curves.EdgeParams`).
+    """
+    from OCP.BRep import BRep_Tool
+
+    params = params if params is not None else EdgeParams()
+    listing = listing if listing is not None else edge_uses(shape, faces_map, kept)
+    edges = []
+    for edge, oriented in listing:
+        ts = params(edge, sampling_uses(oriented))
         points = edge_points(edge, ts)
         uses = []
         for e, face, index, to_nurbs in oriented:

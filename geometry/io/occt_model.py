@@ -18,8 +18,8 @@ import numpy as np
 from ..errors import BattenError
 from ..model.topology import Edge, Face, SkippedFace
 from ..nurbs.surface import NurbsSurface
-from .occt_curves import FaceMap, face_loops
-from .occt_edges import indexed_map, sewn_edges, shared_edges
+from .occt_curves import EdgeParams, FaceMap, face_loops
+from .occt_edges import edge_uses, indexed_map, sampling_uses, sewn_edges, shared_edges
 from .occt_surface import bspline_to_nurbs, face_bspline, surface_bspline
 
 # A face whose control net spans more than this is rejected as absurd (100 km).
@@ -135,6 +135,7 @@ def read_shape(shape, namer: Namer | None = None, sew: bool = False) -> ShapeCon
     bodies = _body_labels(shape, faces_map, namer)
     kept: dict[int, tuple[int, FaceMap]] = {}  # input face index -> (model index, its (u, v) map)
     total = faces_map.Extent()
+    inputs = []  # per input face: (face, name, label, its (u, v) map or the reason it is skipped)
     for i in range(total):
         face = TopoDS.Face(faces_map.FindKey(i + 1))
         name = namer(face) if namer else ""
@@ -142,26 +143,42 @@ def read_shape(shape, namer: Namer | None = None, sew: bool = False) -> ShapeCon
         try:
             to_nurbs = FaceMap(face, *_face_surface(face))
         except BattenError as exc:
-            out.warnings.append(f"{label} skipped: {exc}")
-            out.skipped.append(SkippedFace(i + 1, name, str(exc)))
+            inputs.append((face, name, label, str(exc)))
             continue
         except Exception as exc:  # the kernel's own failures (Standard_Failure and kin)
-            out.warnings.append(f"{label} skipped: kernel error ({_kernel_reason(exc)})")
-            out.skipped.append(SkippedFace(i + 1, name, f"kernel error ({_kernel_reason(exc)})"))
+            inputs.append((face, name, label, f"kernel error ({_kernel_reason(exc)})"))
+            continue
+        kept[i] = (len(kept), to_nurbs)
+        inputs.append((face, name, label, to_nurbs))
+    # Every edge is sampled once, for every face along it; trims and edge uses share that.
+    params = EdgeParams()
+    try:
+        listing = edge_uses(shape, faces_map, kept)
+    except Exception as exc:  # topology is a bonus: keep the faces
+        listing, topology_error = None, exc
+    else:
+        topology_error = None
+        for edge, uses in listing:
+            params.prime(edge, sampling_uses(uses))
+    for i, (face, name, label, to_nurbs) in enumerate(inputs):
+        if isinstance(to_nurbs, str):
+            out.warnings.append(f"{label} skipped: {to_nurbs}")
+            out.skipped.append(SkippedFace(i + 1, name, to_nurbs))
             continue
         try:
-            loops, notes = face_loops(face, to_nurbs)
+            loops, notes = face_loops(face, to_nurbs, params)
             out.warnings.extend(f"{label}: {note}" for note in notes)
         except Exception as exc:  # a surface without a readable trim is still worth showing
             loops = ()
             out.warnings.append(f"{label}: trim not read ({_kernel_reason(exc)}); shown untrimmed")
         if to_nurbs.worst > TRIM_WARN_MM:
             out.warnings.append(f"{label}: its trim lies up to {to_nurbs.worst:.3g} mm off its surface")
-        kept[i] = (len(out.faces), to_nurbs)
         reversed_ = face.Orientation() == TopAbs_REVERSED
         out.faces.append(Face(to_nurbs.surface, reversed=reversed_, loops=loops, name=name, body=bodies[i]))
     try:
-        out.edges = shared_edges(shape, faces_map, kept)
+        if topology_error is not None:
+            raise topology_error
+        out.edges = shared_edges(shape, faces_map, kept, params, listing)
         if sew and kept and not any(len(e.uses) > 1 for e in out.edges):
             out.edges = sewn_edges(faces_map, kept)
     except Exception as exc:  # topology is a bonus: keep the faces
