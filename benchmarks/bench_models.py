@@ -112,7 +112,7 @@ def measure(path: Path, repeats: int) -> dict:
         info = ours
         for key in ("read_cold", "read_warm", "seams"):
             keep(key, ours[key])
-        keep("check", _wall([*batten, "check", str(path), "--sections", "none", "--quiet"]))
+        keep("check", _wall([*batten, "check", str(path), "--sections", "none", "--quiet", "--no-cache"]))
         keep("probe", _wall([*batten, "probe", str(path), "--at", *map(str, ours["probe_at"])]))
     best["faces"] = info.get("faces", 0)
     best["seams_n"] = info.get("seams_n", 0)
