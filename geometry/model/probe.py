@@ -177,19 +177,25 @@ def probe_point(model: Model, query: np.ndarray) -> ProbeResult:
     their exact surfaces. A refined point outside its trim means the face's
     nearest point is on its trim boundary, which is then searched instead, so
     the answer is always on the face; the best candidate wins.
+
+    Only faces that can hold one of the nearest samples are sampled: a face
+    lies inside the box of its control net (the convex-hull property, The
+    NURBS Book, 2nd ed., P4.9), so a face whose box is further from the query
+    than the :data:`SEED_CANDIDATES`-th nearest sample found so far holds none
+    of them (faces are taken nearest box first).
     """
     from scipy.spatial import cKDTree
 
     q = np.asarray(query, float).reshape(3)
     if not np.all(np.isfinite(q)):
         raise BattenError("the query point must have finite coordinates")
-    seeds = [_face_seeds(face, SEED_SAMPLES) for face in model.faces]
-    owner = np.concatenate([np.full(len(s[0]), i) for i, s in enumerate(seeds)])
+    seeds = _nearest_faces_seeds(model, q)
+    owner = np.concatenate([np.full(len(s[0]), i) for i, s in seeds])
     if owner.size == 0:
         raise BattenError("the model has no sample inside any face's trim")
-    pts = np.concatenate([s[0] for s in seeds])
-    us = np.concatenate([s[1] for s in seeds])
-    vs = np.concatenate([s[2] for s in seeds])
+    pts = np.concatenate([s[0] for _, s in seeds])
+    us = np.concatenate([s[1] for _, s in seeds])
+    vs = np.concatenate([s[2] for _, s in seeds])
     k = min(SEED_CANDIDATES, owner.size)
     _, nearest = cKDTree(pts).query(q, k=k)
     nearest = np.atleast_1d(nearest)
@@ -204,6 +210,30 @@ def probe_point(model: Model, query: np.ndarray) -> ProbeResult:
         if best is None or dist < best[0]:
             best = (dist, int(owner[i]), float(u[0]), float(v[0]), snapped)
     return probe_uv(model, best[1], best[2], best[3], query=q, on_boundary=best[4])
+
+
+def _box_distances(model: Model, query: np.ndarray) -> np.ndarray:
+    """Distance from ``query`` to each face's control-net box, shape (faces,): a lower bound to the face."""
+    boxes = np.array(
+        [(f.surface.poles.reshape(-1, 3).min(axis=0), f.surface.poles.reshape(-1, 3).max(axis=0)) for f in model.faces]
+    )
+    outside = np.maximum(boxes[:, 0] - query, 0.0) + np.maximum(query - boxes[:, 1], 0.0)
+    return np.linalg.norm(outside, axis=1)
+
+
+def _nearest_faces_seeds(model: Model, query: np.ndarray) -> list[tuple[int, tuple]]:
+    """(face index, :func:`_face_seeds`) for the faces that can hold the nearest seeds, nearest box first."""
+    lower = _box_distances(model, query)
+    kept: list[tuple[int, tuple]] = []
+    nearest = np.empty(0)  # the SEED_CANDIDATES smallest sample distances so far
+    for i in np.argsort(lower, kind="stable").tolist():  # per face, as the seeds always were
+        if nearest.size >= SEED_CANDIDATES and lower[i] > nearest[-1]:
+            break  # this face and every later one lie further than the candidates found
+        found = _face_seeds(model.faces[i], SEED_SAMPLES)
+        kept.append((i, found))
+        if len(found[0]):
+            nearest = np.sort(np.concatenate([nearest, np.linalg.norm(found[0] - query, axis=1)]))[:SEED_CANDIDATES]
+    return kept
 
 
 def _nearest_on_trim(face: Face, query: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
