@@ -100,9 +100,31 @@ def main(argv: list[str] | None = None) -> int:
         _leaving()
 
 
+# Commands that read their one model file as their first work.
+READING_COMMANDS = ("check", "probe", "summary", "section")
+KERNEL_SUFFIXES = (".stp", ".step", ".igs", ".iges")
+
+
+def _start_reader_early(argv: list[str]) -> None:
+    """A command about to read one STEP or IGES file starts the reader's helper process now.
+
+    Its start-up (the CAD kernel's libraries, the compiled kernels) then runs
+    beside this process's own imports instead of after them. Only for one
+    local file: several files are read in worker processes of their own.
+    """
+    if not argv or argv[0] not in READING_COMMANDS or "--cluster" in argv:
+        return
+    files = [a for a in argv[1:] if a.lower().endswith(KERNEL_SUFFIXES)]
+    if len(files) == 1 and os.path.isfile(files[0]):
+        from geometry.io import start_reader
+
+        start_reader()
+
+
 def _main(argv: list[str]) -> int:
     if argv and not argv[0].startswith("-") and argv[0] not in COMMANDS:
         argv.insert(0, DEFAULT_COMMAND)
+    _start_reader_early(argv)
     parser = _parser()
     args = parser.parse_args(argv)
     if args.command is None:

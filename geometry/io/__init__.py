@@ -170,4 +170,11 @@ def read_model(path, budget: ReadBudget | None = None) -> Model:
     )
 
 
-__all__ = ["ReadBudget", "ReadError", "detect_format", "read_model"]
+def start_reader() -> None:
+    """Start the CAD kernel's helper process ahead of a STEP or IGES read (see :mod:`.isolation`)."""
+    from .isolation import start_helper
+
+    start_helper()
+
+
+__all__ = ["ReadBudget", "ReadError", "detect_format", "read_model", "start_reader"]

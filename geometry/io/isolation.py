@@ -115,6 +115,20 @@ def _worker() -> subprocess.Popen:
     return _WORKER
 
 
+def start_helper() -> None:
+    """Start the helper process now, if it is not running, without reading anything.
+
+    A command that will read one STEP or IGES file calls this first, so the
+    helper's start-up (the interpreter, the CAD kernel's libraries, the
+    compiled kernels) runs alongside the command's own imports instead of
+    after them. Does nothing when reading in-process.
+    """
+    if os.environ.get("BATTEN_READ_IN_PROCESS"):
+        return
+    with _LOCK:
+        _worker()
+
+
 def _close_pipes(worker: subprocess.Popen) -> None:
     for pipe in (worker.stdin, worker.stdout):
         try:

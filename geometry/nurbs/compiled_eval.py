@@ -18,6 +18,7 @@ form A3.6 (eq. 3.17 differentiated), rational quotient A4.4 (eq. 4.20).
 from __future__ import annotations
 
 import os
+import threading
 from collections.abc import Callable
 from concurrent.futures import ThreadPoolExecutor
 from dataclasses import dataclass
@@ -474,6 +475,22 @@ def grid_basis(surface, u: np.ndarray, v: np.ndarray, order: int):
     return bu, span_u, bv, span_v
 
 
+_POOLS: dict[tuple[int, int], ThreadPoolExecutor] = {}
+_POOLS_LOCK = threading.Lock()
+
+
+def _pool(workers: int) -> ThreadPoolExecutor:
+    """One lasting pool of ``workers`` threads per process: starting threads per grid cost more than small grids.
+
+    Keyed by process too: a forked child inherits the pool object but not its threads.
+    """
+    key = (os.getpid(), workers)
+    with _POOLS_LOCK:
+        if key not in _POOLS:
+            _POOLS[key] = ThreadPoolExecutor(workers, thread_name_prefix="batten-rows")
+        return _POOLS[key]
+
+
 def run_row_blocks(
     work: Callable[[int, int], None], rows: int, workers: int | None, max_rows: int | None = None
 ) -> None:
@@ -501,8 +518,7 @@ def run_row_blocks(
     edges = np.linspace(0, rows, count + 1).astype(np.int64)
     blocks = [(int(r0), int(r1)) for r0, r1 in zip(edges[:-1], edges[1:], strict=True) if r1 > r0]
     if workers > 1 and len(blocks) > 1:
-        with ThreadPoolExecutor(workers) as pool:
-            list(pool.map(lambda block: work(*block), blocks))
+        list(_pool(workers).map(lambda block: work(*block), blocks))
     else:
         for block in blocks:
             work(*block)
