@@ -50,10 +50,13 @@ MIN_CURVE_SAMPLES, MAX_CURVE_SAMPLES = 9, 4097
 CLOSURE_RTOL = 1e-6
 # How far (relative to the model size) a closest point may lie past a free end.
 END_SLACK = 1e-9
-# Arc-length table intervals per polyline segment (three Gauss points each).
-# Trim polylines have chords of a fraction of a micrometre, over which the
-# curve's speed is all but constant: a few intervals give the length to rounding.
+# Arc-length table intervals per polyline segment (three Gauss points each), and
+# per curve at least. Trim polylines have chords of a fraction of a micrometre,
+# over which the curve's speed is all but constant: a few intervals give the
+# length to rounding; a face's natural boundary is a few long segments, which
+# the floor divides finely.
 ARC_TABLE_PER_SEGMENT = 4
+ARC_TABLE_MIN = 256
 
 
 @dataclass(frozen=True, eq=False)
@@ -210,6 +213,11 @@ def find_seams(
     return Adjacency(tuple(seams + matched), tuple(free), search)
 
 
+def _table_size(segments: int) -> int:
+    """Intervals of a boundary curve's arc-length table."""
+    return max(ARC_TABLE_PER_SEGMENT * segments, ARC_TABLE_MIN)
+
+
 def _tiny(model: Model) -> float:
     """Lengths below this (mm) are collapsed edges."""
     return END_SLACK * max(model.size, 1.0)
@@ -250,7 +258,7 @@ def _sample(model: Model, curves: list[BoundaryCurve], spacing: float) -> _Sampl
     parts = []
     for i, c in enumerate(curves):
         surface = model.faces[c.face].surface
-        t_table, arc = arc_length_table(surface, c.uv, ARC_TABLE_PER_SEGMENT * c.segments)
+        t_table, arc = arc_length_table(surface, c.uv, _table_size(c.segments))
         m = int(np.clip(np.ceil(arc[-1] / spacing) + 1, MIN_CURVE_SAMPLES, MAX_CURVE_SAMPLES))
         t = np.interp(np.linspace(0.0, arc[-1], m), arc, t_table)
         uv, _ = polyline_at(c.uv, t)
@@ -417,7 +425,7 @@ def sub_polyline(uv: np.ndarray, t0: float, t1: float) -> np.ndarray:
 
 def _fraction_to_t(model: Model, face: int, uv: np.ndarray, tau0: float, tau1: float) -> tuple[float, float]:
     """Polyline parameters at arc-length fractions of a boundary curve."""
-    t_table, arc = arc_length_table(model.faces[face].surface, uv, ARC_TABLE_PER_SEGMENT * (uv.shape[0] - 1))
+    t_table, arc = arc_length_table(model.faces[face].surface, uv, _table_size(uv.shape[0] - 1))
     fraction = arc / arc[-1] if arc[-1] > 0 else np.linspace(0.0, 1.0, arc.size)
     t0, t1 = np.interp([tau0, tau1], fraction, t_table)
     return float(t0), float(t1)
@@ -432,7 +440,7 @@ def free_piece(model: Model, face: int, uv: np.ndarray, tau0: float, tau1: float
 def _free_edge(model: Model, curve: BoundaryCurve, t0: float, t1: float) -> FreeEdge:
     surface = model.faces[curve.face].surface
     uv = sub_polyline(curve.uv, t0, t1)
-    t_table, arc = arc_length_table(surface, uv, ARC_TABLE_PER_SEGMENT * (uv.shape[0] - 1))
+    t_table, arc = arc_length_table(surface, uv, _table_size(uv.shape[0] - 1))
     pv, _ = polyline_at(uv, t_table)
     return FreeEdge(curve.face, uv, surface.points_at(pv[:, 0], pv[:, 1]), arc[-1])
 
