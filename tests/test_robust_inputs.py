@@ -273,3 +273,27 @@ def test_the_window_lists_a_face_that_cannot_be_evaluated(tmp_path):
     session.show_model(read_model(_json_model(tmp_path, bilinear_record([[1, 2, 3]] * 4), bilinear_record(GOOD))))
     failing = [f.title for f in session.findings if f.kind == "face"]
     assert failing == ["face 0 cannot be evaluated: all control points coincide"]
+
+
+def test_an_edge_with_a_pole_far_out_is_checked_without_running_out_of_memory(tmp_path):
+    # Fuzz find (seed 606, input 1284): one pole of a free edge's 3-D curve at 2^63 - 1 mm. The edge's
+    # trace on its face is a single point, split into ~2,900 "closed" pieces whose ~27,000 samples all
+    # paired with each other (370 M pairs, std::bad_alloc). A trace collapsed to a point is no edge.
+    text = (SAMPLES / "hood_visor_rev_b.stp").read_text()
+    bad = tmp_path / "far_pole.stp"
+    bad.write_text(text.replace("#148 = CARTESIAN_POINT('',(0.,", "#148 = CARTESIAN_POINT('',(9223372036854775807.,"))
+    model = read_model(bad)
+    review = review_model(model)
+    assert len(model.faces) == 2 and len(review.seams) >= 1 and len(review.free_edges) < 20
+
+
+def test_boundaries_crowding_into_one_place_are_a_clear_error():
+    # Whatever else breaks a file that way, the pair search refuses before it allocates the pairs.
+    from geometry.seams import adjacency
+    from geometry.seams.boundary import BoundaryCurve
+
+    model = Model((Face(geometry.NurbsSurface(1, 1, [0, 0, 1, 1], [0, 0, 1, 1], np.reshape(GOOD, (2, 2, 3)))),))
+    spot = np.array([[0.5, 0.5], [0.5 + 1e-6, 0.5]])
+    curves = [BoundaryCurve(0, spot) for _ in range(3000)]
+    with pytest.raises(BattenError, match="crowd into one place"):
+        adjacency._match_curves(model, curves, 0.5)

@@ -57,6 +57,9 @@ END_SLACK = 1e-9
 # the floor divides finely.
 ARC_TABLE_PER_SEGMENT = 4
 ARC_TABLE_MIN = 256
+# Boundary sample pairs within reach, per sample, past which the boundaries crowd into one place (a broken
+# file: thousands of curves on one spot). Sound models stay far below it: each sample meets a few curves.
+PAIRS_PER_SAMPLE = 200
 
 
 @dataclass(frozen=True, eq=False)
@@ -232,6 +235,8 @@ def _open_curves(model: Model, face: int, uv: np.ndarray) -> list[BoundaryCurve]
     """
     surface = model.faces[face].surface
     pts = surface.points_at(uv[:, 0], uv[:, 1])
+    if not np.ptp(pts, axis=0).max() > _tiny(model):
+        return []  # collapsed on the face (a pole, or a broken edge): neither seam nor free
     closed_3d = uv.shape[0] > 2 and np.linalg.norm(pts[0] - pts[-1]) <= 1e-9 * max(model.size, 1.0)
     if not closed_3d:
         return [BoundaryCurve(face, uv)]
@@ -320,7 +325,14 @@ def _match_curves(model: Model, curves: list[BoundaryCurve], search: float) -> t
     sample_face = faces[s.curve]
     step = np.linalg.norm(np.diff(s.points, axis=0), axis=1)
     reach = search + (step[~s.last[:-1]].max() if np.any(~s.last[:-1]) else 0.0)
-    pairs = cKDTree(s.points).query_pairs(reach, output_type="ndarray")
+    tree = cKDTree(s.points)
+    crowded = tree.count_neighbors(tree, reach) - len(s.points)  # counted both ways, without memory
+    if crowded > 2 * PAIRS_PER_SAMPLE * len(s.points):
+        raise BattenError(
+            f"the face boundaries crowd into one place ({crowded // 2} sample pairs within {reach:.3g} mm "
+            f"among {len(s.points)} samples): the file's edges are broken, seams cannot be matched"
+        )
+    pairs = tree.query_pairs(reach, output_type="ndarray")
     # Pairs on different faces, or on two curves of one face at opposite ends
     # of its parameter domain (a closed surface meeting itself along its closure).
     pairs = pairs[s.curve[pairs[:, 0]] != s.curve[pairs[:, 1]]]
