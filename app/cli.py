@@ -101,7 +101,7 @@ def main(argv: list[str] | None = None) -> int:
 
 
 # Commands that read their one model file as their first work.
-READING_COMMANDS = ("check", "probe", "summary", "section")
+READING_COMMANDS = ("open", "check", "probe", "summary", "section")
 KERNEL_SUFFIXES = (".stp", ".step", ".igs", ".iges")
 
 

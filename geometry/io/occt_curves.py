@@ -25,6 +25,8 @@ MAX_EDGE_SAMPLES = 4097
 # Arc-length samples an edge starts from, and rounds of halving its worst chords.
 START_EDGE_SAMPLES = 9
 REFINE_ROUNDS = 14
+# A p-curve's midpoint this close to its (u, v) chord's, relative to the chord, lies on it (rounding).
+STRAIGHT_RTOL = 1e-12
 # Relative tolerance for a trim loop that is just the domain's rectangle.
 NATURAL_LOOP_RTOL = 1e-7
 # A loop enclosing less than this fraction of the domain's area has none.
@@ -102,7 +104,16 @@ def edge_params(edge, uses=()) -> np.ndarray:
         mid_traces = []
         for (c2d, surface), uv in zip(pcurves, traces, strict=True):
             uv_mid = _values(c2d, mid)[:, :2]
-            sag = np.linalg.norm(_on_surface(surface, uv_mid) - _on_surface(surface, 0.5 * (uv[lo] + uv[hi])), axis=1)
+            chord_mid = 0.5 * (uv[lo] + uv[hi])
+            # Where the p-curve's midpoint lies on its (u, v) chord (a line in the parameters,
+            # as iso-curves and most edges of cylinders are), the surface holds no sag to measure.
+            bent = np.any(
+                np.abs(uv_mid - chord_mid) > STRAIGHT_RTOL * np.abs(uv[hi] - uv[lo]).max(axis=1)[:, None], axis=1
+            )
+            sag = np.zeros(mid.size)
+            if bent.any():
+                on_curve = _on_surface(surface, uv_mid[bent])
+                sag[bent] = np.linalg.norm(on_curve - _on_surface(surface, chord_mid[bent]), axis=1)
             error = np.maximum(error, sag)
             mid_traces.append(uv_mid)
         bad = error > bound
