@@ -14,6 +14,7 @@ from numpy.testing import assert_allclose
 from geometry.model import Edge, EdgeUse, Face, Model
 from geometry.nurbs.surface import NurbsSurface
 from geometry.seams import SeamTolerance, check_seams, find_seams
+from geometry.seams.edges import EdgeSeams
 from geometry.seams.spacing import MAX_SAMPLES, MIN_SAMPLES, PER_SPAN, TURN_PER_SAMPLE_DEG, sample_counts, seam_demands
 from tests.test_seams_shapes import tilting_join
 
@@ -65,3 +66,42 @@ def test_a_dip_between_samples_decides_the_crease(crease_deg, crease):
     assert seam.angle.min() > 30.0  # the samples alone would call it a 30-degree crease
     assert_allclose(seam.angle_min, 29.9, atol=1e-6)
     assert seam.crease is crease
+
+
+def _bend_model(radius: float = 0.01) -> Model:
+    """Two flat faces sharing an edge that runs 5 mm straight, turns 90 degrees round a 0.01 mm radius, runs on."""
+    corners = np.array([[[0, 0, 0], [0, 10, 0]], [[10, 0, 0], [10, 10, 0]]], float)
+    surface = NurbsSurface(1, 1, [0, 0, 1, 1], [0, 0, 1, 1], corners)
+    bend = np.linspace(0.0, np.pi / 2, 60)
+    arc = np.stack([5.0 + radius * np.sin(bend), radius * (1.0 - np.cos(bend)), np.zeros_like(bend)], axis=1)
+    first = np.stack([np.linspace(0.0, 5.0, 30), np.zeros(30), np.zeros(30)], axis=1)[:-1]
+    last = np.stack([np.full(30, 5.0 + radius), np.linspace(radius, 5.0, 30), np.zeros(30)], axis=1)[1:]
+    points = np.concatenate([first, arc, last])
+    uv = points[:, :2] / 10.0
+    return Model((Face(surface), Face(surface)), (Edge(points, (EdgeUse(0, uv), EdgeUse(1, uv))),))
+
+
+def test_samples_gather_where_the_edge_turns():
+    # Evenly spread in length / spacing + turning / TURN_PER_SAMPLE_DEG (common practice): the
+    # 90-degree bend (0.016 mm of the seam's 10 mm) holds 45 of the 55 parts of that demand.
+    model = _bend_model()
+    pairs = find_seams(model, geometry=False).seams
+    batch = EdgeSeams(model, pairs, 1e-3)
+    lengths, turning, spans = seam_demands(model, pairs)
+    counts = sample_counts(lengths, 1.0, MIN_SAMPLES, turning, spans)
+    seam, tau, start = batch.sample_positions(counts, 1.0)
+    arc = tau * batch.length[0]
+    in_bend = (arc > 5.0 - 1e-9) & (arc < 5.0 + np.pi / 2 * 0.01 + 1e-9)
+    assert counts[0] == int(np.ceil(np.degrees(turning[0]) / TURN_PER_SAMPLE_DEG)) + 1
+    assert in_bend.sum() >= 0.7 * counts[0]
+    assert tau[0] == 0.0 and tau[-1] == 1.0 and np.all(np.diff(tau) >= 0)
+
+
+def test_a_straight_seam_is_sampled_evenly():
+    model = _bend_model()
+    edge = model.edges[0]
+    straight = Model(model.faces, (Edge(edge.points[:29], tuple(EdgeUse(u.face, u.uv[:29]) for u in edge.uses)),))
+    pairs = find_seams(straight, geometry=False).seams
+    batch = EdgeSeams(straight, pairs, 1e-3)
+    seam, tau, start = batch.sample_positions(np.array([21]), 1.0)
+    assert_allclose(tau, np.linspace(0.0, 1.0, 21), atol=1e-12)

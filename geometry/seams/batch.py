@@ -214,6 +214,7 @@ def measure_batch(
     min_samples: int = MIN_SAMPLES,
     turning: np.ndarray | None = None,
     spans: np.ndarray | None = None,
+    positions=None,
 ) -> list[SeamResult]:
     """Sample, refine and classify a batch of seams.
 
@@ -236,6 +237,10 @@ def measure_batch(
         Each seam's total turning (radians) and the knot spans it crosses
         (:func:`geometry.seams.spacing.seam_demands`): more samples where the
         seam bends or crosses knots (:func:`geometry.seams.spacing.sample_counts`).
+    positions : callable, optional
+        ``positions(counts) -> (seam, tau, start)``: where the samples go
+        (:meth:`geometry.seams.edges.EdgeSeams.sample_positions`); default
+        evenly in arc length (:func:`even_samples`).
 
     Returns
     -------
@@ -243,7 +248,7 @@ def measure_batch(
         In the order of ``pairs``.
     """
     counts = sample_counts(lengths, max_spacing, min_samples, turning, spans)
-    seam, tau, start = even_samples(counts)
+    seam, tau, start = (positions or even_samples)(counts)
     values = evaluator(seam, tau)
     tau_best, best = refine_maxima_batch(evaluator, seam, tau, start, values, REFINED)
     n_seams, n_keys = start.size, len(REFINED)

@@ -256,6 +256,7 @@ def measure_seams(
             **sampling,
             turning=turning[rows],
             spans=spans[rows],
+            positions=lambda n, batch=batch: batch.sample_positions(n, max_spacing),
         )
         for g, result in zip(group, measured, strict=True):
             results[at_edge[g]] = result
