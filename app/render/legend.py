@@ -57,6 +57,8 @@ SHIFT = 0.14
 # kept between the legend's text and the view's right edge, pixels.
 CHARACTER_WIDTH = 0.62
 EDGE_GAP_PX = 6
+# The clipped-ends text stands right-aligned at this share of the view's width, this far below the bar.
+ENDS_RIGHT, ENDS_BELOW = 0.99, 0.03
 
 
 def fitted(where: LegendPlace, title: str, labels: tuple[str, ...], view_px: int) -> LegendPlace:
@@ -82,6 +84,41 @@ def fitted(where: LegendPlace, title: str, labels: tuple[str, ...], view_px: int
     # the title is centred on the bar; the labels stand right of it
     x = min(where.x, 1 - gap - half_bar - title_px / 2 / view_px, 1 - gap - where.width - label_px / view_px)
     return replace(where, x=max(x, 0.0))
+
+
+def legend_box(
+    where: LegendPlace, title: str, labels: tuple[str, ...], ends: str, size: tuple[int, int]
+) -> tuple[float, float, float, float]:
+    """Pixels a legend at ``where`` covers (bar, title, tick labels, ends text): left, top, right, bottom.
+
+    Measured from the view's top left, with the same character widths as :func:`fitted`.
+
+    Parameters
+    ----------
+    where : LegendPlace
+        As placed (after :func:`fitted`).
+    title : str
+    labels : tuple of str
+        Tick labels as drawn.
+    ends : str
+        The text under the bar naming clipped ends (right-aligned at the view's edge), lines split by newlines.
+    size : (int, int)
+        Width and height of the view in pixels.
+    """
+    width, height = size
+    lines = title.split("\n")
+    title_px = CHARACTER_WIDTH * where.title_size * max((len(line) for line in lines), default=0)
+    label_px = CHARACTER_WIDTH * where.label_size * max((len(text) for text in labels), default=0) + 8
+    bar_left, bar_right = where.x * width, (where.x + where.width) * width
+    centre = (bar_left + bar_right) / 2
+    bar_top, bar_bottom = (1 - where.y - where.height) * height, (1 - where.y) * height
+    top = bar_top - TITLE_GAP - 1.25 * where.title_size * len(lines) - where.label_size / 2
+    ends_lines = ends.split("\n") if ends else []
+    ends_bottom = (1 - where.y + ENDS_BELOW) * height + 1.25 * where.label_size * len(ends_lines)
+    ends_left = ENDS_RIGHT * width - CHARACTER_WIDTH * where.label_size * max(map(len, ends_lines), default=0)
+    bottom = max(bar_bottom + where.label_size / 2, ends_bottom)
+    left = min(bar_left, centre - title_px / 2, ends_left)
+    return (left, top, max(bar_right + label_px, centre + title_px / 2), bottom)
 
 
 def measure_title(measure: Measure) -> str:
@@ -211,4 +248,4 @@ def place_legend(bar, ends, where: LegendPlace) -> None:
         _style_text(ends.GetTextProperty(), where.label_size)
         ends.GetTextProperty().SetJustificationToRight()
         ends.GetTextProperty().SetVerticalJustificationToTop()
-        ends.SetPosition(0.99, where.y - 0.03)
+        ends.SetPosition(ENDS_RIGHT, where.y - ENDS_BELOW)

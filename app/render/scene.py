@@ -25,6 +25,7 @@ from .legend import (
     clipped_ends,
     ends_text,
     fitted,
+    legend_box,
     measure_title,
     place_legend,
     tick_format,
@@ -84,6 +85,7 @@ class Scene:
         self.surface: pv.PolyData | None = None
         self.legend: str | None = None
         self.legend_ends = None  # the text under the bar naming the true extremes beyond clipped ends
+        self._legend_place: LegendPlace | None = None  # where the legend stands now (after fitting)
         self.lines = {name: pv.PolyData() for name in ("curves", "teeth", "envelopes", "seams", "mark")}
         self.points = {name: pv.PolyData() for name in ("inflections", "extrema", "mark_point")}
         self.actors: dict[str, object] = {}
@@ -224,12 +226,24 @@ class Scene:
         """Put the legend (bar, title, clipped ends) at ``where`` with its font sizes (window or print)."""
         if self.legend is None or self.legend not in self.plotter.scalar_bars:
             return
-        bar = self.plotter.scalar_bars[self.legend]
-        low, high = bar.GetLookupTable().GetRange()
-        labels = tuple(bar.GetLabelFormat() % v for v in (low, high))
+        labels = self._legend_labels()
         left, _, right, _ = self.plotter.renderer.GetViewport()
         view_px = int(self.plotter.window_size[0] * (right - left))
-        place_legend(bar, self.legend_ends, fitted(where, self.legend, labels, view_px))
+        self._legend_place = fitted(where, self.legend, labels, view_px)
+        place_legend(self.plotter.scalar_bars[self.legend], self.legend_ends, self._legend_place)
+
+    def _legend_labels(self) -> tuple[str, ...]:
+        bar = self.plotter.scalar_bars[self.legend]
+        low, high = bar.GetLookupTable().GetRange()
+        return tuple(bar.GetLabelFormat() % v for v in (low, high))
+
+    def legend_box(self) -> tuple[float, float, float, float] | None:
+        """Pixels the legend covers (left, top, right, bottom from the top left), None without a legend."""
+        if self.legend is None or self.legend not in self.plotter.scalar_bars or self._legend_place is None:
+            return None
+        ends = (self.legend_ends.GetInput() or "") if self.legend_ends is not None else ""
+        size = tuple(self.plotter.window_size)
+        return legend_box(self._legend_place, self.legend, self._legend_labels(), ends, size)
 
     def update_stripes(self, render: bool = True) -> None:
         """Recompute the stripe parameter (after a camera move in reflection mode)."""

@@ -5,8 +5,9 @@ and the section combs are drawn by :class:`app.render.scene.Scene` from a
 :class:`app.state.Session` holding the checked model, with the window's
 settings (the window passes its own when it exports a report): what the
 reviewer saw on screen is what the board reads. The cameras look from the
-model's principal axes (:mod:`app.report.views`); numbered labels on the model
-match the numbers of the findings table, and numbers that would overlap share one.
+model's principal axes and frame the model tight (:mod:`app.report.views`);
+numbered labels beside the findings' places match the numbers of the findings
+table, placed so that none covers another (:mod:`app.report.labels`).
 """
 
 from __future__ import annotations
@@ -29,16 +30,17 @@ from geometry.conventions import CURVATURE_SIGN
 from geometry.model import Model
 from geometry.tooling import analyse_tooling
 
+from . import labels as numbering
 from .settings_text import family_words
-from .views import View, choose_views, merge_labels, screen_positions
-from .wording import free_planes, section_name
+from .tables import flat_level
+from .views import View, choose_views, fit_move, triangle_patches
+from .wording import free_planes, quantity, section_name
 from .wording import number as number_text
 
 IMAGE_SIZE = (1000, 700)
-ZOOM = 1.0
-# The curvature views leave the legend room at the right.
-ZOOM_WITH_LEGEND = 0.82
 MARKER_FONT = 22
+# Pixels kept clear round the model's outline and the legend when framing.
+FRAME_GAP = 24
 # Curvature plots span at least +-this (1/mm): a radius of 10 m.
 PLOT_SPAN_MIN = 1e-4
 
@@ -50,18 +52,50 @@ class Figure:
     png: bytes
 
 
-def _set_view(plotter, view: View, zoom: float = ZOOM) -> None:
-    """Look at the whole scene from ``view.toward`` with ``view.up`` up, framed to fit."""
+def _set_view(plotter, view: View) -> None:
+    """Look at the whole scene from ``view.toward`` with ``view.up`` up (then :func:`_fit` frames it)."""
     centre = np.asarray(plotter.center, float)
     plotter.camera_position = [tuple(centre + view.toward), tuple(centre), tuple(view.up)]
     plotter.reset_camera()
-    plotter.camera.zoom(zoom)
 
 
-def _png(plotter) -> bytes:
+def _top_left(scene: Scene, points: np.ndarray) -> np.ndarray:
+    """Picture pixels of world points, x right, y down, shape (n, 2)."""
+    pixels = scene.to_display(points)
+    return np.column_stack([pixels[:, 0], scene.plotter.window_size[1] - pixels[:, 1]])
+
+
+def _fit(scene: Scene, points: np.ndarray) -> None:
+    """Frame the model's outline in the picture's free part (left of the legend), moving the camera.
+
+    Twice: under perspective the first move changes the outline a little.
+    """
+    width, height = scene.plotter.window_size
+    legend = scene.legend_box()
+    right = width if legend is None else legend[0]
+    free = (FRAME_GAP, FRAME_GAP, right - FRAME_GAP, height - FRAME_GAP)
+    camera = scene.plotter.camera
+    for _ in range(2):
+        camera.zoom(fit_move(_top_left(scene, points), free)[2])
+        dx, dy, _ = fit_move(_top_left(scene, points), free)
+        # one pixel at the focal point, in mm: the view's height there over the picture's height
+        distance = np.linalg.norm(np.subtract(camera.focal_point, camera.position))
+        pixel = 2.0 * distance * np.tan(np.radians(camera.view_angle) / 2.0) / height
+        forward = np.subtract(camera.focal_point, camera.position) / distance
+        up = np.asarray(camera.up, float)
+        right_dir = np.cross(forward, up)
+        right_dir /= np.linalg.norm(right_dir)
+        up = np.cross(right_dir, forward)
+        # moving the camera left and up moves the picture right and down
+        shift = (-dx * right_dir + dy * up) * pixel
+        camera.position = tuple(np.add(camera.position, shift))
+        camera.focal_point = tuple(np.add(camera.focal_point, shift))
+    scene.plotter.reset_camera_clipping_range()
+
+
+def _png(image: np.ndarray) -> bytes:
     from PIL import Image
 
-    image = plotter.screenshot(return_img=True)
     buf = io.BytesIO()
     Image.fromarray(image).save(buf, format="PNG", optimize=True)
     return buf.getvalue()
@@ -77,26 +111,19 @@ def _markers(review: FileReview) -> tuple[np.ndarray, list[str]]:
     return np.asarray(points, float).reshape(-1, 3), labels
 
 
-def _add_markers(plotter, review: FileReview) -> None:
-    """Number the findings at their places; numbers that would overlap in this view share one label."""
-    points, labels = _markers(review)
-    if labels:
-        camera = plotter.camera
-        screen = screen_positions(points, camera.position, camera.focal_point, camera.up, camera.view_angle)
-        merged = merge_labels(screen, labels)
-        plotter.add_point_labels(
-            points[[anchor for anchor, _ in merged]],
-            [text for _, text in merged],
-            name="finding-numbers",
-            font_size=MARKER_FONT,
-            point_color=colours.VERDICT["fail"],
-            point_size=14,
-            text_color="black",
-            shape_color=colours.MARK,
-            shape_opacity=0.9,
-            render_points_as_spheres=True,
-            always_visible=True,
-        )
+def _numbered(scene: Scene, review: FileReview, image: np.ndarray) -> tuple[np.ndarray, list[str]]:
+    """The picture with the findings' numbers beside their places, and the numbers left out for room."""
+    points, numbers = _markers(review)
+    if not numbers:
+        return image, []
+    scale = image.shape[1] / scene.plotter.window_size[0]
+    anchors, texts = numbering.same_spot(_top_left(scene, points) * scale, numbers)
+    font = round(MARKER_FONT * scale)
+    legend = scene.legend_box()
+    keep_free = np.zeros((0, 4)) if legend is None else np.asarray(legend, float) * scale
+    placed = numbering.place(anchors, texts, numbering.box_sizes(texts, font), image.shape[1::-1], keep_free)
+    drawn = numbering.draw(image, placed, font, colours.VERDICT["fail"], colours.MARK)
+    return drawn, placed.left_out
 
 
 def _seam_views(review: FileReview) -> tuple[SeamView, ...]:
@@ -150,31 +177,52 @@ class _Pictures:
         session.show_sections((), ())
         self.scene.update_sections()
         mesh = self.scene.faces.mesh if self.scene.faces is not None else None
-        self.views = choose_views(mesh.points, mesh.point_data["Normals"]) if mesh is not None and mesh.n_points else ()
+        self.views = ()
+        if mesh is not None and mesh.n_cells:
+            self.points = np.asarray(mesh.points)
+            triangles = np.asarray(mesh.faces).reshape(-1, 4)[:, 1:]
+            patches = triangle_patches(self.points, mesh.point_data["Normals"], triangles)
+            self.views = choose_views(*patches)
 
     def show(self, mode: Mode, view: View, sections: bool = False) -> None:
+        """The scene in ``mode`` from ``view``, the legend in its print place and the model framed beside it."""
         session = self.session
         session.show_sections(*(self.sections if sections else ((), ())))
         self.scene.update_sections()
-        _set_view(self.plotter, view, ZOOM_WITH_LEGEND if mode in (Mode.CURVATURE, Mode.DRAFT) else ZOOM)
-        _add_markers(self.plotter, self.review)
-        session.set_camera(self.scene.camera())
+        _set_view(self.plotter, view)
         session.set_display(mode=mode)
         self.scene.update_surface()
+        self.scene.place_legend(PRINT_LEGEND)
+        _fit(self.scene, self.points)
+        session.set_camera(self.scene.camera())
+        self.scene.update_stripes(render=False)  # reflection lines follow the framed camera
 
-    @property
-    def marker_words(self) -> str:
-        return " Numbered labels: the findings over tolerance of the same number." if _markers(self.review)[1] else ""
-
-    def take(self, name: str, caption: str) -> Figure:
+    def take(self, name: str, caption: str, numbered: bool = False) -> Figure:
+        """The picture as shown; ``numbered``: the findings' numbers drawn on it and named in the caption."""
         self.scene.place_legend(PRINT_LEGEND)  # set just before the shot: a new bar takes the window's place
         # VTK lays a scalar bar's text out one render behind a change of its font sizes: render once first,
         # or the picture carries the window's small legend text.
         self.plotter.render()
-        return Figure(name, caption, _png(self.plotter))
+        image = self.plotter.screenshot(return_img=True)
+        if numbered and _markers(self.review)[1]:
+            image, left_out = _numbered(self.scene, self.review, image)
+            caption += " " + _number_words(left_out)
+        return Figure(name, caption, _png(image))
 
     def close(self) -> None:
         self.plotter.close()
+
+
+def _number_words(left_out: list[str]) -> str:
+    """What the numbers on a picture are, and which found no room in it."""
+    words = "Numbers: the findings over tolerance of the same number, a line to each one's place."
+    if left_out:
+        many = len(left_out) > 1 or "," in left_out[0]
+        words += (
+            f" No room in this picture for {'numbers' if many else 'number'} {', '.join(left_out)}: "
+            "the findings table lists every finding with its position."
+        )
+    return words
 
 
 def findings_view(pictures: _Pictures) -> Figure:
@@ -183,24 +231,30 @@ def findings_view(pictures: _Pictures) -> Figure:
     pictures.show(Mode.SHADED, view)
     caption = (
         "Seams within tolerance (green), seams over tolerance (red), free edges (amber), in the window's colours; "
-        f"{view.words} (model axes)." + pictures.marker_words
+        f"{view.words} (model axes)."
     )
-    return pictures.take("findings", caption)
+    return pictures.take("findings", caption, numbered=True)
 
 
 def curvature_views(pictures: _Pictures) -> list[Figure]:
     """Mean curvature from each of the chosen views, with the window's map, range and legend."""
     figures = []
+    flat = flat_level(pictures.review)
     for view in pictures.views:
         pictures.show(Mode.CURVATURE, view)
         low, high = (number_text(v, 3) for v in pictures.session.colour_limits())
-        smallest, largest = (number_text(v, 3) for v in pictures.session.value_extremes())
+        extremes = pictures.session.value_extremes()
+        if not np.all(np.abs(extremes) < flat):
+            smallest, largest = (number_text(v, 3) for v in extremes)
+            values = f"the model's values run from {smallest} to {largest} 1/mm"
+        else:
+            # "from 0 to 0 1/mm" tells a reader nothing: say what it means
+            values = f"every face is flat (|H| below the profile's flat level of {quantity(flat, '1/mm')} everywhere)"
         caption = (
             f"Mean curvature H, {view.words} (model axes), as the window shows it: colours from {low} to {high} "
-            f"1/mm, values beyond them in the end colours; the model's values run from {smallest} to {largest} "
-            f"1/mm; {CURVATURE_SIGN}." + pictures.marker_words
+            f"1/mm, values beyond them in the end colours; {values}; {CURVATURE_SIGN}."
         )
-        figures.append(pictures.take(f"curvature-{view.name}", caption))
+        figures.append(pictures.take(f"curvature-{view.name}", caption, numbered=True))
     return figures
 
 
@@ -247,9 +301,9 @@ def draft_view(pictures: _Pictures, model: Model) -> Figure | None:
         f"Draft against the pull ({pull}) (green arrow) as the window shows it, degrees, from -{span:g} to {span:g}: "
         f"blue faces leave along +pull, green along -pull; pale to red: below the {limit:g} degree limit. Black "
         f"lines: zero draft (where a parting line can run). Overlays: undercut ({UNDERCUT_NAME}), out of the "
-        f"cutter's reach ({OUT_OF_REACH_NAME}). Numbers: findings over tolerance; {view.words} (model axes)."
+        f"cutter's reach ({OUT_OF_REACH_NAME}); {view.words} (model axes)."
     )
-    return pictures.take("draft", caption)
+    return pictures.take("draft", caption, numbered=True)
 
 
 def _png_of(fig) -> bytes:

@@ -223,13 +223,14 @@ def _radius(curvature, flat: float) -> str:
     return number(1.0 / abs(float(curvature)))
 
 
-def _flat_level(review: FileReview) -> float:
+def flat_level(review: FileReview) -> float:
+    """Curvature (1/mm) below which the check's profile counts a surface as flat."""
     return float(review.profile.get("flat_curvature_per_mm") or 1e-6)
 
 
 def extrema_rows(review: FileReview):
     header = ["Section curve", "Arc length s (mm)", "Curvature k (1/mm)", "Radius (mm)", "Kind", "Point x, y, z (mm)"]
-    flat = _flat_level(review)
+    flat = flat_level(review)
     rows = []
     for name, c in _curves(review):
         for p in c.get("extrema", ()):
@@ -356,7 +357,7 @@ def tooling_facts(review: FileReview) -> list[tuple[str, str]]:
 
 def _concave(review: FileReview, radius) -> str:
     """A concave radius, or "none" where nothing is concave (no radius, or one flatter than the profile's flat)."""
-    if radius is None or float(radius) * _flat_level(review) >= 1.0:
+    if radius is None or float(radius) * flat_level(review) >= 1.0:
         return "none"
     return num(radius)
 
