@@ -129,8 +129,42 @@ def test_seam_table_lists_the_worst_first():
             "angle_max_deg": 0.01,
         },
     )
-    _, rows = seam_rows(FileReview(source="x", status="checked", seams=seams))
+    _, rows, _ = seam_rows(FileReview(source="x", status="checked", seams=seams))
     assert [r[0] for r in rows] == ["2", "3", "1", "0"]
+
+
+def test_seams_within_tolerance_beyond_the_nearest_misses_are_counted_not_listed():
+    # 3 failing seams and 50 passing ones, the passing ones by rising angle: the worst pass come first.
+    failing = [{"id": i, "face_names": ["a", "b"], "continuity": "G1", "verdict": "fail"} for i in range(3)]
+    passing = [
+        {"id": 10 + i, "face_names": ["a", "b"], "continuity": "G2", "verdict": "pass", "angle_max_deg": 0.001 * i}
+        for i in range(50)
+    ]
+    _, rows, left_out = seam_rows(FileReview(source="x", status="checked", seams=(*failing, *passing)), 20)
+    assert left_out == 30 and len(rows) == 23
+    assert [r[0] for r in rows[:3]] == ["0", "1", "2"] and rows[3][0] == "59"  # every failure, then the worst pass
+
+
+def test_a_large_models_tooling_table_lists_the_faces_with_something_to_report():
+    from app.report.tables import TOOLING_FACES_ALL, tooling_rows
+
+    def face(i, concave=None, short=0.0):
+        return {
+            "face": i,
+            "name": f"panel_{i}",
+            "area_mm2": 100.0,
+            "draft_range_deg": None,
+            "least_draft_deg": None,
+            "insufficient_area_mm2": short,
+            "undercut_area_mm2": 0.0,
+            "concave_radius_mm": concave,
+            "out_of_reach_area_mm2": 0.0,
+        }
+
+    faces = [face(i) for i in range(TOOLING_FACES_ALL + 10)] + [face(98, concave=4.0), face(99, short=2.5)]
+    review = FileReview(source="x", status="checked", tooling={"faces": faces}, profile={"flat_curvature_per_mm": 1e-6})
+    _, rows = tooling_rows(review)
+    assert [r[1] for r in rows] == ["panel_98", "panel_99"]
 
 
 def test_report_needs_a_known_extension(tmp_path):

@@ -41,7 +41,7 @@ def test_every_curvature_picture_carries_the_print_legend():
         pictures.scene.place_legend(WINDOW_LEGEND)
         pictures.plotter.render()
         pictures.plotter.render()
-        window = _legend_ink(figures._png(pictures.plotter))
+        window = _legend_ink(figures._png(pictures.plotter.screenshot(return_img=True)))
     finally:
         pictures.close()
     assert PRINT_LEGEND.label_size > 2 * WINDOW_LEGEND.label_size

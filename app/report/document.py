@@ -20,6 +20,7 @@ from . import blocks, review_parts
 from .figures import Figure
 from .settings_text import profile_origin, profile_rows, sections_sentence
 from .tables import (
+    SEAMS_WITHIN_LISTED,
     WIDTHS,
     checked_rows,
     extrema_rows,
@@ -29,6 +30,7 @@ from .tables import (
     finding_rows,
     free_edge_rows,
     inflection_rows,
+    listed_tooling_faces,
     seam_rows,
     tooling_facts,
     tooling_rows,
@@ -211,11 +213,18 @@ def dispositions(ch: Chapter) -> str:
 
 
 def seams(ch: Chapter) -> str:
-    header, rows = seam_rows(ch.review)
+    header, rows, left_out = seam_rows(ch.review, SEAMS_WITHIN_LISTED)
     parts = [
         blocks.heading("Seams, worst first"),
         blocks.table(header, rows, "The model has no seams between faces.", WIDTHS["seams"]),
     ]
+    if left_out:
+        parts.append(
+            blocks.paragraph(
+                f"{plural(left_out, 'more seam')} within tolerance, better than those above, not listed; the "
+                "check's JSON record (batten check --json) lists every seam."
+            )
+        )
     if rows:
         parts.append(blocks.paragraph(SEAMS_NOTE, small=True))
     return "".join(parts)
@@ -275,6 +284,19 @@ TOOLING_NOTE = (
 )
 
 
+NO_TOOLING_REMARK = "No face is short of draft, undercut, concave or out of the cutter's reach."
+
+
+def _quiet_faces(review: FileReview) -> str:
+    left_out = listed_tooling_faces(review)[1]
+    if not left_out:
+        return ""
+    return blocks.paragraph(
+        f"{plural(left_out, 'more face')}: nothing short of draft, no undercut, nothing concave and nothing out of "
+        "the cutter's reach; not listed."
+    )
+
+
 def tooling(ch: Chapter) -> str:
     r = ch.review
     if not r.tooling:
@@ -283,7 +305,10 @@ def tooling(ch: Chapter) -> str:
         [
             blocks.heading("Release to tooling"),
             blocks.facts(tooling_facts(r)),
-            blocks.table(*tooling_rows(r), "The model has no faces."),
+            blocks.table(
+                *tooling_rows(r), "No face is short of draft, undercut, concave or out of the cutter's reach."
+            ),
+            _quiet_faces(r),
             blocks.paragraph(TOOLING_NOTE, small=True),
             blocks.heading("Undercut regions"),
             blocks.table(*undercut_rows(r), "None found."),

@@ -41,6 +41,8 @@ IMAGE_SIZE = (1000, 700)
 MARKER_FONT = 22
 # Pixels kept clear round the model's outline and the legend when framing.
 FRAME_GAP = 24
+# A picture other than the findings one is left unnumbered when more than this share of its leaders cross labels.
+CLUTTER = 0.1
 # Curvature plots span at least +-this (1/mm): a radius of 10 m.
 PLOT_SPAN_MIN = 1e-4
 
@@ -111,19 +113,26 @@ def _markers(review: FileReview) -> tuple[np.ndarray, list[str]]:
     return np.asarray(points, float).reshape(-1, 3), labels
 
 
-def _numbered(scene: Scene, review: FileReview, image: np.ndarray) -> tuple[np.ndarray, list[str]]:
-    """The picture with the findings' numbers beside their places, and the numbers left out for room."""
+def _numbered(scene: Scene, review: FileReview, image: np.ndarray, optional: bool) -> tuple[np.ndarray, str]:
+    """The picture with the findings' numbers beside their places, and the caption's words on them.
+
+    ``optional``: a picture whose numbers would be cluttered (leaders through
+    other labels, numbers without room) is left unnumbered; the findings picture
+    numbers them.
+    """
     points, numbers = _markers(review)
     if not numbers:
-        return image, []
+        return image, ""
     scale = image.shape[1] / scene.plotter.window_size[0]
     anchors, texts = numbering.same_spot(_top_left(scene, points) * scale, numbers)
     font = round(MARKER_FONT * scale)
     legend = scene.legend_box()
     keep_free = np.zeros((0, 4)) if legend is None else np.asarray(legend, float) * scale
     placed = numbering.place(anchors, texts, numbering.box_sizes(texts, font), image.shape[1::-1], keep_free)
+    if optional and (placed.left_out or numbering.tangles(placed) > CLUTTER * len(placed.texts)):
+        return image, "Findings not numbered here: from this side their places lie too close together to label."
     drawn = numbering.draw(image, placed, font, colours.VERDICT["fail"], colours.MARK)
-    return drawn, placed.left_out
+    return drawn, _number_words(placed.left_out)
 
 
 def _seam_views(review: FileReview) -> tuple[SeamView, ...]:
@@ -197,16 +206,17 @@ class _Pictures:
         session.set_camera(self.scene.camera())
         self.scene.update_stripes(render=False)  # reflection lines follow the framed camera
 
-    def take(self, name: str, caption: str, numbered: bool = False) -> Figure:
-        """The picture as shown; ``numbered``: the findings' numbers drawn on it and named in the caption."""
+    def take(self, name: str, caption: str, numbered: bool = False, optional: bool = False) -> Figure:
+        """The picture as shown; ``numbered``: the findings' numbers drawn on it and named in the caption
+        (``optional``: unless they would be cluttered, see :func:`_numbered`)."""
         self.scene.place_legend(PRINT_LEGEND)  # set just before the shot: a new bar takes the window's place
         # VTK lays a scalar bar's text out one render behind a change of its font sizes: render once first,
         # or the picture carries the window's small legend text.
         self.plotter.render()
         image = self.plotter.screenshot(return_img=True)
-        if numbered and _markers(self.review)[1]:
-            image, left_out = _numbered(self.scene, self.review, image)
-            caption += " " + _number_words(left_out)
+        if numbered:
+            image, words = _numbered(self.scene, self.review, image, optional)
+            caption += f" {words}" if words else ""
         return Figure(name, caption, _png(image))
 
     def close(self) -> None:
@@ -254,7 +264,7 @@ def curvature_views(pictures: _Pictures) -> list[Figure]:
             f"Mean curvature H, {view.words} (model axes), as the window shows it: colours from {low} to {high} "
             f"1/mm, values beyond them in the end colours; {values}; {CURVATURE_SIGN}."
         )
-        figures.append(pictures.take(f"curvature-{view.name}", caption, numbered=True))
+        figures.append(pictures.take(f"curvature-{view.name}", caption, numbered=True, optional=True))
     return figures
 
 
@@ -303,7 +313,7 @@ def draft_view(pictures: _Pictures, model: Model) -> Figure | None:
         f"lines: zero draft (where a parting line can run). Overlays: undercut ({UNDERCUT_NAME}), out of the "
         f"cutter's reach ({OUT_OF_REACH_NAME}); {view.words} (model axes)."
     )
-    return pictures.take("draft", caption, numbered=True)
+    return pictures.take("draft", caption, numbered=True, optional=True)
 
 
 def _png_of(fig) -> bytes:

@@ -186,6 +186,14 @@ def place(
     )
 
 
+def tangles(placed: Placed) -> int:
+    """How many leader lines pass through another label's box (a measure of a picture's clutter)."""
+    lines = _leaders(placed.anchors, placed.boxes[:, None, :])[:, 0]  # (k, 4)
+    crossing = _crosses(lines[:, None], placed.boxes[None])
+    np.fill_diagonal(crossing, False)
+    return int(crossing.any(axis=1).sum())
+
+
 def draw(image: np.ndarray, placed: Placed, font_size: int, marker: str, box: str) -> np.ndarray:
     """The picture with the markers, leader lines and numbered boxes drawn on it (PIL).
 

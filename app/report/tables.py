@@ -112,7 +112,21 @@ def _seam_badness(seam: dict) -> tuple:
     return (seam.get("verdict") != FAIL, rank, *measures)
 
 
-def seam_rows(review: FileReview):
+# Seams within tolerance listed after those over it (the worst first); the rest are counted, not listed:
+# a board reads the failures and the nearest misses, not hundreds of clean joins.
+SEAMS_WITHIN_LISTED = 20
+
+
+def seam_rows(review: FileReview, within_listed: int | None = None):
+    """Header and rows of the seam table, worst first; ``within_listed``: at most so many seams within tolerance.
+
+    Returns
+    -------
+    header : list of str
+    rows : list of tuple of str
+    left_out : int
+        Seams within tolerance not listed.
+    """
     header = [
         ID_HEADER,
         "Faces",
@@ -125,6 +139,10 @@ def seam_rows(review: FileReview):
         "Verdict",
     ]
     order = sorted(range(len(review.seams)), key=lambda i: _seam_badness(review.seams[i]))
+    within = [i for i in order if review.seams[i].get("verdict") != FAIL]
+    left_out = 0 if within_listed is None else max(len(within) - within_listed, 0)
+    if left_out:
+        order = order[: len(order) - left_out]
     rows = []
     for i in order:
         s = review.seams[i]
@@ -142,7 +160,7 @@ def seam_rows(review: FileReview):
                 str(s.get("verdict", "-")),
             )
         )
-    return header, rows
+    return header, rows, left_out
 
 
 def free_edge_rows(review: FileReview):
@@ -362,6 +380,25 @@ def _concave(review: FileReview, radius) -> str:
     return num(radius)
 
 
+# Up to this many faces the tooling table lists every face; beyond, only those with something to report.
+TOOLING_FACES_ALL = 30
+
+
+def _tooling_remark(review: FileReview, f: dict) -> bool:
+    """Whether a face has something for tooling: area short of draft, undercut, out of reach, or a concave radius."""
+    areas = (f.get(k) for k in ("insufficient_area_mm2", "undercut_area_mm2", "out_of_reach_area_mm2"))
+    return any(a is not None and float(a) > 0 for a in areas) or _concave(review, f.get("concave_radius_mm")) != "none"
+
+
+def listed_tooling_faces(review: FileReview) -> tuple[list[dict], int]:
+    """The faces the tooling table lists, and how many faces with nothing to report it leaves out."""
+    faces = list((review.tooling or {}).get("faces", ()))
+    if len(faces) <= TOOLING_FACES_ALL:
+        return faces, 0
+    listed = [f for f in faces if _tooling_remark(review, f)]
+    return listed, len(faces) - len(listed)
+
+
 def tooling_rows(review: FileReview):
     """Per face: draft range, least draft, area short of draft, undercut area, concave radius, area out of reach."""
     header = [
@@ -376,7 +413,7 @@ def tooling_rows(review: FileReview):
         "Out of cutter reach (mm\u00b2)",
     ]
     rows = []
-    for f in (review.tooling or {}).get("faces", ()):
+    for f in listed_tooling_faces(review)[0]:
         span = f["draft_range_deg"]
         rows.append(
             (

@@ -199,7 +199,8 @@ def face_account_line(account: dict) -> str:
     if not account:
         return "faces not counted"
     skipped = account.get("skipped", [])
-    line = f"{account['in_file']} faces in the file: {account['analysed']} analysed, {len(skipped)} skipped"
+    faces = "face" if account["in_file"] == 1 else "faces"
+    line = f"{account['in_file']} {faces} in the file: {account['analysed']} analysed, {len(skipped)} skipped"
     reasons: dict[str, int] = {}
     for s in skipped:
         reasons[s["reason"]] = reasons.get(s["reason"], 0) + 1
