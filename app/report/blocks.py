@@ -115,4 +115,6 @@ def figure(src: str, caption: str, width: int) -> str:
 
     Each in its own paragraph: Qt lays an inline image over the text above otherwise.
     """
-    return f'<p align="center"><img src="{src}" width="{width}"/></p><p style="{SMALL}"><i>{html(caption)}</i></p>'
+    # as in the headers: a unit like 1/mm stays whole at a line end
+    text = html(caption).replace("/", "/" + WJ)
+    return f'<p align="center"><img src="{src}" width="{width}"/></p><p style="{SMALL}"><i>{text}</i></p>'

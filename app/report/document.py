@@ -160,6 +160,11 @@ def not_checked(review: FileReview) -> list[str]:
         out.append("Free edges (open boundaries) are listed for the reviewer, not judged.")
     if not review.tooling:
         out.append("Draft and undercut for tooling were not part of this check.")
+    elif review.tooling.get("pull") is None:
+        out.append(
+            "Draft and undercut were not checked: no pull direction was given (the profile sets none). "
+            "Concave radii against the cutter were checked."
+        )
     if review.warnings:
         out.append(
             f"Reading and checking left {plural(len(review.warnings), 'note')}, listed at the end of this chapter "
@@ -311,7 +316,9 @@ def tooling(ch: Chapter) -> str:
             _quiet_faces(r),
             blocks.paragraph(TOOLING_NOTE, small=True),
             blocks.heading("Undercut regions"),
-            blocks.table(*undercut_rows(r), "None found."),
+            blocks.table(*undercut_rows(r), "None found.")
+            if r.tooling.get("pull") is not None
+            else blocks.paragraph("Not sought: no pull direction was given.", italic=True),
         ]
     )
 

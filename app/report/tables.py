@@ -30,7 +30,7 @@ WIDTHS = {
     "findings": (5, 27, 26, 12, 9, 21),
     "seams": (5, 27, 8, 10, 10, 10, 10, 12, 8),
     "free_edges": (6, 30, 12, 26, 26),
-    "figures": (17, 26, 8, 10, 8, 11, 10, 10),
+    "figures": (15, 23, 8, 10, 8, 12, 10, 14),
     "inflections": (30, 18, 30, 22),
     "extrema": (24, 12, 14, 11, 11, 28),
     "faces": (5, 17, 9, 10, 16, 16, 16, 11),
@@ -381,7 +381,7 @@ def _concave(review: FileReview, radius) -> str:
 
 
 # Up to this many faces the tooling table lists every face; beyond, only those with something to report.
-TOOLING_FACES_ALL = 30
+TOOLING_FACES_ALL = 10
 
 
 def _tooling_remark(review: FileReview, f: dict) -> bool:
@@ -400,7 +400,10 @@ def listed_tooling_faces(review: FileReview) -> tuple[list[dict], int]:
 
 
 def tooling_rows(review: FileReview):
-    """Per face: draft range, least draft, area short of draft, undercut area, concave radius, area out of reach."""
+    """Per face: draft range, least draft, area short of draft, undercut area, concave radius, area out of reach.
+
+    Without a pull direction the draft and undercut columns are left out: nothing was measured in them.
+    """
     header = [
         "No.",
         "Face",
@@ -428,6 +431,9 @@ def tooling_rows(review: FileReview):
                 num(f["out_of_reach_area_mm2"]),
             )
         )
+    if (review.tooling or {}).get("pull") is None:
+        keep = [0, 1, 2, 7, 8]
+        header, rows = [header[k] for k in keep], [tuple(row[k] for k in keep) for row in rows]
     return header, rows
 
 

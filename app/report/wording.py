@@ -47,7 +47,13 @@ def number(value, digits: int = DIGITS) -> str:
         return "-"
     if 0 < abs(value) < ROUNDING_LEVEL:
         return "< 10\u207b\u2079" if value > 0 else "> -10\u207b\u2079"
-    text = f"{value:.{digits}g}"
+    if SMALL <= abs(value) < LARGE:
+        # plain decimals to ``digits`` significant digits: an area reads 12000 mm², not 1.2×10⁴ mm²
+        decimals = digits - 1 - math.floor(math.log10(abs(value)))
+        text = f"{round(value, decimals):.{max(decimals, 0)}f}"
+        text = text.rstrip("0").rstrip(".") if "." in text else text
+    else:
+        text = f"{value:.{digits}g}"
     if float(text) == 0.0:
         return "0"  # a rounded -0.0 is zero: no sign
     if "e" in text:
