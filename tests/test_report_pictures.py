@@ -50,3 +50,7 @@ def test_a_flat_model_is_called_flat():
     assert len(captions) == 3
     for caption in captions:
         assert "every face is flat" in caption and "from 0 to 0" not in caption
+    plots = [f.caption for f in figures if f.name.startswith("family")]
+    assert plots and all("Every curve of this family is straight" in c for c in plots)
+    (combs,) = [f.caption for f in figures if f.name == "combs"]
+    assert "the combs have no teeth" in combs

@@ -36,7 +36,7 @@ from .tables import (
     tooling_rows,
     undercut_rows,
 )
-from .wording import count_words, plural, quantity
+from .wording import Markup, count_words, plural, quantity
 
 TITLE = "Surface fairness review"
 REVIEW_AID = (
@@ -122,14 +122,19 @@ def cover(reviews: Sequence[FileReview], created: str, version: str) -> str:
 
 
 # -- the sections of a file's chapter -------------------------------------------------------------------
+def _hash(review: FileReview) -> str:
+    # a size smaller, so the 64 digits stay on one line for a reader who compares them
+    return Markup(f'<span style="font-size: 8pt;">{review.sha256}</span>') if review.sha256 else "-"
+
+
 def file_facts(ch: Chapter) -> str:
     r = ch.review
     if r.status != "checked":
-        return blocks.facts([("File", r.source), ("SHA-256 of the file", r.sha256 or "-")])
+        return blocks.facts([("File", r.source), ("SHA-256 of the file", _hash(r))])
     declared = f"{r.units} (the file declares {r.source_units})" if r.source_units else r.units
     pairs = [
         ("File", r.source),
-        ("SHA-256 of the file", r.sha256 or "-"),
+        ("SHA-256 of the file", _hash(r)),
         ("Units", declared),
         ("Faces", face_account_line(r.face_account) if r.face_account else plural(len(r.faces), "face")),
         ("Model size", f"{quantity(r.model_size, 'mm')} (diagonal of the bounding box)"),

@@ -259,7 +259,9 @@ def curvature_views(pictures: _Pictures) -> list[Figure]:
             values = f"the model's values run from {smallest} to {largest} 1/mm"
         else:
             # "from 0 to 0 1/mm" tells a reader nothing: say what it means
-            values = f"every face is flat (|H| below the profile's flat level of {quantity(flat, '1/mm')} everywhere)"
+            values = (
+                f"every face is flat (|H| below the profile's flat level of {_flat_words(pictures.review)} everywhere)"
+            )
         caption = (
             f"Mean curvature H, {view.words} (model axes), as the window shows it: colours from {low} to {high} "
             f"1/mm, values beyond them in the end colours; {values}; {CURVATURE_SIGN}."
@@ -292,6 +294,8 @@ def comb_view(pictures: _Pictures) -> Figure | None:
         "centre of curvature), length proportional to |k|, with their envelope; pink dots: inflections, where the "
         f"comb changes side; blue dots: curvature extrema; {view.words} (model axes)."
     )
+    if _straight(pictures.session.sections, flat_level(pictures.review)):
+        caption += f" Every section is straight (|k| below {_flat_words(pictures.review)}): the combs have no teeth."
     return pictures.take("combs", caption)
 
 
@@ -314,6 +318,15 @@ def draft_view(pictures: _Pictures, model: Model) -> Figure | None:
         f"cutter's reach ({OUT_OF_REACH_NAME}); {view.words} (model axes)."
     )
     return pictures.take("draft", caption, numbered=True, optional=True)
+
+
+def _straight(curves, flat: float) -> bool:
+    """Whether every section curve's curvature stays below the flat level (1/mm)."""
+    return all(np.all(np.abs(np.nan_to_num(c.curvature)) < flat) for c in curves)
+
+
+def _flat_words(review: FileReview) -> str:
+    return quantity(flat_level(review), "1/mm")
 
 
 def _png_of(fig) -> bytes:
@@ -369,6 +382,8 @@ def family_plot(review: FileReview, family: str, number: int) -> Figure | None:
         f"Sections of {family_words(family)}: curvature along each curve (one colour per plane), {CURVATURE_SIGN}; "
         "pink dots: inflections. A fair curve shows few monotone pieces and no sign change it was not designed with."
     )
+    if _straight([c for c, _ in curves], flat_level(review)):
+        caption += f" Every curve of this family is straight: |k| stays below the flat level of {_flat_words(review)}."
     return Figure(f"family-{number}", caption, _png_of(fig))
 
 
