@@ -315,16 +315,16 @@ def tooling(ch: Chapter) -> str:
         [
             blocks.heading("Release to tooling"),
             blocks.facts(tooling_facts(r)),
-            blocks.table(
-                *tooling_rows(r), "No face is short of draft, undercut, concave or out of the cutter's reach."
-            ),
+            blocks.table(*tooling_rows(r), NO_TOOLING_REMARK),
             _quiet_faces(r),
             blocks.paragraph(TOOLING_NOTE, small=True),
-            blocks.heading("Undercut regions"),
-            blocks.table(*undercut_rows(r), "None found.")
-            if r.tooling.get("pull") is not None
-            else blocks.paragraph("Not sought: no pull direction was given.", italic=True),
         ]
+        # without a pull no undercut was sought: "What was checked" says so, no heading stands over nothing
+        + (
+            [blocks.heading("Undercut regions"), blocks.table(*undercut_rows(r), "None found.")]
+            if r.tooling.get("pull") is not None
+            else []
+        )
     )
 
 

@@ -71,7 +71,8 @@ def finding_place(review: FileReview, finding: Finding) -> str:
         seam = _seam_by_id(review).get(ref["seam"], {})
         names = seam_faces(review, seam)
         reached = seam.get("continuity", "?")
-        reached = "not even G0" if reached == "broken" else reached
+        if reached == "broken":
+            return f"seam {ref['seam']} between {names}: the faces do not meet (not G0)"
         return f"seam {ref['seam']} between {names}: reaches {reached}"
     if "section" in ref and ref["section"] < len(review.sections):
         section = review.sections[ref["section"]]
