@@ -150,7 +150,10 @@ def verdict(ch: Chapter) -> str:
     detail = f"{count_words(len(r.failures), 'finding')} over tolerance, of {plural(len(r.findings), 'finding')} judged"
     if r.review_file is not None:
         accepted = sum(f.verdict == ACCEPTED for f in r.findings)
-        detail += f"; {plural(accepted, 'more finding')} over tolerance but accepted by reviewers"
+        if accepted:
+            detail += f"; {plural(accepted, 'more finding')} over tolerance but accepted by reviewers"
+        else:
+            detail += "; reviewers accepted none over tolerance"
     return blocks.verdict_box(r.verdict, detail)
 
 

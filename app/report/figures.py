@@ -372,7 +372,8 @@ def family_plot(review: FileReview, family: str, number: int) -> Figure | None:
     # Plain 1/mm ticks: no "1e-2" offset above the axis for the reader to multiply in; flat sections get a
     # small fixed span instead of rounding noise stretched over the whole axis.
     low, high = ax.get_ylim()
-    if high - low < 2 * PLOT_SPAN_MIN:
+    straight = _straight([c for c, _ in curves], flat_level(review))
+    if high - low < 2 * PLOT_SPAN_MIN or straight:
         ax.set_ylim(-PLOT_SPAN_MIN, PLOT_SPAN_MIN)
     ax.ticklabel_format(axis="y", style="plain", useOffset=False)
     ax.grid(True, lw=0.3)
@@ -382,7 +383,7 @@ def family_plot(review: FileReview, family: str, number: int) -> Figure | None:
         f"Sections of {family_words(family)}: curvature along each curve (one colour per plane), {CURVATURE_SIGN}; "
         "pink dots: inflections. A fair curve shows few monotone pieces and no sign change it was not designed with."
     )
-    if _straight([c for c, _ in curves], flat_level(review)):
+    if straight:
         caption += f" Every curve of this family is straight: |k| stays below the flat level of {_flat_words(review)}."
     return Figure(f"family-{number}", caption, _png_of(fig))
 

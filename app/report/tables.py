@@ -313,7 +313,9 @@ def checked_rows(review: FileReview):
         f"{plural(len(review.sections), 'section plane')} cut, {plural(len(curves), 'section curve')}, "
         f"{plural(found, 'inflection')} on them"
     )
-    if "inflection" in counts:
+    if not review.sections:
+        rows.append(("Inflections of section curves", "no section planes cut", "not checked", "-"))
+    elif "inflection" in counts:
         judged = counts["inflection"]
         rows.append(
             (
