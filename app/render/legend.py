@@ -16,6 +16,8 @@ from dataclasses import dataclass, replace
 from importlib.util import find_spec
 from pathlib import Path
 
+import numpy as np
+
 from app.state.settings import MEASURE_UNITS, Measure
 
 TICKS = 5
@@ -86,12 +88,14 @@ def fitted(where: LegendPlace, title: str, labels: tuple[str, ...], view_px: int
     return replace(where, x=max(x, 0.0))
 
 
-def legend_box(
+def legend_boxes(
     where: LegendPlace, title: str, labels: tuple[str, ...], ends: str, size: tuple[int, int]
-) -> tuple[float, float, float, float]:
-    """Pixels a legend at ``where`` covers (bar, title, tick labels, ends text): left, top, right, bottom.
+) -> np.ndarray:
+    """Pixels a legend at ``where`` covers: its title, its bar with the tick labels, and its ends text.
 
-    Measured from the view's top left, with the same character widths as :func:`fitted`.
+    Measured from the view's top left, with the same character widths as
+    :func:`fitted`; three boxes rather than one, so a picture may use the room
+    between them (a long model beside the bar, under the title).
 
     Parameters
     ----------
@@ -104,6 +108,11 @@ def legend_box(
         The text under the bar naming clipped ends (right-aligned at the view's edge), lines split by newlines.
     size : (int, int)
         Width and height of the view in pixels.
+
+    Returns
+    -------
+    ndarray of shape (k, 4)
+        Boxes (left, top, right, bottom); the ends text's only when there is one.
     """
     width, height = size
     lines = title.split("\n")
@@ -112,13 +121,17 @@ def legend_box(
     bar_left, bar_right = where.x * width, (where.x + where.width) * width
     centre = (bar_left + bar_right) / 2
     bar_top, bar_bottom = (1 - where.y - where.height) * height, (1 - where.y) * height
-    top = bar_top - TITLE_GAP - 1.25 * where.title_size * len(lines) - where.label_size / 2
+    title_top = bar_top - TITLE_GAP - 1.25 * where.title_size * len(lines) - where.label_size / 2
+    boxes = [
+        (centre - title_px / 2, title_top, centre + title_px / 2, bar_top - where.label_size / 2),
+        (bar_left, bar_top - where.label_size / 2, bar_right + label_px, bar_bottom + where.label_size / 2),
+    ]
     ends_lines = ends.split("\n") if ends else []
-    ends_bottom = (1 - where.y + ENDS_BELOW) * height + 1.25 * where.label_size * len(ends_lines)
-    ends_left = ENDS_RIGHT * width - CHARACTER_WIDTH * where.label_size * max(map(len, ends_lines), default=0)
-    bottom = max(bar_bottom + where.label_size / 2, ends_bottom)
-    left = min(bar_left, centre - title_px / 2, ends_left)
-    return (left, top, max(bar_right + label_px, centre + title_px / 2), bottom)
+    if ends_lines:
+        ends_top = (1 - where.y + ENDS_BELOW) * height
+        ends_left = ENDS_RIGHT * width - CHARACTER_WIDTH * where.label_size * max(map(len, ends_lines))
+        boxes.append((ends_left, ends_top, ENDS_RIGHT * width, ends_top + 1.25 * where.label_size * len(ends_lines)))
+    return np.asarray(boxes, float)
 
 
 def measure_title(measure: Measure) -> str:

@@ -25,7 +25,7 @@ from .legend import (
     clipped_ends,
     ends_text,
     fitted,
-    legend_box,
+    legend_boxes,
     measure_title,
     place_legend,
     tick_format,
@@ -237,13 +237,13 @@ class Scene:
         low, high = bar.GetLookupTable().GetRange()
         return tuple(bar.GetLabelFormat() % v for v in (low, high))
 
-    def legend_box(self) -> tuple[float, float, float, float] | None:
-        """Pixels the legend covers (left, top, right, bottom from the top left), None without a legend."""
+    def legend_boxes(self) -> np.ndarray:
+        """Pixels the legend covers, boxes (left, top, right, bottom) from the top left, shape (k, 4); none without."""
         if self.legend is None or self.legend not in self.plotter.scalar_bars or self._legend_place is None:
-            return None
+            return np.zeros((0, 4))
         ends = (self.legend_ends.GetInput() or "") if self.legend_ends is not None else ""
         size = tuple(self.plotter.window_size)
-        return legend_box(self._legend_place, self.legend, self._legend_labels(), ends, size)
+        return legend_boxes(self._legend_place, self.legend, self._legend_labels(), ends, size)
 
     def update_stripes(self, render: bool = True) -> None:
         """Recompute the stripe parameter (after a camera move in reflection mode)."""

@@ -67,15 +67,31 @@ def _top_left(scene: Scene, points: np.ndarray) -> np.ndarray:
     return np.column_stack([pixels[:, 0], scene.plotter.window_size[1] - pixels[:, 1]])
 
 
+def _free_parts(scene: Scene) -> list[tuple[float, float, float, float]]:
+    """Parts of the picture the model may take: left of the whole legend, or beside its bar between
+    its title and its ends text (a long, low model), each inside a margin."""
+    width, height = scene.plotter.window_size
+    boxes = scene.legend_boxes()
+    if not len(boxes):
+        return [(FRAME_GAP, FRAME_GAP, width - FRAME_GAP, height - FRAME_GAP)]
+    beside = boxes[1]  # the bar and its tick labels
+    below = boxes[2, 1] if len(boxes) > 2 else height
+    return [
+        (FRAME_GAP, FRAME_GAP, boxes[:, 0].min() - FRAME_GAP, height - FRAME_GAP),
+        (FRAME_GAP, boxes[0, 3] + FRAME_GAP, beside[0] - FRAME_GAP, below - FRAME_GAP),
+    ]
+
+
 def _fit(scene: Scene, points: np.ndarray) -> None:
-    """Frame the model's outline in the picture's free part (left of the legend), moving the camera.
+    """Frame the model's outline in the picture's free part (beside the legend), moving the camera.
 
     Twice: under perspective the first move changes the outline a little.
     """
-    width, height = scene.plotter.window_size
-    legend = scene.legend_box()
-    right = width if legend is None else legend[0]
-    free = (FRAME_GAP, FRAME_GAP, right - FRAME_GAP, height - FRAME_GAP)
+    height = scene.plotter.window_size[1]
+    parts = _free_parts(scene)
+    outline = _top_left(scene, points)
+    # the part where the model shows largest
+    free = max(parts, key=lambda part: fit_move(outline, part)[2])
     camera = scene.plotter.camera
     for _ in range(2):
         camera.zoom(fit_move(_top_left(scene, points), free)[2])
@@ -126,8 +142,7 @@ def _numbered(scene: Scene, review: FileReview, image: np.ndarray, optional: boo
     scale = image.shape[1] / scene.plotter.window_size[0]
     anchors, texts = numbering.same_spot(_top_left(scene, points) * scale, numbers)
     font = round(MARKER_FONT * scale)
-    legend = scene.legend_box()
-    keep_free = np.zeros((0, 4)) if legend is None else np.asarray(legend, float) * scale
+    keep_free = scene.legend_boxes() * scale
     placed = numbering.place(anchors, texts, numbering.box_sizes(texts, font), image.shape[1::-1], keep_free)
     if optional and (placed.left_out or numbering.tangles(placed) > CLUTTER * len(placed.texts)):
         return image, "Findings not numbered here: from this side their places lie too close together to label."
