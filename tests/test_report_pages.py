@@ -92,3 +92,17 @@ def _printed(tmp_path, html: str) -> list[str]:
     del doc, writer
     text = subprocess.run(["pdftotext", "-layout", str(out), "-"], capture_output=True, text=True, check=True).stdout
     return [page for page in text.split("\f") if page.strip()]
+
+
+@needs_poppler
+def test_a_short_note_is_never_split_by_a_page_end(tmp_path):
+    # A table's note once ran over a page end and left its last word alone on a page of its own.
+    note = "<p>opening-word " + "middle words of a note that wraps over several lines " * 10 + "closing-word</p>"
+    splits = 0
+    # without the rule, 34 and 35 filler lines put a page end inside the note (measured when written)
+    for filler_lines in range(32, 38):
+        filler = "".join(f"<p>filler line {i}</p>" for i in range(filler_lines))
+        pages = _printed(tmp_path, filler + note + "<p>after the note</p>")
+        where = [n for n, page in enumerate(pages) if "opening-word" in page]
+        splits += "closing-word" not in pages[where[0]]
+    assert splits == 0

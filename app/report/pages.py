@@ -4,7 +4,8 @@ header with the model's name and a footer with the page number on every page.
 QTextDocument paginates but knows no "keep with next"; :func:`keep_together`
 supplies it: after layout, a heading or a picture whose following block (a
 table's first body row, a caption) lands on a later page gets a page break
-before it, and the layout runs on from there. QTextDocument also breaks a
+before it, and the layout runs on from there; a short paragraph that a page
+end would split moves whole to the next page. QTextDocument also breaks a
 table row between its lines where a page ends; :func:`split_rows` finds such
 rows after layout and :func:`split_tables` ends the table before each one and
 carries on in a new table, with the same header, on the next page. Pages are
@@ -28,6 +29,8 @@ HEADER_POINT_SIZE = 7.5
 OBJECT_CHAR = "\ufffc"  # a block made of this character alone holds an inline image
 # Each pass splits the first broken row of every table; a long table needs one pass per page it runs onto.
 MOST_PASSES = 40
+# A paragraph shorter than this share of a page is never split by a page end.
+NOTE_SHARE = 0.3
 TABLE = re.compile(r"<table\b[^>]*>.*?</table>", re.S | re.I)
 ROW = re.compile(r"<tr\b.*?</tr>", re.S | re.I)
 HEAD = re.compile(r"<thead\b.*?</thead>", re.S | re.I)
@@ -44,6 +47,13 @@ def _is_picture(block) -> bool:
 
 def _keeps_with_next(block) -> bool:
     return block.blockFormat().headingLevel() > 0 or _is_picture(block)
+
+
+def _is_note(block) -> bool:
+    """A paragraph of text outside any table (a note, a caption, a bullet)."""
+    from PySide6.QtGui import QTextCursor
+
+    return bool(block.text().strip()) and not _is_picture(block) and QTextCursor(block).currentTable() is None
 
 
 def _breaks_before(block) -> bool:
@@ -97,14 +107,17 @@ def keep_together(doc, page_height: float) -> int:
     added = 0
     block = doc.begin()
     while block.isValid():
-        if _keeps_with_next(block):
+        kept = _keeps_with_next(block)
+        if kept or _is_note(block):
             top = layout.blockBoundingRect(block).top()
-            end = _bottom_of(layout, _group_end(block))
+            end = _bottom_of(layout, _group_end(block)) if kept else layout.blockBoundingRect(block).bottom()
             first_page = int(top // page_height)
-            # A group taller than a page cannot be kept together; leave it where it falls.
+            # A group taller than a page cannot be kept together; leave it where it falls. A short paragraph
+            # (a table's note) moves whole rather than leave a line or two alone at a page's top or foot.
             spans = int((end - 1.0) // page_height) > first_page
             at_top = top <= first_page * page_height + 1.0
-            if spans and not at_top and end - top < page_height:
+            longest = page_height if kept else NOTE_SHARE * page_height
+            if spans and not at_top and end - top < longest:
                 fmt = QTextBlockFormat()
                 fmt.setPageBreakPolicy(QTextFormat.PageBreakFlag.PageBreak_AlwaysBefore)
                 QTextCursor(block).mergeBlockFormat(fmt)
