@@ -199,7 +199,10 @@ def findings(ch: Chapter) -> str:
     parts = [blocks.heading("Findings over tolerance"), blocks.table(header, rows, "None.", WIDTHS["findings"])]
     within = len(ch.review.findings) - len(rows)
     if within:
-        parts.append(blocks.paragraph(f"{plural(within, 'more finding')} within tolerance: see the tables below."))
+        where = "see the tables below"
+        if seam_rows(ch.review, SEAMS_WITHIN_LISTED)[2]:
+            where += " (of the seams within tolerance, the seam table lists the nearest misses)"
+        parts.append(blocks.paragraph(f"{plural(within, 'more finding')} within tolerance: {where}."))
     if "findings" in ch.figures:
         fig = ch.figures["findings"]
         parts.append(blocks.figure(ch.image_src(fig.name), fig.caption, OVERVIEW_WIDTH))
