@@ -167,6 +167,16 @@ def test_a_large_models_tooling_table_lists_the_faces_with_something_to_report()
     assert [r[1] for r in rows] == ["panel_98", "panel_99"]
 
 
+def test_a_section_across_many_faces_names_a_few_and_counts_the_rest():
+    from app.report.tables import figure_rows
+    from app.review.faces import FaceSummary
+
+    faces = tuple(FaceSummary(i, f"fascia_{i:02d}", "", (3, 3), (4, 4), False, False, False, None) for i in range(12))
+    section = {"label": "x = 80", "curves": [{"faces": list(range(12)), "figures": {}}]}
+    _, rows = figure_rows(FileReview(source="x", status="checked", faces=faces, sections=(section,)))
+    assert rows[0][1] == "fascia_00, fascia_01, fascia_02, fascia_03 and 8 more faces"
+
+
 def test_report_needs_a_known_extension(tmp_path):
     from app.report import write_report
     from geometry.errors import BattenError

@@ -191,9 +191,16 @@ def _curves(review: FileReview):
             yield curve_name(section, ci, len(curves), planes), curve
 
 
+# A section crossing more faces than this names the first few and counts the rest (the JSON names all):
+# thirty names stacked in a narrow column made one row fill a page.
+FACES_NAMED = 6
+
+
 def _faces_of(review: FileReview, indices) -> str:
-    names = face_names(review)
-    return ", ".join(face_name(i, names) for i in indices) or "-"
+    names = [face_name(i, face_names(review)) for i in indices]
+    if len(names) > FACES_NAMED:
+        return f"{', '.join(names[: FACES_NAMED - 2])} and {len(names) - FACES_NAMED + 2} more faces"
+    return ", ".join(names) or "-"
 
 
 def figure_rows(review: FileReview):
