@@ -300,7 +300,7 @@ TOOLING_NOTE = (
 )
 
 
-NO_TOOLING_REMARK = "No face is short of draft, undercut, concave or out of the cutter's reach."
+NO_TOOLING_REMARK = "No face is short of draft, undercut or out of the cutter's reach."
 
 
 def _quiet_faces(review: FileReview) -> str:
@@ -308,8 +308,8 @@ def _quiet_faces(review: FileReview) -> str:
     if not left_out:
         return ""
     return blocks.paragraph(
-        f"{plural(left_out, 'more face')}: nothing short of draft, no undercut, nothing concave and nothing out of "
-        "the cutter's reach; not listed."
+        f"{plural(left_out, 'more face')}: nothing short of draft, no undercut and nothing out of the cutter's "
+        "reach; not listed."
     )
 
 

@@ -8,6 +8,8 @@ and the HTML show the same digits.
 
 from __future__ import annotations
 
+import numpy as np
+
 from app.review.result import FAIL, PASS, FileReview, Finding
 
 from .wording import ROUNDING_LEVEL, count_words, curve_name, face_name, free_planes, number, plural, point, quantity
@@ -394,18 +396,28 @@ def _concave(review: FileReview, radius) -> str:
 TOOLING_FACES_ALL = 10
 
 
-def _tooling_remark(review: FileReview, f: dict) -> bool:
-    """Whether a face has something for tooling: area short of draft, undercut, out of reach, or a concave radius."""
+def _tooling_remark(f: dict) -> bool:
+    """Whether a face has area short of draft, undercut or out of the cutter's reach."""
     areas = (f.get(k) for k in ("insufficient_area_mm2", "undercut_area_mm2", "out_of_reach_area_mm2"))
-    return any(a is not None and float(a) > 0 for a in areas) or _concave(review, f.get("concave_radius_mm")) != "none"
+    return any(a is not None and float(a) > 0 for a in areas)
 
 
 def listed_tooling_faces(review: FileReview) -> tuple[list[dict], int]:
-    """The faces the tooling table lists, and how many faces with nothing to report it leaves out."""
+    """The faces the tooling table lists, and how many faces with nothing to report it leaves out.
+
+    Up to :data:`TOOLING_FACES_ALL` faces, all; beyond, those with a remark and
+    the face holding the model's tightest concave radius (a gently concave
+    panel far wider than the cutter is nothing to report).
+    """
     faces = list((review.tooling or {}).get("faces", ()))
     if len(faces) <= TOOLING_FACES_ALL:
         return faces, 0
-    listed = [f for f in faces if _tooling_remark(review, f)]
+    radii = [
+        float(f["concave_radius_mm"]) if _concave(review, f.get("concave_radius_mm")) != "none" else np.inf
+        for f in faces
+    ]
+    tightest = int(np.argmin(radii)) if np.isfinite(min(radii, default=np.inf)) else -1
+    listed = [f for i, f in enumerate(faces) if _tooling_remark(f) or i == tightest]
     return listed, len(faces) - len(listed)
 
 
