@@ -81,3 +81,13 @@ def test_leaders_cross_no_box_where_there_is_room():
     # 36 markers packed along two lines leave some leaders no clear way: without the preference 18 crossed a
     # box, with it 7 (measured when written); a fifth of the labels is the bound kept.
     assert crossings <= 36 // 5
+
+
+def test_tangles_counts_leaders_that_cross():
+    from app.report.labels import Placed, tangles
+
+    anchors = np.array([[100.0, 100.0], [200.0, 100.0]])
+    # each box sits beyond the other's marker: the two leaders cross in an X
+    crossed = Placed(anchors, np.array([[210.0, 190.0, 240.0, 220.0], [60.0, 190.0, 90.0, 220.0]]), ["1", "2"], [])
+    clear = Placed(anchors, np.array([[60.0, 190.0, 90.0, 220.0], [210.0, 190.0, 240.0, 220.0]]), ["1", "2"], [])
+    assert tangles(crossed) == 2 and tangles(clear) == 0

@@ -186,10 +186,22 @@ def place(
     )
 
 
+def _segments_cross(a: np.ndarray, b: np.ndarray) -> np.ndarray:
+    """Whether segments (x0, y0, x1, y1) properly cross, broadcast over leading axes (the orientation
+    test: each segment's ends lie on opposite sides of the other; de Berg et al., *Computational
+    Geometry*, 3rd ed., sec. 2.1)."""
+
+    def side(p, q, r):
+        return (q[..., 0] - p[..., 0]) * (r[..., 1] - p[..., 1]) - (q[..., 1] - p[..., 1]) * (r[..., 0] - p[..., 0])
+
+    p0, p1, q0, q1 = a[..., :2], a[..., 2:], b[..., :2], b[..., 2:]
+    return (side(p0, p1, q0) * side(p0, p1, q1) < 0) & (side(q0, q1, p0) * side(q0, q1, p1) < 0)
+
+
 def tangles(placed: Placed) -> int:
-    """How many leader lines pass through another label's box (a measure of a picture's clutter)."""
+    """How many leader lines pass through another label's box or cross another leader (a picture's clutter)."""
     lines = _leaders(placed.anchors, placed.boxes[:, None, :])[:, 0]  # (k, 4)
-    crossing = _crosses(lines[:, None], placed.boxes[None])
+    crossing = _crosses(lines[:, None], placed.boxes[None]) | _segments_cross(lines[:, None], lines[None])
     np.fill_diagonal(crossing, False)
     return int(crossing.any(axis=1).sum())
 
