@@ -304,9 +304,9 @@ NO_TOOLING_REMARK = "No face is short of draft, undercut or out of the cutter's 
 
 
 def _quiet_faces(review: FileReview) -> str:
-    left_out = listed_tooling_faces(review)[1]
-    if not left_out:
-        return ""
+    listed, left_out = listed_tooling_faces(review)
+    if not left_out or not listed:
+        return ""  # nothing left out, or nothing listed at all (the table's own sentence says so)
     return blocks.paragraph(
         f"{plural(left_out, 'more face')}: nothing short of draft, no undercut and nothing out of the cutter's "
         "reach; not listed."
