@@ -19,6 +19,7 @@ from app.state.demo import demo_model  # noqa: E402
 
 pytestmark = [pytest.mark.gui, pytest.mark.skipif(not window_module.report_available(), reason="no report writer")]
 
+SAMPLES = Path(__file__).resolve().parents[1] / "sample_surfaces"
 ARTIFACTS = Path(__file__).resolve().parent / "artifacts"
 EXPORT_MS = 300_000  # a loaded CI machine: the child imports, checks, renders and lays out
 
@@ -120,3 +121,21 @@ def test_a_comparison_that_fails_says_why_and_keeps_the_model(qtbot, window, tmp
     assert len(messages) == 1 and "older.stp" in messages[0] and "kept" in messages[0]
     assert window.session.model is shown and window.session.review.comparison is None
     assert window.comparing is None
+
+
+def test_a_comparison_can_be_cancelled_and_keeps_what_is_shown(qtbot, window):
+    # The large sample takes seconds to check: Cancel in the status bar stops it at its next step.
+    shown = window.session.model
+    comparing = review_actions.compare_now(window, str(SAMPLES / "appliance_range.stp"))
+    status = window.compare_status
+    assert status.isVisible() and status.cancel.isEnabled() and status.task is comparing
+    steps = []
+    comparing.progress.connect(lambda percent, text: steps.append((percent, text)))
+    qtbot.waitUntil(lambda: len(steps) >= 1, timeout=EXPORT_MS)
+    with qtbot.waitSignal(comparing.ended, timeout=EXPORT_MS):
+        qtbot.mouseClick(status.cancel, Qt.MouseButton.LeftButton)
+    assert steps[0][0] == -1 and "appliance_range.stp" in steps[0][1]  # busy bar: no percent to give
+    assert "cancelled" in window.statusBar().currentMessage()
+    assert window.session.model is shown and window.session.review.comparison is None
+    assert window.comparing is None and not status.isVisible()
+    assert review_actions.compare_now(window, str(SAMPLES / "hood_visor.stp")) is not None  # a new one may start

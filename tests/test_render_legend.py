@@ -120,3 +120,35 @@ def test_figures_read_plain():
     assert figure(5.8123) == "5.81"
     assert figure(-0.0631) == "\u22120.0631"
     assert figure(1.2345e-5) == "0.0000123"
+
+
+def _display_x(plotter, points: np.ndarray) -> np.ndarray:
+    """Pixel columns of world points (n, 3) -> (n,), by the camera's own composite projection (VTK)."""
+    width, height = plotter.window_size
+    matrix = plotter.camera.GetCompositeProjectionTransformMatrix(width / height, -1, 1)
+    m = np.array([[matrix.GetElement(i, j) for j in range(4)] for i in range(4)])
+    clip = np.c_[points, np.ones(len(points))] @ m.T
+    return (clip[:, 0] / clip[:, 3] + 1) / 2 * width
+
+
+@pytest.mark.parametrize("size", [(260, 600), (420, 420), (900, 400)])
+def test_a_fitted_model_clears_the_legend_in_narrow_and_wide_views(size):
+    # A wide model in a narrow view was cut at the left edge: the picture moves left to make room
+    # for the legend, and the fit did not allow for it.
+    session = Session()
+    session.show_model(demo_model())
+    session.set_display(mode=Mode.CURVATURE, measure=Measure.MEAN)
+    plotter = pv.Plotter(off_screen=True, window_size=size)
+    try:
+        scene = Scene(plotter, session)
+        scene.rebuild()
+        for direction in ("xy", "xz", "yz", "iso"):
+            getattr(plotter, f"view_{direction}")() if direction != "iso" else plotter.view_isometric()
+            scene.fit()
+            plotter.render()
+            points = np.vstack([s.field.points.reshape(-1, 3) for s in session.samples])
+            xs = _display_x(plotter, points)
+            left_of_bar = plotter.scalar_bars[scene.legend].GetPositionCoordinate().GetValue()[0] * size[0]
+            assert xs.min() >= 0 and xs.max() <= left_of_bar, direction
+    finally:
+        plotter.close()

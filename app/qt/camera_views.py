@@ -17,7 +17,7 @@ STANDARD_VIEWS: dict[str, tuple[tuple[float, float, float], tuple[float, float, 
 }
 
 
-def look_from(plotter, name: str) -> None:
+def look_from(plotter, name: str, fit) -> None:
     """Turn the camera to the standard view ``name`` and fit the model in it.
 
     Parameters
@@ -25,6 +25,8 @@ def look_from(plotter, name: str) -> None:
     plotter : pyvista.Plotter
     name : str
         A key of :data:`STANDARD_VIEWS`.
+    fit : callable()
+        Centres and fits the visible model, keeping the direction (``Scene.fit``).
     """
     eye, up = STANDARD_VIEWS[name]
     camera = plotter.camera
@@ -32,7 +34,7 @@ def look_from(plotter, name: str) -> None:
     distance = max(float(np.linalg.norm(np.asarray(camera.position) - focal)), 1.0)
     camera.position = tuple(focal + distance * np.asarray(eye) / np.linalg.norm(eye))
     camera.up = up
-    plotter.reset_camera()  # keeps the direction, centres and fits the visible model
+    fit()
     plotter.update()
 
 

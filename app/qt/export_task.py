@@ -16,13 +16,10 @@ import sys
 import tempfile
 from pathlib import Path
 
-from PySide6.QtCore import QObject, QProcess, QProcessEnvironment, Qt, QTimer, Signal
-from PySide6.QtWidgets import QHBoxLayout, QLabel, QProgressBar, QToolButton, QWidget
+from PySide6.QtCore import QObject, QProcess, QProcessEnvironment, QTimer, Signal
 
 from app.report.window_export import ExportRequest
 
-# Characters of the export's current step shown in the status bar (the rest in its tooltip).
-LABEL_CHARACTERS = 44
 # How long a cancelled export may take to remove its temporary file before it is killed (ms).
 STOP_GRACE_MS = 10_000
 
@@ -135,60 +132,6 @@ def remove_partial_files(path: str) -> None:
         leftover.unlink(missing_ok=True)
 
 
-class ExportStatus(QWidget):
-    """Status-bar strip of a running export: what it does, how far, and Cancel."""
-
-    def __init__(self, parent: QWidget | None = None):
-        super().__init__(parent)
-        self.label = QLabel()
-        self.bar = QProgressBar()
-        self.bar.setMaximumWidth(160)
-        self.cancel = QToolButton()
-        self.cancel.setText("Cancel")
-        self.cancel.setToolTip("stop writing the report; no file is left behind")
-        layout = QHBoxLayout(self)
-        layout.setContentsMargins(0, 0, 0, 0)
-        layout.addWidget(self.label)
-        layout.addWidget(self.bar)
-        layout.addWidget(self.cancel)
-        self.export: ReportExport | None = None
-        self.cancel.clicked.connect(self._cancel)
-        self.setVisible(False)
-
-    def follow(self, export: ReportExport) -> None:
-        self.export = export
-        self.bar.setValue(0)
-        self.label.setText("report")
-        export.progress.connect(self._progress)
-        for ended in (export.written, export.failed, export.cancelled):
-            ended.connect(self._ended)
-        self.setVisible(True)
-
-    def _progress(self, percent: int, text: str) -> None:
-        self.bar.setValue(percent)
-        # a permanent status widget keeps its first width: give the words room, the whole line in the tip
-        width = self.label.fontMetrics().horizontalAdvance("x" * LABEL_CHARACTERS)
-        self.label.setMinimumWidth(width)
-        self.label.setText(self.label.fontMetrics().elidedText(text, Qt.TextElideMode.ElideMiddle, width))
-        self.label.setToolTip(text)
-
-    def _cancel(self) -> None:
-        if self.export is not None:
-            self.label.setText("stopping...")
-            self.export.cancel()
-
-    def _ended(self, *_) -> None:
-        self.export = None
-        self.setVisible(False)
-
-    def stop(self) -> None:
-        """Cancel a running export and wait for it (the window is closing)."""
-        export = self.export
-        if export is not None:
-            export.cancel()
-            export.wait()
-
-
 def start_report(window, path: str) -> ReportExport | None:
     """Write the report of ``window``'s model to ``path`` in the background, shown in its status bar.
 
@@ -201,8 +144,8 @@ def start_report(window, path: str) -> ReportExport | None:
     from geometry.errors import BattenError
     from geometry.io.files import check_writable
 
-    status: ExportStatus = window.export_status
-    if status.export is not None:
+    status = window.export_status
+    if status.task is not None:
         window.statusBar().showMessage("a report is still being written: wait for it or cancel it", 5000)
         return None
     request = request_for(window.session, path)
@@ -215,6 +158,6 @@ def start_report(window, path: str) -> ReportExport | None:
     export.written.connect(lambda written: window.statusBar().showMessage(f"report written: {written}", 8000))
     export.failed.connect(lambda message: QMessageBox.critical(window, "Cannot write the report", message))
     export.cancelled.connect(lambda: window.statusBar().showMessage("report cancelled: no file written", 5000))
-    status.follow(export)
+    status.follow(export, "report", (export.written, export.failed, export.cancelled))
     export.start()
     return export

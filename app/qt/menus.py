@@ -78,11 +78,13 @@ class ViewActions:
     ----------
     plotter : pyvistaqt.QtInteractor
     parent : QMainWindow
+    fit : callable()
+        Fits the model in the view once it is turned (the scene's, which leaves room for the legend).
     on_projection : callable(bool), optional
         Told when the user switches the projection (to remember it).
     """
 
-    def __init__(self, plotter, parent: QMainWindow, on_projection=None):
+    def __init__(self, plotter, parent: QMainWindow, fit, on_projection=None):
         self.plotter = plotter
         self.views: dict[str, QAction] = {}
         for name in STANDARD_VIEWS:
@@ -90,7 +92,7 @@ class ViewActions:
             action.setShortcut(QKeySequence(VIEW_KEYS[name]))
             action.setToolTip(VIEW_TIPS[name])
             action.setStatusTip(VIEW_TIPS[name])
-            action.triggered.connect(lambda _=False, n=name: look_from(self.plotter, n))
+            action.triggered.connect(lambda _=False, n=name: look_from(self.plotter, n, fit))
             self.views[name] = action
         self.parallel = QAction("Parallel projection", parent, checkable=True)
         self.parallel.setShortcut(QKeySequence("Ctrl+Shift+P"))

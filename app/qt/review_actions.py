@@ -5,6 +5,8 @@ Dialogs only; the work is done by :mod:`app.state.revisions` on the session.
 
 from __future__ import annotations
 
+from pathlib import Path
+
 from PySide6.QtCore import QObject, Signal, Slot
 from PySide6.QtWidgets import QFileDialog, QMessageBox
 
@@ -33,12 +35,15 @@ class Comparing(QObject):
 
     Signals
     -------
+    progress(int, str)
+        -1 (it cannot say how far it is) and what is being done.
     shown()
         The deviation is on screen.
     ended()
-        Shown, failed, or dropped because another model was opened meanwhile.
+        Shown, failed, cancelled, or dropped because another model was opened meanwhile.
     """
 
+    progress = Signal(int, str)
     shown = Signal()
     ended = Signal()
 
@@ -51,11 +56,21 @@ class Comparing(QObject):
         self.job.progress.connect(self._progress)
         self.job.compared.connect(self._compared)
         self.job.failed.connect(self._failed)
+        self.job.cancelled.connect(self._cancelled)
         self.thread = start_job(self.job, self)
+
+    def cancel(self) -> None:
+        """Stop comparing at the next step; the model and anything shown stay as they are."""
+        self.job.cancel()
 
     @Slot(str)
     def _progress(self, line: str) -> None:
-        self.window.statusBar().showMessage(f"comparing with {self.path}: {line}")
+        self.progress.emit(-1, f"comparing with {Path(self.path).name}: {line}")
+
+    @Slot()
+    def _cancelled(self) -> None:
+        self.window.statusBar().showMessage("comparison cancelled: the model shown is kept", 5000)
+        self.ended.emit()
 
     @Slot(object)
     def _compared(self, found) -> None:
@@ -104,7 +119,7 @@ def compare_now(window, path: str) -> Comparing | None:
         return None
     window.comparing = comparing = Comparing(window, path)
     comparing.ended.connect(lambda: setattr(window, "comparing", None))
-    window.statusBar().showMessage(f"comparing with {path}")
+    window.compare_status.follow(comparing, f"comparing with {Path(path).name}", (comparing.ended,))
     return comparing
 
 

@@ -27,13 +27,14 @@ from geometry.io.files import write_atomically
 
 from . import file_dialogs, menus, review_actions
 from .controls import DisplayPanel
-from .export_task import ExportStatus, start_report
+from .export_task import start_report
 from .findings import FROM_FILE, FindingsPanel
 from .graph import CurvatureGraph
 from .plane_widget import PlaneHandle
 from .section_panel import SectionPanel
 from .settings_store import WindowMemory
 from .snapshot import screenshot_without_tools
+from .task_status import TaskStatus
 from .worker import LoadJob, SeamJob, start_job
 
 MODEL_FILTER = "Design models (*.step *.stp *.p21 *.iges *.igs *.json);;All files (*)"
@@ -204,7 +205,7 @@ class MainWindow(QMainWindow):
         self.modes = menus.ModeActions(self.session, self)
         view.addActions(self.modes.group.actions())
         view.addSeparator()
-        self.views = menus.ViewActions(self.view, self, on_projection=self.memory.save_parallel)
+        self.views = menus.ViewActions(self.view, self, self.scene.fit, on_projection=self.memory.save_parallel)
         self.views.add_to(view)
         view.addAction(self._action("Fit model in view", self._fit, "Ctrl+0"))
         self.mode_bar = menus.mode_toolbar(self, self.modes)
@@ -226,7 +227,9 @@ class MainWindow(QMainWindow):
         bar.addWidget(self.probe_label, 1)
         bar.addPermanentWidget(self.profile_label)
         bar.addPermanentWidget(self.progress)
-        self.export_status = ExportStatus()
+        self.export_status = TaskStatus("stop writing the report; no file is left behind")
+        self.compare_status = TaskStatus("stop comparing; the model shown is kept as it is")
+        bar.addPermanentWidget(self.compare_status)
         bar.addPermanentWidget(self.export_status)
 
     # -- opening ---------------------------------------------------------
@@ -402,7 +405,7 @@ class MainWindow(QMainWindow):
             self.statusBar().showMessage(finding.detail or finding.title, 10000)
 
     def _fit(self) -> None:
-        self.view.reset_camera()
+        self.scene.fit()
         self.view.update()
 
     # -- section plane widget --------------------------------------------
@@ -586,8 +589,7 @@ class MainWindow(QMainWindow):
     def closeEvent(self, event):  # noqa: N802 - Qt's name
         self.remember()
         self.export_status.stop()
-        if self.comparing is not None:
-            self.comparing.wait()
+        self.compare_status.stop()
         self.wait_for_job()
         self.view.close()
         super().closeEvent(event)

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import threading
+
 from PySide6.QtCore import QObject, QThread, Signal, Slot
 
 from app.state.loading import prepare, with_seams_judged
@@ -89,25 +91,48 @@ class CompareJob(QObject):
         what :func:`app.state.revisions.comparison_for` returns.
     failed(str)
         A message naming the file and the cause.
+    cancelled()
+        Stopped on request (:meth:`cancel`) at its next step; nothing is shown.
     """
 
     progress = Signal(str)
     compared = Signal(object)
     failed = Signal(str)
+    cancelled = Signal()
 
     def __init__(self, model, samples, settings, old_path: str):
         super().__init__()
         self.model, self.samples, self.settings, self.old_path = model, samples, settings, old_path
+        self._stop = threading.Event()
+
+    def cancel(self) -> None:
+        """Ask the job to stop; it does at its next step (a batch of seams, a stage; a read runs to its end)."""
+        self._stop.set()
+
+    def _check(self) -> None:
+        if self._stop.is_set():
+            raise _Stopped
+
+    def _step(self, line: str) -> None:
+        self._check()
+        self.progress.emit(line)
 
     @Slot()
     def run(self) -> None:
         try:
-            found = comparison_for(self.model, self.samples, self.settings, self.old_path, self.progress.emit)
+            found = comparison_for(self.model, self.samples, self.settings, self.old_path, self._step)
+            self._check()  # cancelled during the last step: show nothing
             self.compared.emit((self.model, *found))
+        except _Stopped:
+            self.cancelled.emit()
         except BattenError as exc:
             self.failed.emit(str(exc))
         except Exception as exc:  # a bug of ours must not kill the window; say what happened
             self.failed.emit(f"{self.old_path}: internal error while comparing ({type(exc).__name__}: {exc})")
+
+
+class _Stopped(Exception):
+    """Raised at a comparison's next step once it is cancelled: unwinds the work, caught by its job."""
 
 
 def start_job(job: LoadJob | SeamJob | CompareJob, parent: QObject) -> QThread:
@@ -118,6 +143,8 @@ def start_job(job: LoadJob | SeamJob | CompareJob, parent: QObject) -> QThread:
     last = job.compared if isinstance(job, CompareJob) else job.seams_ready
     last.connect(thread.quit)
     job.failed.connect(thread.quit)
+    if isinstance(job, CompareJob):
+        job.cancelled.connect(thread.quit)
     thread.finished.connect(thread.deleteLater)
     thread.start()
     return thread

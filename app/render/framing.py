@@ -70,3 +70,35 @@ def framing(
     reach = radius / (1.0 - margin)
     distance = reach / np.sin(half)
     return centre, centre - direction * distance, reach / min(1.0, aspect)
+
+
+def legend_room(view_angle_deg: float, aspect: float, room: float, parallel: bool) -> float:
+    """How much farther the camera must stand (or wider a parallel view be) for a fitted model to clear a legend.
+
+    A fitted ball fills the narrower of the view's two half angles. With a
+    legend at the right and the picture moved left, only ``room`` of the half
+    width is left to it on its tighter side: where the width binds, the ball
+    must look smaller by the ratio of the two fits (the tangent cone of
+    :func:`framing`, d sin(a) = r).
+
+    Parameters
+    ----------
+    view_angle_deg : float
+        The camera's vertical view angle.
+    aspect : float
+        Width / height of the view.
+    room : float
+        Share of the view's half width free on the tighter side of the picture's centre, in (0, 1].
+    parallel : bool
+        A parallel projection (the scale grows by the ratio of the half sizes).
+
+    Returns
+    -------
+    float
+        1 where the height binds, otherwise > 1.
+    """
+    if parallel:
+        return min(1.0, aspect) / min(1.0, aspect * room)
+    half_v = np.radians(view_angle_deg) / 2
+    fits = [min(half_v, np.arctan(np.tan(half_v) * a)) for a in (aspect, aspect * room)]
+    return float(np.sin(fits[0]) / np.sin(fits[1]))

@@ -17,7 +17,7 @@ from app.state.settings import MEASURE_UNITS, STRIPE_MODES, VALUE_MODES, Measure
 
 from . import colours
 from .combs import comb_envelopes, comb_teeth, marker_points, polylines, section_curves
-from .framing import framing
+from .framing import framing, legend_room
 from .legend import (
     SHIFT,
     WINDOW_LEGEND,
@@ -120,7 +120,21 @@ class Scene:
         self.update_seams()
         self.update_sections()
         self.mark(None)
+        self.fit()
+
+    def fit(self) -> None:
+        """Fit the whole model in the view, keeping the viewing direction, in the room the legend leaves."""
         self.plotter.reset_camera()
+        if self.legend is None:
+            return
+        cam = self.plotter.camera
+        width, height = self.plotter.render_window.GetSize()
+        farther = legend_room(cam.view_angle, width / max(height, 1), self._room(), bool(cam.parallel_projection))
+        if cam.parallel_projection:
+            cam.parallel_scale = cam.parallel_scale * farther
+        else:
+            cam.Dolly(1.0 / farther)
+        self.plotter.reset_camera_clipping_range()
 
     def _remove_legend(self) -> None:
         # Remove rather than hide: pyvista shares one bar per title and only ever widens a shared
@@ -221,6 +235,17 @@ class Scene:
         self.legend_ends = ends_text("\n".join(w for w in words if w))
         self.plotter.add_actor(self.legend_ends, name="legend-ends", reset_camera=False, pickable=False, render=False)
         self.place_legend()
+
+    def _room(self) -> float:
+        """Share of the half width free for the model on the tighter side of its centre (1 without a legend).
+
+        The picture's centre sits SHIFT left of the view's; the bar's left edge
+        (moved left in a narrow view so its text fits) bounds it on the right.
+        """
+        if self.legend is None or self.legend not in self.plotter.scalar_bars:
+            return 1.0
+        bar_left = self.plotter.scalar_bars[self.legend].GetPositionCoordinate().GetValue()[0]
+        return float(np.clip(min(1.0 - SHIFT, 2.0 * bar_left - 1.0 + SHIFT), 0.2, 1.0))
 
     def place_legend(self, where: LegendPlace = WINDOW_LEGEND) -> None:
         """Put the legend (bar, title, clipped ends) at ``where`` with its font sizes (window or print)."""
@@ -336,8 +361,9 @@ class Scene:
         width, height = self.plotter.render_window.GetSize()
         points = finding.path if finding.path.shape[0] >= 2 else finding.position[None, :]
         points = np.vstack([points, finding.position])
+        aspect = self._room() * width / max(height, 1)  # the width the legend leaves
         focal, position, scale = framing(
-            points, focal - position, cam.view_angle, width / max(height, 1), max(finding.extent, 1e-3) / 2
+            points, focal - position, cam.view_angle, aspect, max(finding.extent, 1e-3) / 2
         )
         cam.focal_point = tuple(focal)
         cam.position = tuple(position)
