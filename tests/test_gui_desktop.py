@@ -330,3 +330,11 @@ def test_the_panels_menu_shows_and_hides_each_panel(qtbot, window):
         assert dock.isVisible() and action.isChecked(), title
     entries["Display modes"].trigger()
     assert window.mode_bar.isHidden()
+
+
+def test_a_small_window_keeps_the_model_view(qtbot, window):
+    # At 760 px wide the panels squeezed the 3-D view to nothing; they now give way first.
+    window.resize(700, 600)
+    qtbot.wait(100)
+    assert window.view.width() >= window_module.VIEW_MIN_PX
+    assert window.view.height() >= window_module.VIEW_MIN_PX * 3 // 4

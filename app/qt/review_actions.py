@@ -90,9 +90,14 @@ class Comparing(QObject):
         self.ended.emit()
 
     def wait(self) -> None:
-        """Block until the worker thread has ended (the window is closing)."""
+        """Block until the worker thread has ended (the window is closing; cancel first to be quick).
+
+        The job's own signals that end the thread are queued to this (blocked) thread and would never
+        arrive: the thread is told to quit here, and its loop ends as soon as the job returns.
+        """
         try:
             if self.thread.isRunning():
+                self.thread.quit()
                 self.thread.wait()
         except RuntimeError:
             pass  # the thread object is already deleted: it has ended

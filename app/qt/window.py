@@ -53,6 +53,10 @@ def report_available() -> bool:
     return importlib.util.find_spec("app.report") is not None and importlib.util.find_spec("app.review") is not None
 
 
+# Least width of the 3-D view (pixels); its least height is three quarters of it.
+VIEW_MIN_PX = 360
+
+
 class MainWindow(QMainWindow):
     """Shows one :class:`Session`.
 
@@ -82,6 +86,8 @@ class MainWindow(QMainWindow):
         # No timed redraws (pyvistaqt's default is 5 a second, whether anything changed or not: under a
         # software GL that kept the GUI thread busy). The scene asks for a paint after each change.
         self.view = QtInteractor(self, multi_samples=multi_samples, auto_update=False)
+        # the panels give way before the model does: in a small window they squeezed the view to nothing
+        self.view.setMinimumSize(VIEW_MIN_PX, VIEW_MIN_PX * 3 // 4)
         self.setCentralWidget(self.view)
         self.scene = Scene(self.view, self.session)
         self.view.add_axes(interactive=False)
