@@ -50,6 +50,7 @@ class Comparing(QObject):
     def __init__(self, window, path: str):
         super().__init__(window)
         self.window, self.path = window, path
+        self._closing = False  # the window is closing: whatever the job still says is not shown
         session = window.session
         self.job = CompareJob(session.model, session.samples, session.review_settings, path)
         # bound methods of this GUI-thread object: Qt queues the job's signals to them
@@ -65,15 +66,21 @@ class Comparing(QObject):
 
     @Slot(str)
     def _progress(self, line: str) -> None:
+        if self._closing:
+            return
         self.progress.emit(-1, f"comparing with {Path(self.path).name}: {line}")
 
     @Slot()
     def _cancelled(self) -> None:
+        if self._closing:
+            return
         self.window.statusBar().showMessage("comparison cancelled: the model shown is kept", 5000)
         self.ended.emit()
 
     @Slot(object)
     def _compared(self, found) -> None:
+        if self._closing:
+            return
         model, comparison, deviation = found
         window = self.window
         if window.session.model is model:  # not another model opened meanwhile
@@ -85,6 +92,8 @@ class Comparing(QObject):
 
     @Slot(str)
     def _failed(self, message: str) -> None:
+        if self._closing:
+            return
         self.window.statusBar().clearMessage()
         QMessageBox.critical(self.window, "Cannot compare", f"{message}\n\nThe model shown is kept.")
         self.ended.emit()
@@ -95,6 +104,7 @@ class Comparing(QObject):
         The job's own signals that end the thread are queued to this (blocked) thread and would never
         arrive: the thread is told to quit here, and its loop ends as soon as the job returns.
         """
+        self._closing = True
         try:
             if self.thread.isRunning():
                 self.thread.quit()

@@ -54,7 +54,7 @@ def report_available() -> bool:
 
 
 # Least width of the 3-D view (pixels); its least height is three quarters of it.
-VIEW_MIN_PX = 360
+VIEW_MIN_PX = 300
 
 
 class MainWindow(QMainWindow):
