@@ -68,7 +68,7 @@ class Comparing(QObject):
     def _progress(self, line: str) -> None:
         if self._closing:
             return
-        self.progress.emit(-1, f"comparing with {Path(self.path).name}: {line}")
+        self.progress.emit(-1, f"comparing: {line}")  # the line names the file it is at
 
     @Slot()
     def _cancelled(self) -> None:
