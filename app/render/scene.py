@@ -242,9 +242,9 @@ class Scene:
         The picture's centre sits SHIFT left of the view's; the bar's left edge
         (moved left in a narrow view so its text fits) bounds it on the right.
         """
-        if self.legend is None or self.legend not in self.plotter.scalar_bars:
+        if self.legend is None or self.legend not in self.plotter.scalar_bars or self._legend_place is None:
             return 1.0
-        bar_left = self.plotter.scalar_bars[self.legend].GetPositionCoordinate().GetValue()[0]
+        bar_left = self._legend_place.x  # as placed (fitted to the view's width)
         return float(np.clip(min(1.0 - SHIFT, 2.0 * bar_left - 1.0 + SHIFT), 0.2, 1.0))
 
     def place_legend(self, where: LegendPlace = WINDOW_LEGEND) -> None:
