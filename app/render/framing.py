@@ -29,6 +29,20 @@ def enclosing_ball(points: np.ndarray, least_radius: float) -> tuple[np.ndarray,
     return centre, max(radius, least_radius)
 
 
+def fit_half_angle(view_angle_deg: float, aspect: float) -> float:
+    """Half angle (radians) a fitted ball may fill: the narrower of the view's vertical and horizontal ones.
+
+    Parameters
+    ----------
+    view_angle_deg : float
+        The camera's vertical view angle.
+    aspect : float
+        Width / height of the (free part of the) view.
+    """
+    half_v = np.radians(view_angle_deg) / 2
+    return float(min(half_v, np.arctan(np.tan(half_v) * aspect)))
+
+
 def framing(
     points: np.ndarray,
     direction: np.ndarray,
@@ -65,10 +79,8 @@ def framing(
     """
     centre, radius = enclosing_ball(points, least_radius)
     direction = np.asarray(direction, float) / max(np.linalg.norm(direction), 1e-300)
-    half_v = np.radians(view_angle_deg) / 2
-    half = min(half_v, np.arctan(np.tan(half_v) * aspect))
     reach = radius / (1.0 - margin)
-    distance = reach / np.sin(half)
+    distance = reach / np.sin(fit_half_angle(view_angle_deg, aspect))
     return centre, centre - direction * distance, reach / min(1.0, aspect)
 
 
@@ -99,6 +111,4 @@ def legend_room(view_angle_deg: float, aspect: float, room: float, parallel: boo
     """
     if parallel:
         return min(1.0, aspect) / min(1.0, aspect * room)
-    half_v = np.radians(view_angle_deg) / 2
-    fits = [min(half_v, np.arctan(np.tan(half_v) * a)) for a in (aspect, aspect * room)]
-    return float(np.sin(fits[0]) / np.sin(fits[1]))
+    return float(np.sin(fit_half_angle(view_angle_deg, aspect)) / np.sin(fit_half_angle(view_angle_deg, aspect * room)))
