@@ -5,11 +5,10 @@ from __future__ import annotations
 
 import numpy as np
 import pytest
-import pyvista as pv
+from render_support import offscreen_scene
 from shapes import plane_model
 
 from app.render.legend import clipped_ends, figure, measure_title, tick_format, vtk_text
-from app.render.scene import Scene
 from app.state import Measure, Mode, Session
 from app.state.colour_scale import FLAT_RADIUS_MM, SPAN_MIN, one_sided_limits, round_limit, signed_limits
 from app.state.demo import demo_model
@@ -67,10 +66,8 @@ def test_titles_draw_the_bars_of_max_k():
     session = Session()
     session.show_model(demo_model())
     session.set_display(mode=Mode.CURVATURE, measure=Measure.MAX_ABS)
-    plotter = pv.Plotter(off_screen=True, window_size=(400, 300))
-    try:
-        scene = Scene(plotter, session)
-        scene.rebuild()
+    with offscreen_scene(session, (400, 300)) as scene:
+        plotter = scene.plotter
         bar = plotter.scalar_bars[scene.legend]
         assert "|" not in bar.GetTitle() and "\u2223k\u2223" in bar.GetTitle()
         assert bar.GetTitleTextProperty().GetFontFile().endswith("DejaVuSans.ttf")
@@ -80,8 +77,6 @@ def test_titles_draw_the_bars_of_max_k():
         session.set_display(mode=Mode.SHADED)
         scene.update_surface()
         assert plotter.camera.GetWindowCenter()[0] == 0
-    finally:
-        plotter.close()
 
 
 def test_clipped_ends_state_the_true_extremes():
@@ -101,10 +96,8 @@ def test_the_scene_shows_the_clipped_end_on_its_legend():
     low, high = session.colour_limits()
     smallest, largest = session.value_extremes()
     session.set_colour_range(False, low / 2, high / 2)  # narrower than the data on both sides
-    plotter = pv.Plotter(off_screen=True, window_size=(400, 300))
-    try:
-        scene = Scene(plotter, session)
-        scene.rebuild()
+    with offscreen_scene(session, (400, 300)) as scene:
+        plotter = scene.plotter
         bar = plotter.scalar_bars[scene.legend]
         assert bar.GetDrawAboveRangeSwatch() and bar.GetDrawBelowRangeSwatch()
         words = scene.legend_ends.GetInput()
@@ -112,8 +105,6 @@ def test_the_scene_shows_the_clipped_end_on_its_legend():
         session.set_colour_range(True)
         scene.update_surface()
         assert not plotter.scalar_bars[scene.legend].GetDrawAboveRangeSwatch() or largest > high
-    finally:
-        plotter.close()
 
 
 def test_figures_read_plain():
@@ -138,10 +129,8 @@ def test_a_fitted_model_clears_the_legend_in_narrow_and_wide_views(size):
     session = Session()
     session.show_model(demo_model())
     session.set_display(mode=Mode.CURVATURE, measure=Measure.MEAN)
-    plotter = pv.Plotter(off_screen=True, window_size=size)
-    try:
-        scene = Scene(plotter, session)
-        scene.rebuild()
+    with offscreen_scene(session, size) as scene:
+        plotter = scene.plotter
         for direction in ("xy", "xz", "yz", "iso"):
             getattr(plotter, f"view_{direction}")() if direction != "iso" else plotter.view_isometric()
             scene.fit()
@@ -150,5 +139,3 @@ def test_a_fitted_model_clears_the_legend_in_narrow_and_wide_views(size):
             xs = _display_x(plotter, points)
             left_of_bar = plotter.scalar_bars[scene.legend].GetPositionCoordinate().GetValue()[0] * size[0]
             assert xs.min() >= 0 and xs.max() <= left_of_bar, direction
-    finally:
-        plotter.close()

@@ -7,11 +7,10 @@ from __future__ import annotations
 
 import numpy as np
 import pytest
-import pyvista as pv
+from render_support import offscreen_scene
 from shapes import PLANE_SIDE_MM, plane_model
 
 from app.render import colours
-from app.render.scene import Scene
 from app.state import Measure, Mode, Session
 
 # How far (0..255 per channel) a lit flat face may stray from the zero colour. Our choice: the eye reads a
@@ -24,10 +23,8 @@ def centre_pixel(tilt_deg: float, measure: Measure, mode: Mode = Mode.CURVATURE)
     session = Session()
     session.show_model(plane_model())
     session.set_display(mode=mode, measure=measure)
-    plotter = pv.Plotter(off_screen=True, window_size=(300, 300))
-    try:
-        scene = Scene(plotter, session)
-        scene.rebuild()
+    with offscreen_scene(session, (300, 300)) as scene:
+        plotter = scene.plotter
         tilt = np.radians(tilt_deg)
         centre = np.array([PLANE_SIDE_MM / 2, PLANE_SIDE_MM / 2, 0.0])
         toward = np.array([np.sin(tilt), 0.0, np.cos(tilt)])
@@ -35,8 +32,6 @@ def centre_pixel(tilt_deg: float, measure: Measure, mode: Mode = Mode.CURVATURE)
         plotter.camera.SetWindowCenter(0.0, 0.0)  # the centre pixel on the plane, whatever the legend's shift
         plotter.reset_camera_clipping_range()
         image = plotter.screenshot(return_img=True)
-    finally:
-        plotter.close()
     return image[image.shape[0] // 2, image.shape[1] // 2, :3].astype(int)
 
 
@@ -63,14 +58,9 @@ def test_tight_radii_take_the_strong_colour():
     session = Session()
     session.show_model(plane_model())
     session.set_display(mode=Mode.CURVATURE, measure=Measure.MIN_RADIUS)
-    plotter = pv.Plotter(off_screen=True, window_size=(200, 200))
-    try:
-        scene = Scene(plotter, session)
-        scene.rebuild()
+    with offscreen_scene(session, (200, 200)) as scene:
         table = scene.surface_actor.mapper.lookup_table
         low, high = table.scalar_range
         strong, calm = (np.array(table.map_value(v)[:3]) for v in (low, high))
-    finally:
-        plotter.close()
     assert np.allclose(strong, colours.hex_rgb(colours.ONE_SIDED[-1][1]), atol=0.01)
     assert np.allclose(calm, colours.hex_rgb(colours.ONE_SIDED[0][1]), atol=0.01)

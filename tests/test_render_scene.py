@@ -6,6 +6,7 @@ import numpy as np
 import pytest
 import pyvista as pv
 from numpy.testing import assert_allclose
+from render_support import offscreen_scene
 
 from app.render import colours
 from app.render.combs import comb_teeth, polylines
@@ -25,11 +26,8 @@ def session():
 
 @pytest.fixture
 def scene(session):
-    plotter = pv.Plotter(off_screen=True, window_size=(320, 240))
-    built = Scene(plotter, session)
-    built.rebuild()
-    yield built
-    plotter.close()
+    with offscreen_scene(session, (320, 240)) as built:
+        yield built
 
 
 def test_grid_triangles_keep_only_cells_inside():
