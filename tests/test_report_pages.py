@@ -106,3 +106,31 @@ def test_a_short_note_is_never_split_by_a_page_end(tmp_path):
         where = [n for n, page in enumerate(pages) if "opening-word" in page]
         splits += "closing-word" not in pages[where[0]]
     assert splits == 0
+
+
+@pytest.mark.parametrize("width", [300, 330, 360, 400])
+def test_units_and_norms_never_break_at_a_line_end(width):
+    """Qt's line breaker may break after "/" and "|": a narrow header must still read "|k|" and "1/mm" whole.
+
+    CI once printed "Largest |" over "k| (1/mm)" when a column came out narrower.
+    """
+    from PySide6.QtGui import QTextDocument
+
+    from app.report.blocks import paragraph, table
+    from app.report.writers import _gui_application
+
+    _gui_application()
+    header = ["Section curve", "Faces crossed", "Length (mm)", "Largest |k| (1/mm)", "Variation (1/mm³)"]
+    doc = QTextDocument()
+    doc.setHtml(table(header, [["x = 1 mm", "a", "1", "2", "3"]], "") + paragraph("so |k| is 1/mm " * 30))
+    doc.setTextWidth(width)
+    doc.size()  # lays the document out
+    block, broken = doc.begin(), []
+    while block.isValid():
+        layout, text = block.layout(), block.text()
+        for i in range(layout.lineCount()):
+            end = layout.lineAt(i).textStart() + layout.lineAt(i).textLength()
+            if end < len(text) and text[end - 1] in "/|" and not text[end].isspace():
+                broken.append(text[: end + 3])
+        block = block.next()
+    assert not broken

@@ -8,6 +8,7 @@ are escaped here unless they are :class:`~app.report.wording.Markup`.
 
 from __future__ import annotations
 
+import re
 from collections.abc import Sequence
 from html import escape
 
@@ -29,6 +30,17 @@ NOWRAP_CHARS = 14
 HEADER_COLOUR = "#e4e8ec"
 SMALL = "font-size: 8pt;"
 WJ = "\u2060"  # word joiner: no line break here
+# Qt's line breaker may break after "/" (1/mm) and after "|" (|k|): a word joiner there keeps the unit whole.
+_BREAK_AFTER = re.compile(r"(/|\|(?=\S))")
+_TAG = re.compile(r"(<[^>]*>)")
+
+
+def unbroken(text: str) -> str:
+    """HTML ``text`` with no line break inside a unit or a norm: ``1/mm`` and ``|k|`` stay whole at a line end."""
+    # only between tags: a "/" inside "</b>" or an attribute is markup, not text
+    parts = _TAG.split(text)
+    parts[::2] = [_BREAK_AFTER.sub(lambda m: m.group(1) + WJ, p) for p in parts[::2]]
+    return "".join(parts)
 
 
 def heading(text: str, level: int = 3, new_page: bool = False) -> str:
@@ -39,7 +51,8 @@ def heading(text: str, level: int = 3, new_page: bool = False) -> str:
 
 
 def paragraph(text: str, small: bool = False, italic: bool = False) -> str:
-    body = f"<i>{html(text)}</i>" if italic else html(text)
+    body = unbroken(html(text))
+    body = f"<i>{body}</i>" if italic else body
     return f'<p style="{SMALL}">{body}</p>' if small else f"<p>{body}</p>"
 
 
@@ -65,8 +78,7 @@ def _header_cell(text: str, width: int | None) -> str:
     # A one-word header never breaks; longer ones wrap between words.
     nowrap = ' style="white-space: nowrap;"' if " " not in text.strip() else ""
     size = f' width="{width}%"' if width else ""
-    # A word joiner after "/" keeps a unit like 1/mm whole (Qt breaks lines after a slash).
-    return f'<th bgcolor="{HEADER_COLOUR}" align="left"{size}{nowrap}>{html(text).replace("/", "/" + WJ)}</th>'
+    return f'<th bgcolor="{HEADER_COLOUR}" align="left"{size}{nowrap}>{unbroken(html(text))}</th>'
 
 
 def table(header: Sequence[str], rows: Sequence[Sequence], empty: str, widths: Sequence[int] | None = None) -> str:
@@ -115,6 +127,5 @@ def figure(src: str, caption: str, width: int) -> str:
 
     Each in its own paragraph: Qt lays an inline image over the text above otherwise.
     """
-    # as in the headers: a unit like 1/mm stays whole at a line end
-    text = html(caption).replace("/", "/" + WJ)
+    text = unbroken(html(caption))
     return f'<p align="center"><img src="{src}" width="{width}"/></p><p style="{SMALL}"><i>{text}</i></p>'
