@@ -12,6 +12,7 @@ from __future__ import annotations
 import numpy as np
 from numpy.testing import assert_allclose
 
+from geometry.io.carry import on_nurbs
 from geometry.io.occt_edges import polyline_offset
 from geometry.io.occt_model import read_shape
 
@@ -54,7 +55,7 @@ def test_face_whose_outer_wire_is_one_open_edge_is_used_untrimmed_with_a_warning
     plane = Geom_Plane(gp_Pln(gp_Pnt(0, 0, 0), gp_Dir(0, 0, 1)))
     diagonal = Geom2d_Line(gp_Pnt2d(0, 0), gp_Dir2d(1, 1))
     face = _face_with_wires(plane, [_wire(_edge_on(plane, diagonal, 0.0, 10.0))])
-    contents = read_shape(face)
+    contents = on_nurbs(read_shape(face))
     (read,) = contents.faces
     assert read.loops == ()  # untrimmed: the whole surface, not a zero-area sliver
     (warning,) = [w for w in contents.warnings if "open" in w]
@@ -72,7 +73,7 @@ def test_face_bounded_by_end_circles_only_is_used_untrimmed_with_a_warning():
     ends = [
         _wire(_edge_on(cylinder, Geom2d_Line(gp_Pnt2d(0, v), gp_Dir2d(1, 0)), 0.0, 2 * np.pi)) for v in (0.0, height)
     ]
-    contents = read_shape(_face_with_wires(cylinder, ends))
+    contents = on_nurbs(read_shape(_face_with_wires(cylinder, ends)))
     (read,) = contents.faces
     assert read.loops == ()
     assert any("no area" in w and "untrimmed" in w for w in contents.warnings)

@@ -17,9 +17,9 @@ import numpy as np
 from ..errors import BattenError, ReadError
 from ..model.topology import Model
 from .budget import ReadBudget
+from .carry import ShapeContents, on_nurbs
 from .files import read_regular
 from .numbers import check_numbers
-from .occt_model import ShapeContents
 
 # Larger files are refused before the kernel is asked (a design model is tens of MB).
 MAX_FILE_BYTES = 2_000_000_000
@@ -98,7 +98,8 @@ def _contents(path: str, fmt: str, data: bytes, budget: ReadBudget | None) -> tu
 
     warm_up_in_background()  # load the compiled kernels while the helper process reads
     check_numbers(path, fmt, data)
-    return read_isolated(fmt, path, budget)
+    shape, units = read_isolated(fmt, path, budget)
+    return on_nurbs(shape), units
 
 
 def _finite_edges(contents: ShapeContents) -> ShapeContents:

@@ -19,7 +19,8 @@ import numpy as np
 from ..errors import BattenError, ReadError
 from ..model.topology import Face, SkippedFace
 from ..nurbs.surface import NurbsSurface
-from .occt_model import MAX_EXTENT_MM, ShapeContents
+from .carry import ShapeContents
+from .occt_model import MAX_EXTENT_MM
 
 
 def _surface(entry: dict) -> tuple[NurbsSurface, bool, str]:

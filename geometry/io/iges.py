@@ -11,7 +11,7 @@ those are found by sewing a copy (see :func:`geometry.io.occt_model.read_shape`)
 from __future__ import annotations
 
 from .kernel_read import read_with_kernel
-from .occt_model import ShapeContents
+from .kernel_shape import KernelShape
 
 # IGES global-section unit flag -> short unit name (IGES 5.3, sec. 2.2.4.3, parameter 14).
 _UNIT_FLAGS = {1: "in", 2: "mm", 4: "ft", 5: "mi", 6: "m", 7: "km", 8: "mil", 9: "um", 10: "cm", 11: "uin"}
@@ -42,7 +42,7 @@ def _entity_name(entity) -> str:
     return entity.ShortLabel().ToCString().strip() if entity.HasShortLabel() else ""
 
 
-def read_iges(path: str) -> tuple[ShapeContents, str]:
+def read_iges(path: str) -> tuple[KernelShape, str]:
     """Faces, edges and the declared unit of an IGES file.
 
     Parameters
@@ -51,7 +51,7 @@ def read_iges(path: str) -> tuple[ShapeContents, str]:
 
     Returns
     -------
-    contents : ShapeContents
+    contents : KernelShape
     source_units : str
         From the global section's unit flag (``"in"``, ``"mm"``, ...).
 

@@ -44,11 +44,9 @@ import tempfile
 import threading
 
 from ..errors import BattenError, ReadError
-from ..model.topology import Edge, EdgeUse, Face
-from ..nurbs.surface import NurbsSurface
 from .budget import ReadBudget
+from .kernel_shape import KernelShape
 from .kernel_worker import HEADER_BYTES
-from .occt_model import ShapeContents
 
 # Seconds an idle helper gets to leave after its input closes, before it is killed.
 STOP_TIMEOUT_S = 10.0
@@ -60,7 +58,7 @@ _WORKER: subprocess.Popen | None = None
 _FINALIZED_PID: int | None = None  # the process whose exit already stops the helper
 
 
-def _read(fmt: str, path: str) -> tuple[ShapeContents, str]:
+def _read(fmt: str, path: str) -> tuple[KernelShape, str]:
     if fmt == "step":
         from .step import read_step
 
@@ -190,19 +188,6 @@ def _over_processor_time(worker: subprocess.Popen) -> bool:
     return code == -signal.SIGXCPU
 
 
-def _refrozen(contents: ShapeContents) -> ShapeContents:
-    """Rebuild faces and edges after unpickling (arrays come back writeable)."""
-
-    def surface(s: NurbsSurface) -> NurbsSurface:
-        return NurbsSurface(s.degree_u, s.degree_v, s.knots_u, s.knots_v, s.poles, s.weights)
-
-    faces = [Face(surface(f.surface), f.reversed, f.loops, f.name, f.body) for f in contents.faces]
-    edges = [
-        Edge(e.points, tuple(EdgeUse(u.face, u.uv, u.offset) for u in e.uses), e.tolerance) for e in contents.edges
-    ]
-    return ShapeContents(faces, edges, list(contents.warnings), contents.n_input_faces, list(contents.skipped))
-
-
 @contextlib.contextmanager
 def _kernel_path(path: str):
     """A name the kernel can open: the file's own, or a link with a plain name when it is not valid UTF-8.
@@ -222,7 +207,7 @@ def _kernel_path(path: str):
     yield path
 
 
-def read_isolated(fmt: str, path: str, budget: ReadBudget | None = None) -> tuple[ShapeContents, str]:
+def read_isolated(fmt: str, path: str, budget: ReadBudget | None = None) -> tuple[KernelShape, str]:
     """Run the ``fmt`` reader ("step" or "iges") on ``path`` in the helper process.
 
     Parameters
@@ -234,7 +219,8 @@ def read_isolated(fmt: str, path: str, budget: ReadBudget | None = None) -> tupl
 
     Returns
     -------
-    contents : ShapeContents
+    contents : KernelShape
+        Trims still on the input faces (:func:`geometry.io.carry.on_nurbs`).
     source_units : str
 
     Raises
@@ -284,5 +270,4 @@ def read_isolated(fmt: str, path: str, budget: ReadBudget | None = None) -> tupl
     result = pickle.loads(answer)
     if result[0] == "error":
         raise ReadError(path, result[1])
-    contents, units = result
-    return _refrozen(contents), units
+    return result

@@ -10,7 +10,8 @@ from __future__ import annotations
 from collections.abc import Callable
 
 from ..errors import ReadError
-from .occt_model import ShapeContents, read_shape
+from .kernel_shape import KernelShape
+from .occt_model import read_shape
 from .occt_quiet import quiet_kernel
 
 
@@ -35,7 +36,7 @@ def read_with_kernel(
     listed_faces: Callable[[object], int],
     entity_name: Callable[[object], str],
     sew: bool = False,
-) -> tuple[ShapeContents, str]:
+) -> tuple[KernelShape, str]:
     """Parse and transfer a file with an OCP reader, then read its faces.
 
     Parameters
@@ -53,7 +54,7 @@ def read_with_kernel(
 
     Returns
     -------
-    contents : ShapeContents
+    contents : KernelShape
     source_units : str
 
     Raises

@@ -115,15 +115,12 @@ def main() -> None:
     if resource is not None:  # a helper that dies of its time limit leaves no core file behind
         resource.setrlimit(resource.RLIMIT_CORE, (0, 0))
     _die_with_owner()
-    # Load the kernel before any read, so the address-space limit bounds the work, not the libraries;
-    # the readers and the compiled kernels they call load while the owner sends its first request.
+    # Load the kernel before any read, so the address-space limit bounds the work, not the libraries.
+    # The compiled kernels are never started here: the owner carries the trims onto the NURBS (.carry).
     import OCP.IGESControl  # noqa: F401
     import OCP.STEPControl  # noqa: F401
 
-    from ..nurbs.compiled_warm import warm_up_in_background
     from . import iges, step  # noqa: F401
-
-    warm_up_in_background()
 
     answers = os.fdopen(os.dup(1), "wb")
     devnull = os.open(os.devnull, os.O_WRONLY)

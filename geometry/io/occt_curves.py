@@ -3,8 +3,8 @@
 ``BRepBuilderAPI_NurbsConvert`` writes a cylinder, sphere, torus or revolution
 as a rational B-spline whose parameters agree with the input's (angles) only at
 the knots, and it keeps the p-curves as they were. So every (u, v) polyline here
-is carried through 3-D (:class:`FaceMap`): the input face's p-curve sampled,
-the input surface evaluated there, the point inverted onto the NURBS.
+is read on the input face with its 3-D points (:class:`InputFace`), to be
+inverted onto the NURBS by the owner (:mod:`geometry.io.carry`).
 """
 
 from __future__ import annotations
@@ -27,10 +27,6 @@ START_EDGE_SAMPLES = 9
 REFINE_ROUNDS = 14
 # A p-curve's midpoint this close to its (u, v) chord's, relative to the chord, lies on it (rounding).
 STRAIGHT_RTOL = 1e-12
-# Relative tolerance for a trim loop that is just the domain's rectangle.
-NATURAL_LOOP_RTOL = 1e-7
-# A loop enclosing less than this fraction of the domain's area has none.
-LOOP_AREA_RTOL = 1e-12
 
 
 def _values(curve, ts: np.ndarray) -> np.ndarray:
@@ -181,15 +177,14 @@ def edge_points(edge, ts: np.ndarray) -> np.ndarray:
     return _values(BRepAdaptor_Curve(edge), ts)
 
 
-class FaceMap:
-    """Carries (u, v) of an input face onto its NURBS surface.
+class InputFace:
+    """An input face's own surface (placed like the face), its NURBS, and whether the two share (u, v).
 
-    The input surface is evaluated at the input (u, v), and the point inverted
-    onto the NURBS (:func:`geometry.model.probe.closest_parameters`) starting from the
-    same (u, v), which lies within a fraction of a knot span of the answer.
-    B-spline surfaces and planes keep their parameters through the conversion,
-    so their (u, v) are taken as they are.
-    ``worst`` records the largest distance left (a trim off its surface).
+    The trims and edge uses read here stay in the input face's (u, v), each
+    point with the input surface's 3-D point there (:meth:`points`); the
+    process that owns the model carries them onto the NURBS in one compiled
+    call (:func:`geometry.io.carry.on_nurbs`), so this side never starts the
+    compiled kernels.
     """
 
     def __init__(self, face, surface: NurbsSurface, same_parameters: bool = False):
@@ -198,30 +193,11 @@ class FaceMap:
         self.adaptor = BRepAdaptor_Surface(face)  # placed like the face
         self.surface = surface
         self.same_parameters = same_parameters
-        self.worst = 0.0
 
-    def __call__(self, uv: np.ndarray) -> np.ndarray:
-        """(u, v) on the input face, shape (n, 2) -> (u, v) on the NURBS, shape (n, 2)."""
-        return self.carry(uv)[0]
-
-    def carry(self, uv: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-        """(u, v) on the NURBS, shape (n, 2), and the input face's points there, shape (n, 3).
-
-        All the points of a call are inverted in one compiled call; a NURBS that
-        is the input surface itself (``same_parameters``) maps (u, v) to itself.
-        """
-        from ..model.probe import closest_parameters
-
-        uv = np.asarray(uv, dtype=float)
-        if len(uv) == 0:
-            return uv, np.zeros((0, 3))
-        if self.same_parameters:
-            return uv, self.surface.points_at(uv[:, 0], uv[:, 1])
-        pts = _on_surface(self.adaptor, uv)
-        u, v = closest_parameters(self.surface, pts, uv[:, 0], uv[:, 1])
-        off = np.linalg.norm(self.surface.points_at(u, v) - pts, axis=1)
-        self.worst = max(self.worst, float(off.max()))
-        return np.stack([u, v], axis=1), pts
+    def points(self, uv: np.ndarray) -> np.ndarray:
+        """The input surface at (u, v) of shape (n, 2), shape (n, 3)."""
+        uv = np.asarray(uv, dtype=float).reshape(-1, 2)
+        return _on_surface(self.adaptor, uv) if len(uv) else np.zeros((0, 3))
 
 
 # A wire is open when its ends lie further apart (on the surface) than this
@@ -272,38 +248,21 @@ def _wire_polyline(wire, face, params: EdgeParams) -> np.ndarray:
     return pts[keep]
 
 
-def _signed_area(loop: np.ndarray) -> float:
-    # Shoelace formula.
-    x, y = loop[:, 0], loop[:, 1]
-    return 0.5 * float(np.dot(x, np.roll(y, -1)) - np.dot(y, np.roll(x, -1)))
-
-
-def _is_natural(loops: list[np.ndarray], surface: NurbsSurface) -> bool:
-    """One loop that runs round the whole parameter domain."""
-    if len(loops) != 1:
-        return False
-    (u0, u1), (v0, v1) = surface.domain
-    scale = np.array([u1 - u0, v1 - v0])
-    box = np.array([[u0, v0], [u1, v1]])
-    corners = np.stack([loops[0].min(axis=0), loops[0].max(axis=0)])
-    on_box = np.all(np.abs(corners - box) <= NATURAL_LOOP_RTOL * scale)
-    domain_area = scale[0] * scale[1]
-    return bool(on_box and abs(abs(_signed_area(loops[0])) - domain_area) <= NATURAL_LOOP_RTOL * domain_area)
-
-
-def face_loops(face, to_nurbs: FaceMap, params: EdgeParams | None = None) -> tuple[tuple[np.ndarray, ...], list[str]]:
-    """Trimming loops of an input face on its NURBS, outer first; ``()`` for the natural boundary.
+def face_loops(face, params: EdgeParams | None = None) -> tuple[list[np.ndarray], list[str]]:
+    """Trimming wires of an input face as closed (u, v) polylines on it, outer first.
 
     ``params`` gives each edge's sampling parameters (shared with the other
     faces along it); by default each edge is sampled for this face alone.
 
     Returns
     -------
-    loops : tuple of ndarray of shape (n, 2)
+    loops : list of ndarray of shape (n, 2)
+        In the input face's (u, v); empty when the face is used untrimmed.
     notes : list of str
-        What was set aside and why: an open or area-less outer wire leaves the
-        face untrimmed (its surface shown whole, never reduced to nothing); such
-        a hole is left out.
+        What was set aside and why: an open outer wire leaves the face
+        untrimmed (its surface shown whole, never reduced to nothing); such a
+        hole is left out. Loops without area are judged on the NURBS
+        (:func:`geometry.io.carry.on_nurbs`).
     """
     from OCP.BRepTools import BRepTools
     from OCP.TopAbs import TopAbs_WIRE
@@ -328,22 +287,8 @@ def face_loops(face, to_nurbs: FaceMap, params: EdgeParams | None = None) -> tup
                 raise TrimProblem(f"trim wire has {len(loop)} distinct point(s)")
         except TrimProblem as exc:
             if which == "outer trim":
-                return (), [f"{exc}; the face is used untrimmed"]
+                return [], [f"{exc}; the face is used untrimmed"]
             notes.append(f"{exc}; this hole is left out")
             continue
         polylines.append(loop)
-    if not polylines:
-        return (), notes
-    sizes = np.cumsum([len(lp) for lp in polylines])[:-1]
-    loops = np.split(to_nurbs(np.concatenate(polylines)), sizes)
-    (u0, u1), (v0, v1) = to_nurbs.surface.domain
-    tiny = LOOP_AREA_RTOL * (u1 - u0) * (v1 - v0)
-    if abs(_signed_area(loops[0])) <= tiny:
-        return (), notes + ["outer trim wire encloses no area; the face is used untrimmed"]
-    kept = [loops[0]]
-    for loop in loops[1:]:
-        if abs(_signed_area(loop)) <= tiny:
-            notes.append("a hole's trim wire encloses no area; it is left out")
-        else:
-            kept.append(loop)
-    return (() if _is_natural(kept, to_nurbs.surface) else tuple(kept)), notes
+    return polylines, notes

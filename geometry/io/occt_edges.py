@@ -2,7 +2,7 @@
 
 Edges and the faces using them come from ``TopExp::MapShapesAndUniqueAncestors``
 (edge -> faces). Every use is sampled at the same edge parameters as the 3-D
-polyline and carried onto its face's NURBS, so ``use.uv[i]`` on the face is
+polyline (and later carried onto its face's NURBS), so ``use.uv[i]`` on the face is
 ``edge.points[i]`` within the file's edge tolerance; how far the p-curve
 actually strays from the 3-D edge is kept as ``use.offset`` (a file whose
 p-curve and edge disagree is reported by the seam check).
@@ -18,8 +18,8 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..model.topology import Edge, EdgeUse
-from .occt_curves import EdgeParams, FaceMap, edge_points, pcurve_points
+from .kernel_shape import KernelEdge, KernelUse
+from .occt_curves import EdgeParams, InputFace, edge_points, pcurve_points
 
 # Loose faces whose edges lie this close are taken to share them (IGES without
 # topology); well below the 0.01 mm a G0 check commonly asks (common practice),
@@ -45,13 +45,13 @@ def _listed(shapes) -> list:
     return [shapes.First(), shapes.Last()][:n] if n <= 2 else list(shapes)
 
 
-def edge_uses(shape, faces_map, kept: dict[int, tuple[int, FaceMap]]) -> list[tuple]:
+def edge_uses(shape, faces_map, kept: dict[int, tuple[int, InputFace]]) -> list[tuple]:
     """Every non-degenerate edge used by a kept face, with its uses.
 
     Returns
     -------
     list of (edge, uses)
-        ``uses``: (oriented edge, input face, model face index, its (u, v) map)
+        ``uses``: (oriented edge, input face, model face index, its :class:`InputFace`)
         for each kept face side; a seam edge of a periodic face has both sides.
     """
     from OCP.BRep import BRep_Tool
@@ -72,11 +72,11 @@ def edge_uses(shape, faces_map, kept: dict[int, tuple[int, FaceMap]]) -> list[tu
             continue
         oriented = []
         for ancestor in sides:
-            index, to_nurbs = kept[faces_map.FindIndex(ancestor) - 1]
+            index, input_face = kept[faces_map.FindIndex(ancestor) - 1]
             face = TopoDS.Face(ancestor)
             closed = BRep_Tool.IsClosed_s(edge, face)
             for side in (TopAbs_FORWARD, TopAbs_REVERSED) if closed else (edge.Orientation(),):
-                oriented.append((TopoDS.Edge(edge.Oriented(side)), face, index, to_nurbs))
+                oriented.append((TopoDS.Edge(edge.Oriented(side)), face, index, input_face))
         listing.append((edge, oriented))
     return listing
 
@@ -87,8 +87,8 @@ def sampling_uses(uses) -> list[tuple]:
 
 
 def shared_edges(
-    shape, faces_map, kept: dict[int, tuple[int, FaceMap]], params: EdgeParams | None = None, listing=None
-) -> list[Edge]:
+    shape, faces_map, kept: dict[int, tuple[int, InputFace]], params: EdgeParams | None = None, listing=None
+) -> list[KernelEdge]:
     """Every non-degenerate edge with one use per (kept) face side, matched point for point.
 
     ``listing`` is :func:`edge_uses` of the shape when already made; ``params``
@@ -103,10 +103,11 @@ def shared_edges(
         ts = params(edge, sampling_uses(oriented))
         points = edge_points(edge, ts)
         uses = []
-        for e, face, index, to_nurbs in oriented:
-            uv, on_face = to_nurbs.carry(pcurve_points(e, face, ts))
-            uses.append(EdgeUse(index, uv, float(polyline_offset(on_face, points).max(initial=0.0))))
-        edges.append(Edge(points, tuple(uses), float(BRep_Tool.Tolerance_s(edge))))
+        for e, face, index, side in oriented:
+            uv = pcurve_points(e, face, ts)
+            on_face = side.points(uv)
+            uses.append(KernelUse(index, uv, on_face, float(polyline_offset(on_face, points).max(initial=0.0))))
+        edges.append(KernelEdge(points, tuple(uses), float(BRep_Tool.Tolerance_s(edge))))
     return edges
 
 
@@ -133,7 +134,7 @@ def polyline_offset(points: np.ndarray, polyline: np.ndarray) -> np.ndarray:
     return best
 
 
-def sewn_edges(faces_map, kept: dict[int, tuple[int, FaceMap]]) -> list[Edge]:
+def sewn_edges(faces_map, kept: dict[int, tuple[int, InputFace]]) -> list[KernelEdge]:
     """Shared edges of loose faces, from a sewn copy (``BRepBuilderAPI_Sewing``)."""
     from OCP.BRepBuilderAPI import BRepBuilderAPI_Sewing
     from OCP.TopAbs import TopAbs_FACE

@@ -11,44 +11,21 @@ placements come with each face's location.
 from __future__ import annotations
 
 from collections.abc import Callable
-from dataclasses import dataclass, field
 
 import numpy as np
 
 from ..errors import BattenError
-from ..model.topology import Edge, Face, SkippedFace
+from ..model.topology import SkippedFace
 from ..nurbs.surface import NurbsSurface
-from .occt_curves import EdgeParams, FaceMap, face_loops
+from .kernel_shape import KernelFace, KernelShape
+from .occt_curves import EdgeParams, InputFace, face_loops
 from .occt_edges import edge_uses, indexed_map, sampling_uses, sewn_edges, shared_edges
 from .occt_surface import bspline_to_nurbs, face_bspline, surface_bspline
 
 # A face whose control net spans more than this is rejected as absurd (100 km).
 MAX_EXTENT_MM = 1e8
-# A trim point further than this from its surface earns the face a warning (mm).
-TRIM_WARN_MM = 1e-3
 
 Namer = Callable[[object], str]
-
-
-@dataclass
-class ShapeContents:
-    """What a reader got out of one shape."""
-
-    faces: list[Face] = field(default_factory=list)
-    edges: list[Edge] = field(default_factory=list)
-    warnings: list[str] = field(default_factory=list)
-    n_input_faces: int = 0
-    skipped: list[SkippedFace] = field(default_factory=list)
-
-    def compare_with_file(self, listed: int) -> None:
-        """Warn when the file lists more faces than the kernel built (the rest were unreadable)."""
-        if listed > self.n_input_faces:
-            lost = listed - self.n_input_faces
-            self.warnings.insert(
-                0, f"{lost} of the {listed} faces the file lists could not be built by the kernel and are left out"
-            )
-            self.skipped.extend(SkippedFace(None, "", "not built by the kernel") for _ in range(lost))
-            self.n_input_faces = listed
 
 
 def _body_labels(shape, faces_map, namer: Namer | None) -> list[str]:
@@ -104,7 +81,7 @@ def _kernel_reason(exc: BaseException) -> str:
     return text.splitlines()[0][:200]
 
 
-def read_shape(shape, namer: Namer | None = None, sew: bool = False) -> ShapeContents:
+def read_shape(shape, namer: Namer | None = None, sew: bool = False) -> KernelShape:
     """Faces and shared edges of an OCP shape.
 
     Parameters
@@ -121,35 +98,36 @@ def read_shape(shape, namer: Namer | None = None, sew: bool = False) -> ShapeCon
 
     Returns
     -------
-    ShapeContents
-        Faces in the order the shape lists them; a face whose surface fails is
+    KernelShape
+        Trims still on the input faces (:func:`geometry.io.carry.on_nurbs` puts
+        them on the NURBS). Faces in the order the shape lists them; a face whose surface fails is
         left out, one whose trim fails is kept untrimmed, and either is named in
         ``warnings`` (by its 1-based place in the file and its name) with the cause.
     """
     from OCP.TopAbs import TopAbs_FACE, TopAbs_REVERSED
     from OCP.TopoDS import TopoDS
 
-    out = ShapeContents()
+    out = KernelShape()
     faces_map = indexed_map(shape, TopAbs_FACE)
     out.n_input_faces = faces_map.Extent()
     bodies = _body_labels(shape, faces_map, namer)
-    kept: dict[int, tuple[int, FaceMap]] = {}  # input face index -> (model index, its (u, v) map)
+    kept: dict[int, tuple[int, InputFace]] = {}  # input face index -> (model index, the face)
     total = faces_map.Extent()
-    inputs = []  # per input face: (face, name, label, its (u, v) map or the reason it is skipped)
+    inputs = []  # per input face: (face, name, label, the InputFace or the reason it is skipped)
     for i in range(total):
         face = TopoDS.Face(faces_map.FindKey(i + 1))
         name = namer(face) if namer else ""
         label = f"face {i + 1} of {total} in the file" + (f" ('{name}')" if name else "")
         try:
-            to_nurbs = FaceMap(face, *_face_surface(face))
+            side = InputFace(face, *_face_surface(face))
         except BattenError as exc:
             inputs.append((face, name, label, str(exc)))
             continue
         except Exception as exc:  # the kernel's own failures (Standard_Failure and kin)
             inputs.append((face, name, label, f"kernel error ({_kernel_reason(exc)})"))
             continue
-        kept[i] = (len(kept), to_nurbs)
-        inputs.append((face, name, label, to_nurbs))
+        kept[i] = (len(kept), side)
+        inputs.append((face, name, label, side))
     # Every edge is sampled once, for every face along it; trims and edge uses share that.
     params = EdgeParams()
     try:
@@ -160,21 +138,29 @@ def read_shape(shape, namer: Namer | None = None, sew: bool = False) -> ShapeCon
         topology_error = None
         for edge, uses in listing:
             params.prime(edge, sampling_uses(uses))
-    for i, (face, name, label, to_nurbs) in enumerate(inputs):
-        if isinstance(to_nurbs, str):
-            out.warnings.append(f"{label} skipped: {to_nurbs}")
-            out.skipped.append(SkippedFace(i + 1, name, to_nurbs))
+    for i, (face, name, label, side) in enumerate(inputs):
+        if isinstance(side, str):
+            out.warnings.append(f"{label} skipped: {side}")
+            out.skipped.append(SkippedFace(i + 1, name, side))
             continue
         try:
-            loops, notes = face_loops(face, to_nurbs, params)
+            loops, notes = face_loops(face, params)
             out.warnings.extend(f"{label}: {note}" for note in notes)
         except Exception as exc:  # a surface without a readable trim is still worth showing
-            loops = ()
+            loops = []
             out.warnings.append(f"{label}: trim not read ({_kernel_reason(exc)}); shown untrimmed")
-        if to_nurbs.worst > TRIM_WARN_MM:
-            out.warnings.append(f"{label}: its trim lies up to {to_nurbs.worst:.3g} mm off its surface")
         reversed_ = face.Orientation() == TopAbs_REVERSED
-        out.faces.append(Face(to_nurbs.surface, reversed=reversed_, loops=loops, name=name, body=bodies[i]))
+        out.faces.append(
+            KernelFace(
+                side.surface,
+                side.same_parameters,
+                reversed_,
+                name,
+                bodies[i],
+                label,
+                [(uv, side.points(uv)) for uv in loops],
+            )
+        )
     try:
         if topology_error is not None:
             raise topology_error

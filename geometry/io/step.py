@@ -10,7 +10,7 @@ from __future__ import annotations
 import re
 
 from .kernel_read import read_with_kernel
-from .occt_model import ShapeContents
+from .kernel_shape import KernelShape
 
 # Face entities of ISO 10303-42 as they appear in a part 21 file.
 _FACE_ENTITY = re.compile(rb"=\s*(?:ADVANCED_FACE|FACE_SURFACE)\s*\(", re.IGNORECASE)
@@ -33,7 +33,7 @@ def _entity_name(entity) -> str:
     return "" if text in ("NONE", "$") else text
 
 
-def read_step(path: str) -> tuple[ShapeContents, str]:
+def read_step(path: str) -> tuple[KernelShape, str]:
     """Faces, edges and the declared length unit of a STEP file.
 
     Parameters
@@ -42,7 +42,7 @@ def read_step(path: str) -> tuple[ShapeContents, str]:
 
     Returns
     -------
-    contents : ShapeContents
+    contents : KernelShape
     source_units : str
         The file's length unit (``"mm"``, ``"in"``, ...; several joined by commas).
 
