@@ -16,6 +16,7 @@ import sys
 import warnings
 
 from geometry import BattenError, __version__
+from geometry.kernel.isolation import start_helper
 
 # name -> (module, one-line help). Modules load only when their command runs.
 COMMANDS: dict[str, tuple[str, str]] = {
@@ -116,9 +117,7 @@ def _start_reader_early(argv: list[str]) -> None:
         return
     files = [a for a in argv[1:] if a.lower().endswith(KERNEL_SUFFIXES)]
     if len(files) == 1 and os.path.isfile(files[0]):
-        from geometry.io import start_reader
-
-        start_reader()
+        start_helper()
 
 
 def _main(argv: list[str]) -> int:

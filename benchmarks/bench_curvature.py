@@ -25,7 +25,7 @@ from geomdl import NURBS
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
-import geometry  # noqa: E402
+import geometry.nurbs  # noqa: E402
 
 GRIDS = (100, 500, 1000, 2000)
 GEOMDL_GRID = 30
@@ -47,7 +47,7 @@ def bicubic_rational(n: int = 20):
     geo.weights = weights.ravel().tolist()
     geo.knotvector_u = knots
     geo.knotvector_v = knots
-    return geo, geometry.from_geomdl(geo)
+    return geo, geometry.nurbs.from_geomdl(geo)
 
 
 def geomdl_per_point(geo, n: int) -> float:
@@ -73,11 +73,11 @@ def ours(surface, n: int) -> tuple[float, int, int]:
     best = np.inf
     for _ in range(REPEATS):
         start = time.perf_counter()
-        field = geometry.curvature_on_grid(surface, params, params)
+        field = geometry.nurbs.curvature_on_grid(surface, params, params)
         best = min(best, time.perf_counter() - start)
         del field
     tracemalloc.start()
-    field = geometry.curvature_on_grid(surface, params, params)
+    field = geometry.nurbs.curvature_on_grid(surface, params, params)
     _, peak = tracemalloc.get_traced_memory()
     tracemalloc.stop()
     out_bytes = sum(
@@ -90,10 +90,10 @@ def ours(surface, n: int) -> tuple[float, int, int]:
 COLD_SCRIPT = """
 import time, numpy as np
 t0 = time.perf_counter()
-import geometry
+import geometry.nurbs
 from geometry.nurbs.primitives import torus
 t1 = time.perf_counter()
-geometry.curvature_on_grid(torus(50.0, 10.0), np.linspace(0, 1, 10), np.linspace(0, 1, 10))
+geometry.nurbs.curvature_on_grid(torus(50.0, 10.0), np.linspace(0, 1, 10), np.linspace(0, 1, 10))
 t2 = time.perf_counter()
 print(t1 - t0, t2 - t1)
 """

@@ -20,7 +20,7 @@ sys.path.insert(0, str(Path(__file__).resolve().parent))
 
 from bench_curvature import bicubic_rational  # noqa: E402
 
-import geometry  # noqa: E402
+import geometry.nurbs  # noqa: E402
 from geometry.tooling import draft_on_grid  # noqa: E402
 
 GRIDS = (500, 1000)
@@ -41,7 +41,7 @@ def main() -> None:
     print(f"{'grid':>6} {'curvature s':>12} {'draft s':>9} {'curvature / draft':>18}")
     for n in GRIDS:
         u = v = np.linspace(0.0, 1.0, n)
-        t_curv = best(lambda u=u, v=v: geometry.curvature_on_grid(surface, u, v))
+        t_curv = best(lambda u=u, v=v: geometry.nurbs.curvature_on_grid(surface, u, v))
         t_draft = best(lambda u=u, v=v: draft_on_grid(surface, u, v, (0.2, 0.1, 1.0)))
         print(f"{n:>5}^2 {t_curv:>12.3f} {t_draft:>9.3f} {t_curv / t_draft:>18.2f}")
 

@@ -50,9 +50,9 @@ def child(path: str) -> None:
     from PySide6.QtCore import QTimer
     from PySide6.QtWidgets import QApplication
 
-    from geometry.io import start_reader
+    from geometry.kernel.isolation import start_helper
 
-    start_reader()  # as 'batten FILE' does before its own imports
+    start_helper()  # as 'batten FILE' does before its own imports
     from app.commands.open import read_first
     from app.qt.window import MainWindow
     from app.state import Measure, Mode

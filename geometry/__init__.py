@@ -1,21 +1,12 @@
 """Batten's numerical core: exact NURBS evaluation and surface analysis.
 
-numpy and scipy only; nothing here imports Qt, VTK, pyvista or the app.
+numpy, scipy and numba only; nothing here imports Qt, VTK, pyvista or the app.
+This package itself loads nothing heavy, so the CAD kernel's helper process
+(:mod:`geometry.kernel`) starts without the compiled kernels: import the
+surface type and curvature from :mod:`geometry.nurbs`.
 """
 
 from .errors import BattenError, ReadError, SurfaceError
-from .nurbs.differential import CurvatureField, curvature_at, curvature_on_grid
-from .nurbs.interop import from_geomdl
-from .nurbs.surface import NurbsSurface
 
-__all__ = [
-    "BattenError",
-    "CurvatureField",
-    "NurbsSurface",
-    "ReadError",
-    "SurfaceError",
-    "curvature_at",
-    "curvature_on_grid",
-    "from_geomdl",
-]
+__all__ = ["BattenError", "ReadError", "SurfaceError"]
 __version__ = "0.1.0"

@@ -64,7 +64,7 @@ class WrittenSample:
 
 def _quiet():
     try:
-        from geometry.io.occt_quiet import quiet_kernel
+        from geometry.kernel.occt_quiet import quiet_kernel
     except ImportError:  # the reader package may be mid-change; output is noise only
         return contextlib.nullcontext()
     return quiet_kernel()

@@ -62,7 +62,7 @@ def _basis(knots, i, p, u, k, side, last) -> float:
 
 
 def surface_derivatives(surface, u: float, v: float, order: int, side: str = "right") -> np.ndarray:
-    """S_kl (k + l <= order) of a ``geometry.NurbsSurface`` at one (u, v), shape (order + 1, order + 1, 3)."""
+    """S_kl (k + l <= order) of a ``geometry.nurbs.NurbsSurface`` at one (u, v), shape (order + 1, order + 1, 3)."""
     nu, nv = surface.shape
     p, q = surface.degree_u, surface.degree_v
     hom = surface.homogeneous  # (nu, nv, 4): w * P and w

@@ -3,7 +3,7 @@
 import numpy as np
 from geomdl import NURBS
 
-import geometry
+import geometry.nurbs
 
 
 def random_geomdl_nurbs(seed: int, degrees=(3, 2), counts=(6, 5), rational=True):
@@ -28,4 +28,4 @@ def random_geomdl_nurbs(seed: int, degrees=(3, 2), counts=(6, 5), rational=True)
 
     surf.knotvector_u = knots(p, nu)
     surf.knotvector_v = knots(q, nv)
-    return surf, geometry.from_geomdl(surf)
+    return surf, geometry.nurbs.from_geomdl(surf)

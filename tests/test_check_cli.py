@@ -118,7 +118,7 @@ def test_a_face_the_core_rejects_makes_that_file_unreadable_not_the_run(tmp_path
 
 
 def test_a_kernel_crash_inside_a_pool_worker_marks_only_that_file_unreadable(tmp_path, monkeypatch):
-    # Pool workers read through their own kernel helper (geometry.io.isolation): the crash stays in the
+    # Pool workers read through their own kernel helper (geometry.kernel.isolation): the crash stays in the
     # helper, the worker reports the file and goes on with the next one.
     from test_io_isolation import crashing_copy
     from test_io_support import plate_with_hole, write_step

@@ -11,7 +11,7 @@ import pytest
 from numpy.testing import assert_allclose
 from scipy.interpolate import BSpline
 
-import geometry
+import geometry.nurbs
 from geometry.nurbs.compiled_eval import SurfacePack, basis_rows, derivatives
 from geometry.nurbs.compiled_inversion import invert, invert_with_derivatives
 from tests.surface_factories import random_geomdl_nurbs
@@ -87,9 +87,9 @@ def test_curvature_matches_slow_reference(seed, reversed_):
     geo, surf = random_geomdl_nurbs(seed + 20, degrees=(3, 2 + seed % 2), counts=(6, 7))
     u = np.linspace(0.0, 1.0, 7)
     v = np.linspace(0.0, 1.0, 6)
-    grid = geometry.curvature_on_grid(surf, u, v, reversed=reversed_, workers=2)
+    grid = geometry.nurbs.curvature_on_grid(surf, u, v, reversed=reversed_, workers=2)
     uu, vv = np.meshgrid(u, v, indexing="ij")
-    scattered = geometry.curvature_at(surf, uu.ravel(), vv.ravel(), reversed=reversed_)
+    scattered = geometry.nurbs.curvature_at(surf, uu.ravel(), vv.ravel(), reversed=reversed_)
     ref = _reference_curvature(geo, uu.ravel(), vv.ravel(), -1.0 if reversed_ else 1.0)
     for field, shape in ((grid, (-1,)), (scattered, (-1,))):
         k1, k2 = field.k1.reshape(shape), field.k2.reshape(shape)
@@ -107,8 +107,8 @@ def test_curvature_matches_slow_reference(seed, reversed_):
 def test_threads_do_not_change_the_grid():
     _, surf = random_geomdl_nurbs(3, degrees=(3, 3), counts=(8, 8))
     u, v = np.linspace(0, 1, 101), np.linspace(0, 1, 77)
-    one = geometry.curvature_on_grid(surf, u, v, workers=1)
-    two = geometry.curvature_on_grid(surf, u, v, workers=2)
+    one = geometry.nurbs.curvature_on_grid(surf, u, v, workers=1)
+    two = geometry.nurbs.curvature_on_grid(surf, u, v, workers=2)
     for name in ("points", "normals", "k1", "k2", "dir1", "dir2", "valid"):
         assert np.array_equal(getattr(one, name), getattr(two, name))
 
@@ -120,7 +120,7 @@ def test_inversion_finds_the_foot_of_a_normal_offset(seed):
     _, surf = random_geomdl_nurbs(seed + 40, degrees=(3, 3), counts=(6, 6))
     rng = np.random.default_rng(seed)
     u, v = rng.uniform(0.05, 0.95, 200), rng.uniform(0.05, 0.95, 200)
-    field = geometry.curvature_at(surf, u, v)
+    field = geometry.nurbs.curvature_at(surf, u, v)
     radius = 1.0 / np.maximum(field.max_abs, 1e-9)
     offset = 0.2 * np.minimum(radius, 5.0) * rng.choice([-1.0, 1.0], 200)
     targets = field.points + offset[:, None] * field.normals
@@ -140,7 +140,7 @@ def test_inversion_hands_back_the_derivatives_at_its_foot(seed):
     _, surf = random_geomdl_nurbs(seed + 60, degrees=(3, 2), counts=(7, 5))
     rng = np.random.default_rng(seed)
     u, v = rng.uniform(0.05, 0.95, 150), rng.uniform(0.05, 0.95, 150)
-    field = geometry.curvature_at(surf, u, v)
+    field = geometry.nurbs.curvature_at(surf, u, v)
     offset = 0.1 * np.minimum(1.0 / np.maximum(field.max_abs, 1e-9), 5.0)
     targets = field.points + offset[:, None] * field.normals
     orders = rng.integers(0, 4, 150)

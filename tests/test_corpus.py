@@ -71,7 +71,7 @@ def _ocp_faces(name):
     from OCP.TopAbs import TopAbs_FACE
     from OCP.TopoDS import TopoDS
 
-    from geometry.io.occt_edges import indexed_map
+    from geometry.kernel.occt_edges import indexed_map
 
     reader = STEPControl_Reader() if name.lower().endswith((".stp", ".step")) else IGESControl_Reader()
     reader.ReadFile(str(CORPUS / name))
@@ -100,7 +100,7 @@ def _shared_edge_count(name) -> int:
     from OCP.TopExp import TopExp
     from OCP.TopoDS import TopoDS
 
-    from geometry.io.occt_edges import SEW_TOLERANCE_MM
+    from geometry.kernel.occt_edges import SEW_TOLERANCE_MM
 
     def count(shape):
         found = EdgeFaces()

@@ -13,7 +13,7 @@ import numpy as np
 import pytest
 from geomdl import operations
 
-import geometry
+import geometry.nurbs
 from geometry.compare import model_deviation, signed_distances
 from geometry.model import Face, Model
 from geometry.nurbs.primitives import bilinear, cylinder
@@ -60,7 +60,7 @@ def test_reversed_face_flips_the_sign():
 def test_knot_insertion_by_geomdl_deviates_by_nothing(seed):
     g, before = random_geomdl_nurbs(seed)
     operations.insert_knot(g, [0.37, 0.61], [1, 2])
-    after = geometry.from_geomdl(g)
+    after = geometry.nurbs.from_geomdl(g)
     assert after.shape != before.shape
     dev, _ = model_deviation(Model((Face(before),)), Model((Face(after),)), BUDGET)
     assert dev.max_mm < EXACT

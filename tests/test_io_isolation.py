@@ -20,7 +20,8 @@ import pytest
 from test_io_support import plate_with_hole, write_step
 
 from geometry.errors import ReadError
-from geometry.io import isolation, read_model
+from geometry.io import read_model
+from geometry.kernel import isolation
 
 SAMPLES = Path(__file__).resolve().parents[1] / "sample_surfaces"
 # Generous bounds so a slow shared machine never fails the test, while a hang still ends it.

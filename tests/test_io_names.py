@@ -41,7 +41,7 @@ def _named_assembly(path):
     from OCP.XCAFDoc import XCAFDoc_DocumentTool
     from test_io_support import box
 
-    from geometry.io.occt_quiet import quiet_kernel
+    from geometry.kernel.occt_quiet import quiet_kernel
 
     doc = TDocStd_Document(TCollection_ExtendedString("XmlOcaf"))
     shapes = XCAFDoc_DocumentTool.ShapeTool_s(doc.Main())

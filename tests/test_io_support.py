@@ -10,7 +10,7 @@ import os
 
 import numpy as np
 
-from geometry.io.occt_quiet import quiet_kernel
+from geometry.kernel.occt_quiet import quiet_kernel
 
 
 def write_step(shape, path, unit: str = "MM") -> str:

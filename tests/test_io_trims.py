@@ -13,8 +13,8 @@ import numpy as np
 from numpy.testing import assert_allclose
 
 from geometry.io.carry import on_nurbs
-from geometry.io.occt_edges import polyline_offset
-from geometry.io.occt_model import read_shape
+from geometry.kernel.occt_edges import polyline_offset
+from geometry.kernel.occt_model import read_shape
 
 
 def _face_with_wires(surface, wires):

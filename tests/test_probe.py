@@ -17,7 +17,7 @@ from test_io_support import plate_with_hole, sphere, write_step
 from app.cli import EXIT_BAD_INPUT, main
 from geometry.errors import BattenError
 from geometry.io import read_model
-from geometry.io.occt_curves import EDGE_CHORD_MM
+from geometry.kernel.occt_curves import EDGE_CHORD_MM
 from geometry.model import Face, Model, closest_parameters, probe_point, probe_uv
 from geometry.nurbs import NurbsSurface
 

@@ -12,7 +12,7 @@ import pytest
 from numpy.testing import assert_allclose
 from shapes import quarter_cylinder
 
-from geometry import NurbsSurface, curvature_on_grid
+from geometry.nurbs import NurbsSurface, curvature_on_grid
 from geometry.reflection import (
     LightPlane,
     eye_rays,

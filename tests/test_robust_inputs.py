@@ -16,14 +16,15 @@ import numpy as np
 import pytest
 from test_io_support import bilinear_record
 
-import geometry
+import geometry.nurbs
 from app.cli import main
 from app.profiles import ProfileError, read_profile
 from app.review.findings import face_findings, unevaluable_faces
 from app.review.runner import review_model
 from geometry.errors import BattenError, ReadError, SurfaceError
-from geometry.io import ReadBudget, isolation, read_model
+from geometry.io import ReadBudget, read_model
 from geometry.io.numbers import check_numbers
+from geometry.kernel import isolation
 from geometry.model import Face, Model
 from geometry.model.topology import points_in_loops
 
@@ -71,7 +72,7 @@ def test_a_read_over_its_time_budget_stops_and_the_next_read_works(tmp_path, mon
     # The large sample (336 faces) takes the kernel about 2.7 s of processor time to read (measured);
     # six copies of it in one file take over 15 s, far past the one-second budget even with the
     # limit's whole-second granularity (RLIMIT_CPU), however fast or busy the machine.
-    monkeypatch.setattr("geometry.io.budget.WALL_CLOCK_FACTOR", 1000.0)
+    monkeypatch.setattr("geometry.kernel.budget.WALL_CLOCK_FACTOR", 1000.0)
     slow = _copies_of(SAMPLES / "appliance_range.stp", 6, tmp_path)
     with pytest.raises(ReadError) as info:
         read_model(slow, ReadBudget(timeout_s=1.0))
@@ -99,7 +100,7 @@ def test_a_kernel_that_hangs_idle_meets_the_wall_clock(monkeypatch):
     import signal
 
     monkeypatch.delenv("BATTEN_READ_IN_PROCESS", raising=False)
-    monkeypatch.setattr("geometry.io.budget.WALL_CLOCK_FACTOR", 1.5)
+    monkeypatch.setattr("geometry.kernel.budget.WALL_CLOCK_FACTOR", 1.5)
     read_model(SAMPLES / "dial_plate.stp")
     helper = isolation._WORKER
     __import__("os").kill(helper.pid, signal.SIGSTOP)  # never answers, never uses processor time
@@ -189,22 +190,22 @@ def test_a_face_with_no_valid_sample_fails_the_gate(tmp_path, points, reason):
 def test_absurd_knots_and_weights_are_a_surface_error(knots, weights, words):
     w = None if weights is None else np.reshape(weights, (2, 2))
     with pytest.raises(SurfaceError, match=words):
-        geometry.NurbsSurface(1, 1, knots, [0, 0, 1, 1], np.reshape(GOOD, (2, 2, 3)), w)
+        geometry.nurbs.NurbsSurface(1, 1, knots, [0, 0, 1, 1], np.reshape(GOOD, (2, 2, 3)), w)
 
 
 @pytest.mark.parametrize(
     "build",
     [
-        lambda s: geometry.NurbsSurface(1, 1, [0, 0, 1, 1], [0, 0, 1, 1], "abc"),
-        lambda s: geometry.NurbsSurface(1, 1, "abcd", [0, 0, 1, 1], np.reshape(GOOD, (2, 2, 3))),
-        lambda s: geometry.NurbsSurface(1, 1, [0, 0, 1, 1], [0, 0, 1, 1], np.reshape(GOOD, (2, 2, 3)), "ab"),
-        lambda s: geometry.NurbsSurface("1", 1, [0, 0, 1, 1], [0, 0, 1, 1], np.reshape(GOOD, (2, 2, 3))),
-        lambda s: geometry.curvature_on_grid(s, "abc", [0.5]),
-        lambda s: geometry.curvature_at(s, ["a"], [0.5]),
+        lambda s: geometry.nurbs.NurbsSurface(1, 1, [0, 0, 1, 1], [0, 0, 1, 1], "abc"),
+        lambda s: geometry.nurbs.NurbsSurface(1, 1, "abcd", [0, 0, 1, 1], np.reshape(GOOD, (2, 2, 3))),
+        lambda s: geometry.nurbs.NurbsSurface(1, 1, [0, 0, 1, 1], [0, 0, 1, 1], np.reshape(GOOD, (2, 2, 3)), "ab"),
+        lambda s: geometry.nurbs.NurbsSurface("1", 1, [0, 0, 1, 1], [0, 0, 1, 1], np.reshape(GOOD, (2, 2, 3))),
+        lambda s: geometry.nurbs.curvature_on_grid(s, "abc", [0.5]),
+        lambda s: geometry.nurbs.curvature_at(s, ["a"], [0.5]),
     ],
 )
 def test_bad_arguments_to_the_api_raise_surface_error(build):
-    surface = geometry.NurbsSurface(1, 1, [0, 0, 1, 1], [0, 0, 1, 1], np.reshape(GOOD, (2, 2, 3)))
+    surface = geometry.nurbs.NurbsSurface(1, 1, [0, 0, 1, 1], [0, 0, 1, 1], np.reshape(GOOD, (2, 2, 3)))
     with pytest.raises(SurfaceError):
         build(surface)
 
@@ -232,7 +233,7 @@ def test_trim_classification_memory_does_not_grow_with_points_times_edges():
 
 
 def test_face_inside_uses_the_same_blocks():
-    surface = geometry.NurbsSurface(1, 1, [0, 0, 1, 1], [0, 0, 1, 1], np.reshape(GOOD, (2, 2, 3)))
+    surface = geometry.nurbs.NurbsSurface(1, 1, [0, 0, 1, 1], [0, 0, 1, 1], np.reshape(GOOD, (2, 2, 3)))
     face = Face(surface, loops=(np.array([[0.25, 0.25], [0.75, 0.25], [0.75, 0.75], [0.25, 0.75]]),))
     u, v = np.meshgrid(np.linspace(0, 1, 101), np.linspace(0, 1, 101), indexing="ij")
     expected = (u > 0.25) & (u < 0.75) & (v > 0.25) & (v < 0.75)
@@ -292,7 +293,7 @@ def test_boundaries_crowding_into_one_place_are_a_clear_error():
     from geometry.seams import adjacency
     from geometry.seams.boundary import BoundaryCurve
 
-    model = Model((Face(geometry.NurbsSurface(1, 1, [0, 0, 1, 1], [0, 0, 1, 1], np.reshape(GOOD, (2, 2, 3)))),))
+    model = Model((Face(geometry.nurbs.NurbsSurface(1, 1, [0, 0, 1, 1], [0, 0, 1, 1], np.reshape(GOOD, (2, 2, 3)))),))
     spot = np.array([[0.5, 0.5], [0.5 + 1e-6, 0.5]])
     curves = [BoundaryCurve(0, spot) for _ in range(3000)]
     with pytest.raises(BattenError, match="crowd into one place"):

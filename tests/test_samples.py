@@ -1,7 +1,7 @@
 """The bundled sample products hold the facts their manifest promises.
 
 Two independent evaluations check each designed fact: Batten's own core on the
-builder's surfaces (geometry.curvature_at) and the OCP kernel on the surfaces
+builder's surfaces (geometry.nurbs.curvature_at) and the OCP kernel on the surfaces
 read back from the written STEP files (GeomLProp_SLProps, BRepExtrema).
 Normal curvature in a direction d follows from the principal curvatures by
 Euler's theorem, k(d) = k1 cos^2 + k2 sin^2 (do Carmo 1976, sec. 3-2).
@@ -15,7 +15,7 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from geometry import curvature_at
+from geometry.nurbs import curvature_at
 from sample_surfaces import products
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -259,8 +259,8 @@ def test_read_model_opens_every_sample():
     io = pytest.importorskip("geometry.io")
     if not hasattr(io, "read_model"):
         pytest.skip("geometry.io.read_model not there yet")
-    pytest.importorskip("geometry.io.step")
-    pytest.importorskip("geometry.io.iges")
+    pytest.importorskip("geometry.kernel.step")
+    pytest.importorskip("geometry.kernel.iges")
     for entry in MANIFEST["samples"]:
         for kind in ("step", "iges"):
             model = io.read_model(SAMPLES_DIR / entry["files"][kind])

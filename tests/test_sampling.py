@@ -13,7 +13,7 @@ import pytest
 from test_io_support import plate_with_hole, write_step
 
 from geometry.io import read_model
-from geometry.io.occt_curves import EDGE_CHORD_MM
+from geometry.kernel.occt_curves import EDGE_CHORD_MM
 from geometry.model import Face, Model
 from geometry.model.sampling import DEFAULT_BUDGET, face_grid, model_grids, trimmed_mesh
 from geometry.nurbs import NurbsSurface

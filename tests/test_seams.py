@@ -11,7 +11,7 @@ import pytest
 from geomdl import NURBS, BSpline, operations
 from numpy.testing import assert_allclose
 
-import geometry
+import geometry.nurbs
 from geometry.model import Face, Model
 from geometry.seams import SeamTolerance
 from geometry.seams.check import check_seams, refine_maxima
@@ -88,7 +88,7 @@ def _spline(degrees, knots_u, knots_v, seed, rational=False):
 
 def _split_model(surf, at):
     """The two halves of a geomdl surface split at u = at (geomdl's knot insertion)."""
-    return Model(tuple(Face(geometry.from_geomdl(h)) for h in operations.split_surface_u(surf, at)))
+    return Model(tuple(Face(geometry.nurbs.from_geomdl(h)) for h in operations.split_surface_u(surf, at)))
 
 
 def _split_halves(rational: bool):
@@ -200,7 +200,7 @@ def test_four_patches_of_one_surface_meet_in_four_g2_seams():
     # geomdl splits in u, then each half in v: a 2 x 2 grid whose diagonal patches touch at a point only
     surf = _spline((3, 3), [0, 0, 0, 0, 0.3, 0.5, 0.7, 1, 1, 1, 1], [0, 0, 0, 0, 0.5, 1, 1, 1, 1], 7)
     quarters = [q for half in operations.split_surface_u(surf, 0.5) for q in operations.split_surface_v(half, 0.5)]
-    report = check_seams(Model(tuple(Face(geometry.from_geomdl(q)) for q in quarters)), TOL)
+    report = check_seams(Model(tuple(Face(geometry.nurbs.from_geomdl(q)) for q in quarters)), TOL)
     assert sorted(s.faces for s in report.seams) == [(0, 1), (0, 2), (1, 3), (2, 3)]
     assert all(s.continuity == "G2" and s.verdict == "pass" for s in report.seams)
     assert len(report.free_edges) == 8

@@ -12,8 +12,8 @@ import numpy as np
 import pytest
 from numpy.testing import assert_allclose
 
-from geometry import NurbsSurface
 from geometry.model import Edge, EdgeUse, Face, Model
+from geometry.nurbs import NurbsSurface
 from geometry.seams import check_seams
 from geometry.seams.tolerance import CREASE_BAND_DEG, SeamTolerance, classify
 from tests.test_seams_shapes import dihedral, plane

@@ -8,8 +8,8 @@ eq. 7.15 and Ex. 7.1; cited from memory).
 import numpy as np
 from numpy.testing import assert_allclose
 
-from geometry import NurbsSurface
 from geometry.model import Face, Model
+from geometry.nurbs import NurbsSurface
 
 
 def plane(origin, du, dv) -> NurbsSurface:

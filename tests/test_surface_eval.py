@@ -4,7 +4,8 @@ import numpy as np
 import pytest
 from numpy.testing import assert_allclose
 
-from geometry import NurbsSurface, SurfaceError
+from geometry import SurfaceError
+from geometry.nurbs import NurbsSurface
 from tests.surface_factories import random_geomdl_nurbs
 
 ATOL = 1e-9

@@ -23,7 +23,7 @@ from app.review import ReviewSettings, plane_spec, review_model
 from app.state import Mode, Session
 from app.state.settings import StripeSettings
 from app.state.stripes import Camera
-from geometry import curvature_at
+from geometry.nurbs import curvature_at
 from geometry.sections import SectionEngine
 
 SAMPLES = Path(__file__).resolve().parents[1] / "sample_surfaces"

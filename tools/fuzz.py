@@ -45,7 +45,7 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parent.parent
 SAMPLES = ROOT / "sample_surfaces"
 # Harness limits: far above what a sound sample needs, far below a runaway. The reader gets a
-# processor-time budget whose wall-clock backstop (geometry.io.budget.WALL_CLOCK_FACTOR times it)
+# processor-time budget whose wall-clock backstop (geometry.kernel.budget.WALL_CLOCK_FACTOR times it)
 # ends well inside the harness's own limit, so a harness "hang" is one the budget failed to stop.
 READ_BUDGET_S = 20.0
 TIME_LIMIT_S = 600.0

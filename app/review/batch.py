@@ -143,7 +143,7 @@ CRASHED = "the process checking this file stopped abruptly (damaged content, or 
 def _pool_run(work: list[tuple[int, str]], task: Callable[[str], Outcome], workers: int) -> Iterable:
     """Yield ``(index, outcome)`` as files finish; files whose worker died are left out."""
     # spawn: a clean interpreter per worker, no inherited threads or GUI state. Each worker reads through its
-    # own kernel helper process (geometry.io.isolation), so a kernel crash marks only that file unreadable;
+    # own kernel helper process (geometry.kernel.isolation), so a kernel crash marks only that file unreadable;
     # the helper stops when its worker exits.
     context = multiprocessing.get_context("spawn")
     pool = ProcessPoolExecutor(workers, mp_context=context, initializer=_ignore_interrupts)

@@ -1,6 +1,6 @@
 """Per-face description and curvature ranges for a check.
 
-Curvature comes from :func:`geometry.curvature_on_grid` on each face's
+Curvature comes from :func:`geometry.nurbs.curvature_on_grid` on each face's
 trim-aware sample grid; only samples inside the trim with a regular tangent
 plane count towards the ranges.
 """
@@ -11,9 +11,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from geometry import curvature_on_grid
 from geometry.model import Face, FaceGrid, Model, model_grids
-from geometry.nurbs import CurvatureField
+from geometry.nurbs import CurvatureField, curvature_on_grid
 
 # Samples over the whole model for the curvature ranges (the sampler spreads them by size and bending).
 SAMPLE_BUDGET = 300_000

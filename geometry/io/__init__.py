@@ -15,8 +15,9 @@ import os
 import numpy as np
 
 from ..errors import BattenError, ReadError
+from ..kernel.budget import ReadBudget
+from ..kernel.isolation import read_isolated
 from ..model.topology import Model
-from .budget import ReadBudget
 from .carry import ShapeContents, on_nurbs
 from .files import read_regular
 from .numbers import check_numbers
@@ -94,7 +95,6 @@ def _contents(path: str, fmt: str, data: bytes, budget: ReadBudget | None) -> tu
 
         return read_geomdl_json(path, data), "mm"
     from ..nurbs.compiled_warm import warm_up_in_background
-    from .isolation import read_isolated
 
     warm_up_in_background()  # load the compiled kernels while the helper process reads
     check_numbers(path, fmt, data)
@@ -171,11 +171,4 @@ def read_model(path, budget: ReadBudget | None = None) -> Model:
     )
 
 
-def start_reader() -> None:
-    """Start the CAD kernel's helper process ahead of a STEP or IGES read (see :mod:`.isolation`)."""
-    from .isolation import start_helper
-
-    start_helper()
-
-
-__all__ = ["ReadBudget", "ReadError", "detect_format", "read_model", "start_reader"]
+__all__ = ["ReadBudget", "ReadError", "detect_format", "read_model"]

@@ -12,15 +12,16 @@ eq. 6.6 (Newton), all points of all faces in one compiled call
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 
+from ..errors import SurfaceError
+from ..kernel.shape import KernelShape
 from ..model.topology import Edge, EdgeUse, Face, SkippedFace
 from ..nurbs.compiled_eval import SurfacePack, derivatives
 from ..nurbs.compiled_inversion import invert
 from ..nurbs.surface import NurbsSurface
-from .kernel_shape import KernelShape
 
 # A trim point further than this from its surface earns the face a warning (mm).
 TRIM_WARN_MM = 1e-3
@@ -77,9 +78,30 @@ def _trim_loops(uv_loops: list[np.ndarray], surface: NurbsSurface) -> tuple[tupl
     return (() if _is_natural(kept, surface) else tuple(kept)), notes
 
 
-def _rebuilt(s: NurbsSurface) -> NurbsSurface:
-    # An unpickled surface skipped its constructor: rebuilt, its arrays are frozen again.
-    return NurbsSurface(s.degree_u, s.degree_v, s.knots_u, s.knots_v, s.poles, s.weights)
+def _valid_faces(shape: KernelShape) -> tuple[KernelShape, list[NurbsSurface]]:
+    """The faces whose arrays make a valid NURBS, with their surfaces; the others skipped with the reason.
+
+    Edge uses are renumbered to the faces kept; an edge left without a use is dropped.
+    """
+    surfaces, kept, new_index = [], [], {}
+    warnings, skipped = list(shape.warnings), [SkippedFace(*s) for s in shape.skipped]
+    for i, face in enumerate(shape.faces):
+        try:
+            surfaces.append(NurbsSurface(*face.surface))
+        except SurfaceError as exc:
+            warnings.append(f"{face.label} skipped: {exc}")
+            skipped.append(SkippedFace(face.place, face.name, str(exc)))
+            continue
+        new_index[i] = len(kept)
+        kept.append(face)
+    edges = shape.edges
+    if len(kept) < len(shape.faces):
+        edges = []
+        for edge in shape.edges:
+            uses = tuple(replace(u, face=new_index[u.face]) for u in edge.uses if u.face in new_index)
+            if uses:
+                edges.append(replace(edge, uses=uses))
+    return KernelShape(kept, edges, warnings, shape.n_input_faces, skipped), surfaces
 
 
 def on_nurbs(shape: KernelShape) -> ShapeContents:
@@ -88,13 +110,14 @@ def on_nurbs(shape: KernelShape) -> ShapeContents:
     Parameters
     ----------
     shape : KernelShape
-        As the reader gave it (:func:`geometry.io.occt_model.read_shape`).
+        As the reader gave it (:func:`geometry.kernel.occt_model.read_shape`).
 
     Returns
     -------
     ShapeContents
-        One :class:`Face` per kernel face, in order; a face whose trim lies more
-        than :data:`TRIM_WARN_MM` off its NURBS is named in ``warnings``.
+        One :class:`Face` per kernel face, in order, except those whose arrays
+        are no valid NURBS (skipped, with the reason); a face whose trim lies
+        more than :data:`TRIM_WARN_MM` off its NURBS is named in ``warnings``.
 
     Notes
     -----
@@ -103,7 +126,7 @@ def on_nurbs(shape: KernelShape) -> ShapeContents:
     surfaces, started from its input (u, v); one more call evaluates the NURBS
     at the answers to measure how far each trim loop lies off its surface.
     """
-    surfaces = [_rebuilt(f.surface) for f in shape.faces]
+    shape, surfaces = _valid_faces(shape)
     # Every (u, v) polyline in one list: the faces' loops, then the edges' uses.
     owners, uvs, points = [], [], []
     for i, face in enumerate(shape.faces):
@@ -132,7 +155,7 @@ def on_nurbs(shape: KernelShape) -> ShapeContents:
         answers = np.split(np.stack([u, v], axis=1), np.cumsum([len(uvs[k]) for k in moving])[:-1])
         for k, uv in zip(moving, answers, strict=True):
             carried[k] = uv
-    out = ShapeContents(warnings=list(shape.warnings), n_input_faces=shape.n_input_faces, skipped=list(shape.skipped))
+    out = ShapeContents(warnings=shape.warnings, n_input_faces=shape.n_input_faces, skipped=shape.skipped)
     at = 0
     for i, (face, surface) in enumerate(zip(shape.faces, surfaces, strict=True)):
         loops, notes = _trim_loops(carried[at : at + len(face.loops)], surface)

@@ -17,10 +17,10 @@ import json
 import numpy as np
 
 from ..errors import BattenError, ReadError
+from ..kernel.occt_model import MAX_EXTENT_MM
 from ..model.topology import Face, SkippedFace
 from ..nurbs.surface import NurbsSurface
 from .carry import ShapeContents
-from .occt_model import MAX_EXTENT_MM
 
 
 def _surface(entry: dict) -> tuple[NurbsSurface, bool, str]:

@@ -3,7 +3,7 @@
 A seam of the file's topology is measured where the kernel says the faces meet:
 on the 3-D edge. The edge comes as a polyline (sampled by arc length with its
 chords within a small fraction of the position tolerance, see
-:mod:`geometry.io.occt_curves`) with each face's p-curve at the same
+:mod:`geometry.kernel.occt_curves`) with each face's p-curve at the same
 parameters. At an arc-length fraction ``tau`` of a seam:
 
 1. ``X`` is the edge point there, and the p-curves give starting parameters on

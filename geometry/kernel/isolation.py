@@ -3,7 +3,7 @@
 The kernel is robust on well-formed files but can crash (segmentation fault)
 or hang on some damaged ones, which no exception handler in Python can catch.
 Readers therefore run in one long-lived helper process
-(:mod:`geometry.io.kernel_worker`, started on first use, reused for later files,
+(:mod:`geometry.kernel.worker`, started on first use, reused for later files,
 restarted after a crash); a crash or a time-out becomes a
 :class:`geometry.errors.ReadError` and nothing already loaded is lost.
 
@@ -45,8 +45,8 @@ import threading
 
 from ..errors import BattenError, ReadError
 from .budget import ReadBudget
-from .kernel_shape import KernelShape
-from .kernel_worker import HEADER_BYTES
+from .shape import KernelShape
+from .worker import HEADER_BYTES
 
 # Seconds an idle helper gets to leave after its input closes, before it is killed.
 STOP_TIMEOUT_S = 10.0
@@ -104,7 +104,7 @@ def _worker() -> subprocess.Popen:
         root = os.path.dirname(os.path.dirname(os.path.dirname(os.path.abspath(__file__))))
         env = dict(os.environ, PYTHONPATH=os.pathsep.join(filter(None, [root, os.environ.get("PYTHONPATH")])))
         _WORKER = subprocess.Popen(
-            [sys.executable, "-m", "geometry.io.kernel_worker"],
+            [sys.executable, "-m", "geometry.kernel.worker"],
             stdin=subprocess.PIPE,
             stdout=subprocess.PIPE,
             stderr=subprocess.DEVNULL,  # the kernel's own chatter

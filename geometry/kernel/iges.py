@@ -5,13 +5,13 @@ Entities 128 (rational B-spline surface) and 144 (trimmed surface) with their
 kernel; lengths come back in millimetres. Names are the entities' labels
 (name property or directory-entry label) where the file has them. IGES files
 of loose trimmed surfaces (entity 144, the usual kind) carry no shared edges;
-those are found by sewing a copy (see :func:`geometry.io.occt_model.read_shape`).
+those are found by sewing a copy (see :func:`geometry.kernel.occt_model.read_shape`).
 """
 
 from __future__ import annotations
 
-from .kernel_read import read_with_kernel
-from .kernel_shape import KernelShape
+from .read import read_with_kernel
+from .shape import KernelShape
 
 # IGES global-section unit flag -> short unit name (IGES 5.3, sec. 2.2.4.3, parameter 14).
 _UNIT_FLAGS = {1: "in", 2: "mm", 4: "ft", 5: "mi", 6: "m", 7: "km", 8: "mil", 9: "um", 10: "cm", 11: "uin"}

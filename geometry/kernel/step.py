@@ -9,8 +9,8 @@ from __future__ import annotations
 
 import re
 
-from .kernel_read import read_with_kernel
-from .kernel_shape import KernelShape
+from .read import read_with_kernel
+from .shape import KernelShape
 
 # Face entities of ISO 10303-42 as they appear in a part 21 file.
 _FACE_ENTITY = re.compile(rb"=\s*(?:ADVANCED_FACE|FACE_SURFACE)\s*\(", re.IGNORECASE)

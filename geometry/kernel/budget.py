@@ -1,4 +1,4 @@
-"""The limits one read by the CAD kernel runs under (see :mod:`geometry.io.isolation`)."""
+"""The limits one read by the CAD kernel runs under (see :mod:`geometry.kernel.isolation`)."""
 
 from __future__ import annotations
 

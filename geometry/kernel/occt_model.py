@@ -15,12 +15,10 @@ from collections.abc import Callable
 import numpy as np
 
 from ..errors import BattenError
-from ..model.topology import SkippedFace
-from ..nurbs.surface import NurbsSurface
-from .kernel_shape import KernelFace, KernelShape
 from .occt_curves import EdgeParams, InputFace, face_loops
 from .occt_edges import edge_uses, indexed_map, sampling_uses, sewn_edges, shared_edges
 from .occt_surface import bspline_to_nurbs, face_bspline, surface_bspline
+from .shape import KernelFace, KernelShape, Skipped, SurfaceArrays
 
 # A face whose control net spans more than this is rejected as absurd (100 km).
 MAX_EXTENT_MM = 1e8
@@ -46,13 +44,13 @@ def _body_labels(shape, faces_map, namer: Namer | None) -> list[str]:
     return [lab or "free faces" for lab in labels]
 
 
-def _check_extent(surface: NurbsSurface) -> None:
+def _check_extent(surface: SurfaceArrays) -> None:
     extent = np.ptp(surface.poles.reshape(-1, 3), axis=0).max()
     if extent > MAX_EXTENT_MM:
         raise BattenError(f"control net spans {extent:.3g} mm, beyond any design model ({MAX_EXTENT_MM:.0e} mm)")
 
 
-def _face_surface(face) -> tuple[NurbsSurface, bool]:
+def _face_surface(face) -> tuple[SurfaceArrays, bool]:
     """The exact NURBS of one input face, placed, and whether it keeps the face's (u, v).
 
     The surface alone is converted (:func:`.occt_surface.surface_bspline`);
@@ -71,7 +69,8 @@ def _face_surface(face) -> tuple[NurbsSurface, bool]:
         same = False
     surface = bspline_to_nurbs(bspline)
     if not np.array_equal(placement, np.eye(4)):
-        surface = surface.transformed(placement)
+        # NURBS are affinely invariant: the placement moves the poles alone
+        surface = surface._replace(poles=surface.poles @ placement[:3, :3].T + placement[:3, 3])
     _check_extent(surface)
     return surface, same
 
@@ -93,7 +92,7 @@ def read_shape(shape, namer: Namer | None = None, sew: bool = False) -> KernelSh
     sew : bool
         When no edge of the shape joins two faces (IGES files of loose trimmed
         surfaces), find the shared edges by sewing a copy at
-        :data:`geometry.io.occt_edges.SEW_TOLERANCE_MM`; the faces themselves
+        :data:`geometry.kernel.occt_edges.SEW_TOLERANCE_MM`; the faces themselves
         are read as the file has them.
 
     Returns
@@ -141,7 +140,7 @@ def read_shape(shape, namer: Namer | None = None, sew: bool = False) -> KernelSh
     for i, (face, name, label, side) in enumerate(inputs):
         if isinstance(side, str):
             out.warnings.append(f"{label} skipped: {side}")
-            out.skipped.append(SkippedFace(i + 1, name, side))
+            out.skipped.append(Skipped(i + 1, name, side))
             continue
         try:
             loops, notes = face_loops(face, params)
@@ -152,6 +151,7 @@ def read_shape(shape, namer: Namer | None = None, sew: bool = False) -> KernelSh
         reversed_ = face.Orientation() == TopAbs_REVERSED
         out.faces.append(
             KernelFace(
+                i + 1,
                 side.surface,
                 side.same_parameters,
                 reversed_,

@@ -11,7 +11,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..nurbs.surface import NurbsSurface
+from .shape import SurfaceArrays
 
 # Edges are sampled by arc length and refined until every chord, in 3-D and of
 # each p-curve on its surface, stays this close to the curve (mm): a fortieth of
@@ -187,7 +187,7 @@ class InputFace:
     compiled kernels.
     """
 
-    def __init__(self, face, surface: NurbsSurface, same_parameters: bool = False):
+    def __init__(self, face, surface: SurfaceArrays, same_parameters: bool = False):
         from OCP.BRepAdaptor import BRepAdaptor_Surface
 
         self.adaptor = BRepAdaptor_Surface(face)  # placed like the face

@@ -2,19 +2,46 @@
 
 Plain arrays and dataclasses, pickled across the pipe. Trims and edge uses are
 still in each input face's own (u, v), with the input surface's 3-D point at
-every sample; the owner inverts them all onto the NURBS in one compiled call
-(:func:`geometry.io.carry.on_nurbs`), so the helper never starts the compiled
-kernels (about a second of its start-up).
+every sample, and surfaces are plain arrays; the owner builds the surfaces and
+inverts every point onto them in one compiled call
+(:func:`geometry.io.carry.on_nurbs`). So the helper imports nothing but the CAD
+kernel and numpy: neither the compiled kernels nor the rest of ``geometry``.
 """
 
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from typing import NamedTuple
 
 import numpy as np
 
-from ..model.topology import SkippedFace
-from ..nurbs.surface import NurbsSurface
+
+class SurfaceArrays(NamedTuple):
+    """A NURBS surface as arrays, in the order :class:`geometry.nurbs.surface.NurbsSurface` takes them.
+
+    Attributes
+    ----------
+    degree_u, degree_v : int
+    knots_u : ndarray of shape (nu + degree_u + 1,)
+    knots_v : ndarray of shape (nv + degree_v + 1,)
+    poles : ndarray of shape (nu, nv, 3)
+    weights : ndarray of shape (nu, nv) or None
+    """
+
+    degree_u: int
+    degree_v: int
+    knots_u: np.ndarray
+    knots_v: np.ndarray
+    poles: np.ndarray
+    weights: np.ndarray | None
+
+
+class Skipped(NamedTuple):
+    """A face of the file left out, and why (:class:`geometry.model.topology.SkippedFace` in the owner)."""
+
+    place: int | None
+    name: str
+    reason: str
 
 
 @dataclass
@@ -23,8 +50,10 @@ class KernelFace:
 
     Attributes
     ----------
-    surface : NurbsSurface
-        Its exact NURBS, placed.
+    place : int
+        Its 1-based place among the file's faces.
+    surface : SurfaceArrays
+        Its exact NURBS, placed (the owner builds the surface).
     same_parameters : bool
         The NURBS keeps the input face's (u, v) (B-spline surfaces, planes):
         nothing to invert.
@@ -36,7 +65,8 @@ class KernelFace:
         surface's points there; empty: untrimmed.
     """
 
-    surface: NurbsSurface
+    place: int
+    surface: SurfaceArrays
     same_parameters: bool
     reversed: bool
     name: str
@@ -72,7 +102,7 @@ class KernelShape:
     edges: list[KernelEdge] = field(default_factory=list)
     warnings: list[str] = field(default_factory=list)
     n_input_faces: int = 0
-    skipped: list[SkippedFace] = field(default_factory=list)
+    skipped: list[Skipped] = field(default_factory=list)
 
     def compare_with_file(self, listed: int) -> None:
         """Warn when the file lists more faces than the kernel built (the rest were unreadable)."""
@@ -81,5 +111,5 @@ class KernelShape:
             self.warnings.insert(
                 0, f"{lost} of the {listed} faces the file lists could not be built by the kernel and are left out"
             )
-            self.skipped.extend(SkippedFace(None, "", "not built by the kernel") for _ in range(lost))
+            self.skipped.extend(Skipped(None, "", "not built by the kernel") for _ in range(lost))
             self.n_input_faces = listed

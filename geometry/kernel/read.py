@@ -10,9 +10,9 @@ from __future__ import annotations
 from collections.abc import Callable
 
 from ..errors import ReadError
-from .kernel_shape import KernelShape
 from .occt_model import read_shape
 from .occt_quiet import quiet_kernel
+from .shape import KernelShape
 
 
 def _entity_namer(reader, entity_name: Callable[[object], str]) -> Callable[[object], str]:

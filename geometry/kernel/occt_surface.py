@@ -1,4 +1,4 @@
-"""An OCP surface as a Batten :class:`~geometry.nurbs.surface.NurbsSurface`.
+"""An OCP surface as the arrays of a Batten :class:`~geometry.nurbs.surface.NurbsSurface`.
 
 Everything here runs on one face at a time and imports OCP lazily (the rest of
 ``geometry`` never needs the kernel).
@@ -9,15 +9,15 @@ from __future__ import annotations
 import numpy as np
 
 from ..errors import SurfaceError
-from ..nurbs.surface import NurbsSurface
+from .shape import SurfaceArrays
 
 
 def _array1(seq) -> np.ndarray:
     return np.array([seq.Value(i) for i in range(seq.Lower(), seq.Upper() + 1)], dtype=float)
 
 
-def bspline_to_nurbs(surface) -> NurbsSurface:
-    """The :class:`NurbsSurface` equal to an OCP ``Geom_BSplineSurface``.
+def bspline_to_nurbs(surface) -> SurfaceArrays:
+    """The NURBS equal to an OCP ``Geom_BSplineSurface``, as arrays.
 
     Parameters
     ----------
@@ -26,7 +26,7 @@ def bspline_to_nurbs(surface) -> NurbsSurface:
 
     Returns
     -------
-    NurbsSurface
+    SurfaceArrays
         Poles of shape (nu, nv, 3), weights (nu, nv) or ``None``, full knot
         vectors (OCP's distinct knots repeated by their multiplicities).
 
@@ -35,7 +35,7 @@ def bspline_to_nurbs(surface) -> NurbsSurface:
     OCP stores a periodic direction with a reduced pole net (the wrapped poles
     are implied). ``SetUNotPeriodic`` / ``SetVNotPeriodic`` rewrite it exactly as
     a non-periodic, possibly unclamped, B-spline over the same parameter range
-    (the wrapped poles written out), which :class:`NurbsSurface` evaluates as is.
+    (the wrapped poles written out), which ``NurbsSurface`` evaluates as is.
     """
     if surface.IsUPeriodic() or surface.IsVPeriodic():
         surface = surface.Copy()
@@ -53,7 +53,7 @@ def bspline_to_nurbs(surface) -> NurbsSurface:
     weights = None
     if surface.IsURational() or surface.IsVRational():
         weights = np.array([[surface.Weight(i + 1, j + 1) for j in range(nv)] for i in range(nu)])
-    return NurbsSurface(
+    return SurfaceArrays(
         surface.UDegree(),
         surface.VDegree(),
         _array1(surface.UKnotSequence()),

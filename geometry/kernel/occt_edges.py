@@ -18,8 +18,8 @@ from __future__ import annotations
 
 import numpy as np
 
-from .kernel_shape import KernelEdge, KernelUse
 from .occt_curves import EdgeParams, InputFace, edge_points, pcurve_points
+from .shape import KernelEdge, KernelUse
 
 # Loose faces whose edges lie this close are taken to share them (IGES without
 # topology); well below the 0.01 mm a G0 check commonly asks (common practice),

@@ -1,8 +1,8 @@
-"""The helper process the STEP and IGES readers run in (``python -m geometry.io.kernel_worker``).
+"""The helper process the STEP and IGES readers run in (``python -m geometry.kernel.worker``).
 
 Protocol on stdin/stdout: each request is an 8-byte little-endian length and a
 pickled ``(fmt, path, memory_bytes, cpu_seconds)``; each answer is a length and a pickled reader result
-(see :func:`geometry.io.isolation.read_in_worker`). The protocol keeps the
+(see :func:`geometry.kernel.isolation.read_in_worker`). The protocol keeps the
 original stdout to itself; file descriptor 1 then points at the null device so
 nothing the kernel prints can corrupt it.
 
