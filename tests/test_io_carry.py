@@ -62,7 +62,7 @@ def test_a_face_that_is_no_valid_nurbs_is_skipped_and_its_edge_uses_renumbered()
     ]
     points = np.array([[0.0, 0, 0], [1, 0, 0]])
     uv = np.array([[0.0, 0], [1, 0]])
-    edges = [KernelEdge(points, (KernelUse(0, uv, points, 0.0), KernelUse(1, uv, points, 0.0)), 1e-7)]
+    edges = [KernelEdge(points, (KernelUse(0, uv, points), KernelUse(1, uv, points)), 1e-7)]
     contents = on_nurbs(KernelShape(faces, edges, [], 2, []))
     assert [f.name for f in contents.faces] == ["good"]
     (edge,) = contents.edges

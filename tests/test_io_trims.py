@@ -12,8 +12,7 @@ from __future__ import annotations
 import numpy as np
 from numpy.testing import assert_allclose
 
-from geometry.io.carry import on_nurbs
-from geometry.kernel.occt_edges import polyline_offset
+from geometry.io.carry import on_nurbs, polyline_offset
 from geometry.kernel.occt_model import read_shape
 
 
@@ -87,3 +86,7 @@ def test_polyline_offset_is_the_distance_to_the_edge_polyline():
     assert_allclose(polyline_offset(trace, edge), 0.2, rtol=1e-12)
     # slid along the edge by half a segment: still on it
     assert_allclose(polyline_offset(edge + [0.5, 0.0, 0.0], edge)[:-1], 0.0, atol=1e-12)
+    # two polylines one after the other: each point is measured against its own only
+    other = edge + [0.0, 5.0, 0.0]
+    both = polyline_offset(np.concatenate([trace, other + [0.0, 0.0, 0.3]]), np.concatenate([edge, other]), [11, 11])
+    assert_allclose(both, np.repeat([0.2, 0.3], 11), rtol=1e-12)

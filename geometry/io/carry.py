@@ -78,6 +78,53 @@ def _trim_loops(uv_loops: list[np.ndarray], surface: NurbsSurface) -> tuple[tupl
     return (() if _is_natural(kept, surface) else tuple(kept)), notes
 
 
+def polyline_offset(points: np.ndarray, polyline: np.ndarray, sizes: np.ndarray | None = None) -> np.ndarray:
+    """Distance of each point to its polyline near the vertex of the same index, shape (n,).
+
+    Parameters
+    ----------
+    points : ndarray of shape (n, 3)
+    polyline : ndarray of shape (n, 3)
+        Sampled at the same curve parameters (a same-parameter edge), so the
+        closest segments are those around the same index; the two segments on
+        each side are searched.
+    sizes : ndarray of int, shape (m,), optional
+        ``points`` and ``polyline`` hold ``m`` polylines one after another, of
+        these lengths (default: one); each point is measured against its own.
+    """
+    n = polyline.shape[0]
+    sizes = np.array([n]) if sizes is None else np.asarray(sizes, dtype=np.int64)
+    first = np.repeat(np.cumsum(sizes) - sizes, sizes)  # each point's polyline start
+    last_segment = first + np.repeat(np.maximum(sizes - 2, 0), sizes)
+    best = np.linalg.norm(points - polyline, axis=1)
+    index = np.arange(n)
+    for shift in (-2, -1, 0, 1):
+        start = np.clip(index + shift, first, last_segment)
+        end = np.minimum(start + 1, first + np.repeat(sizes - 1, sizes))
+        a, d = polyline[start], polyline[end] - polyline[start]
+        lam = np.clip(np.einsum("ij,ij->i", points - a, d) / np.maximum(np.einsum("ij,ij->i", d, d), 1e-300), 0, 1)
+        best = np.minimum(best, np.linalg.norm(points - a - lam[:, None] * d, axis=1))
+    return best
+
+
+def _use_offsets(shape: KernelShape, pack: SurfacePack, carried: list[np.ndarray], first_use: int) -> np.ndarray:
+    """How far each edge use, on its NURBS at its carried (u, v), strays from its 3-D edge, shape (uses,)."""
+    uses = [(use, edge) for edge in shape.edges for use in edge.uses]
+    if not uses:
+        return np.zeros(0)
+    sizes = np.array([len(use.uv) for use, _ in uses], dtype=np.int64)
+    uv = np.concatenate([carried[first_use + k] for k in range(len(uses))]).reshape(-1, 2)
+    sids = np.repeat([use.face for use, _ in uses], sizes)
+    on_face = derivatives(pack, sids, uv[:, 0], uv[:, 1], 0)[0, 0]
+    edge_points = np.concatenate([np.asarray(edge.points, float).reshape(-1, 3) for _, edge in uses])
+    off = polyline_offset(on_face, edge_points, sizes)
+    starts = np.cumsum(sizes) - sizes
+    out = np.zeros(len(uses))
+    full = sizes > 0
+    out[full] = np.maximum.reduceat(off, starts[full]) if off.size else 0.0
+    return out
+
+
 def _valid_faces(shape: KernelShape) -> tuple[KernelShape, list[NurbsSurface]]:
     """The faces whose arrays make a valid NURBS, with their surfaces; the others skipped with the reason.
 
@@ -124,7 +171,9 @@ def on_nurbs(shape: KernelShape) -> ShapeContents:
     Every point to carry (trim loops and edge uses of the faces whose NURBS
     has other parameters) goes through one :func:`invert` call on a pack of the
     surfaces, started from its input (u, v); one more call evaluates the NURBS
-    at the answers to measure how far each trim loop lies off its surface.
+    at the answers to measure how far each trim loop lies off its surface, and
+    one at every edge use to measure how far it strays from its 3-D edge
+    (``EdgeUse.offset``, on the surface the analyses evaluate).
     """
     shape, surfaces = _valid_faces(shape)
     # Every (u, v) polyline in one list: the faces' loops, then the edges' uses.
@@ -143,11 +192,11 @@ def on_nurbs(shape: KernelShape) -> ShapeContents:
     carried = list(uvs)
     moving = [k for k, i in enumerate(owners) if not shape.faces[i].same_parameters and len(uvs[k])]
     worst = np.zeros(len(surfaces))
+    pack = SurfacePack.of(surfaces)
     if moving:
         sids = np.concatenate([np.full(len(uvs[k]), owners[k], dtype=np.int64) for k in moving])
         start = np.concatenate([uvs[k] for k in moving])
         target = np.concatenate([points[k] for k in moving])
-        pack = SurfacePack.of(surfaces)
         u, v = invert(pack, sids, target, start[:, 0], start[:, 1])
         off = np.linalg.norm(derivatives(pack, sids, u, v, 0)[0, 0] - target, axis=1)
         on_loop = np.concatenate([np.full(len(uvs[k]), k < n_loops) for k in moving])
@@ -164,10 +213,11 @@ def on_nurbs(shape: KernelShape) -> ShapeContents:
         if worst[i] > TRIM_WARN_MM:
             out.warnings.append(f"{face.label}: its trim lies up to {worst[i]:.3g} mm off its surface")
         out.faces.append(Face(surface, face.reversed, loops, face.name, face.body))
+    offsets = iter(_use_offsets(shape, pack, carried, at))
     for edge in shape.edges:
         uses = []
         for use in edge.uses:
-            uses.append(EdgeUse(use.face, carried[at], use.offset))
+            uses.append(EdgeUse(use.face, carried[at], float(next(offsets))))
             at += 1
         out.edges.append(Edge(edge.points, tuple(uses), edge.tolerance))
     return out

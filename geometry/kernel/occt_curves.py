@@ -3,7 +3,7 @@
 ``BRepBuilderAPI_NurbsConvert`` writes a cylinder, sphere, torus or revolution
 as a rational B-spline whose parameters agree with the input's (angles) only at
 the knots, and it keeps the p-curves as they were. So every (u, v) polyline here
-is read on the input face with its 3-D points (:class:`InputFace`), to be
+is read on the input face with its 3-D points (:meth:`EdgeParams.trace`), to be
 inverted onto the NURBS by the owner (:mod:`geometry.io.carry`).
 """
 
@@ -49,7 +49,7 @@ def _arc_length_params(curve, first: float, last: float, count: int) -> np.ndarr
     return np.linspace(first, last, count)
 
 
-def edge_params(edge, uses=()) -> np.ndarray:
+def edge_params(edge, uses=()) -> tuple[np.ndarray, np.ndarray | None, list[np.ndarray] | None]:
     """Parameters along an edge where its polylines (3-D and p-curves) are sampled, shape (n,).
 
     Parameters
@@ -57,6 +57,15 @@ def edge_params(edge, uses=()) -> np.ndarray:
     edge : OCP.TopoDS.TopoDS_Edge
     uses : sequence of (TopoDS_Edge, TopoDS_Face)
         The oriented edge on each face whose p-curve must be followed too.
+
+    Returns
+    -------
+    ts : ndarray of shape (n,)
+    points : ndarray of shape (n, 3) or None
+        The 3-D curve at ``ts``, as the refinement evaluated it.
+    traces : list of ndarray of shape (n, 2), or None
+        Each use's p-curve at ``ts`` (None, like ``points``, for a collapsed
+        edge or one padded to :data:`MIN_EDGE_SAMPLES`).
 
     Notes
     -----
@@ -78,7 +87,7 @@ def edge_params(edge, uses=()) -> np.ndarray:
     if BRep_Tool.Degenerated_s(edge):
         face = uses[0][1] if uses else None
         first, last = BRep_Tool.Range_s(edge, face) if face is not None else BRep_Tool.Range_s(edge)
-        return np.linspace(first, last, MIN_EDGE_SAMPLES)
+        return np.linspace(first, last, MIN_EDGE_SAMPLES), None, None
     first, last = BRep_Tool.Range_s(edge)
     curve = BRepAdaptor_Curve(edge)
     try:
@@ -124,7 +133,8 @@ def edge_params(edge, uses=()) -> np.ndarray:
         pending = np.stack([first, first + 1], axis=1).ravel()
     if ts.size < MIN_EDGE_SAMPLES:
         ts = np.interp(np.linspace(0, ts.size - 1, MIN_EDGE_SAMPLES), np.arange(ts.size), ts)
-    return ts
+        return ts, None, None
+    return ts, points, traces
 
 
 class EdgeParams:
@@ -133,10 +143,15 @@ class EdgeParams:
     The trims of each face and the shared-edge topology follow the same edges:
     sampled once with every face's p-curve (:meth:`prime`), an edge serves
     them all, and its trim polylines and edge uses agree point for point.
+    What the sampling evaluated (the 3-D curve, each p-curve) is kept, and
+    each p-curve's points on its surface are evaluated once (:meth:`trace`):
+    the kernel is called once per point, from Python, so evaluating twice
+    would cost as much again.
     """
 
     def __init__(self):
-        self._found: dict[int, list] = {}  # hash of the edge (orientation-free) -> [(edge, ts)]
+        # hash of the edge (orientation-free) -> [[edge, ts, 3-D points, [(oriented edge, face, uv, xyz)]]]
+        self._found: dict[int, list] = {}
 
     def prime(self, edge, uses) -> None:
         """Sample ``edge`` for ``uses`` now; a failure is left to the caller that needs it."""
@@ -145,15 +160,52 @@ class EdgeParams:
         except Exception:  # the kernel's own failure on one curve: raised again where it matters
             pass
 
+    def _entry(self, edge, uses=()) -> list:
+        bucket = self._found.setdefault(hash(edge), [])
+        for entry in bucket:
+            if entry[0].IsSame(edge):
+                return entry
+        ts, points, traces = edge_params(edge, uses)
+        known = [] if traces is None else [[e, f, uv, None] for (e, f), uv in zip(uses, traces, strict=True)]
+        entry = [edge, ts, points, known]
+        bucket.append(entry)
+        return entry
+
     def __call__(self, edge, uses=()) -> np.ndarray:
         """:func:`edge_params` of ``edge``: sampled for ``uses`` unless already sampled (for any uses)."""
-        bucket = self._found.setdefault(hash(edge), [])
-        for known, ts in bucket:
-            if known.IsSame(edge):
-                return ts
-        ts = edge_params(edge, uses)
-        bucket.append((edge, ts))
-        return ts
+        return self._entry(edge, uses)[1]
+
+    def points(self, edge) -> np.ndarray:
+        """The edge's 3-D curve (placed) at its parameters, shape (n, 3)."""
+        entry = self._entry(edge)
+        if entry[2] is None:
+            entry[2] = edge_points(edge, entry[1])
+        return entry[2]
+
+    def trace(self, edge, face) -> tuple[np.ndarray, np.ndarray]:
+        """The oriented edge's p-curve on ``face`` at the edge's parameters, and the face's surface there.
+
+        Returns
+        -------
+        uv : ndarray of shape (n, 2)
+            In the input surface's parameters, in the order of the edge's
+            parameters (its own direction, not its orientation in a wire).
+        xyz : ndarray of shape (n, 3)
+        """
+        from OCP.BRep import BRep_Tool
+        from OCP.BRepAdaptor import BRepAdaptor_Surface
+
+        entry = self._entry(edge, [(edge, face)])
+        for known in entry[3]:
+            # the same p-curve: the same face and, where the edge is closed on it (two p-curves), the same orientation
+            if known[1].IsEqual(face) and (known[0].IsEqual(edge) or not BRep_Tool.IsClosed_s(edge, face)):
+                break
+        else:
+            known = [edge, face, pcurve_points(edge, face, entry[1]), None]
+            entry[3].append(known)
+        if known[3] is None:
+            known[3] = _on_surface(BRepAdaptor_Surface(face), known[2])
+        return known[2], known[3]
 
 
 def pcurve_points(edge, face, ts: np.ndarray) -> np.ndarray:
@@ -178,26 +230,17 @@ def edge_points(edge, ts: np.ndarray) -> np.ndarray:
 
 
 class InputFace:
-    """An input face's own surface (placed like the face), its NURBS, and whether the two share (u, v).
+    """An input face's NURBS, and whether it shares the face's own (u, v).
 
     The trims and edge uses read here stay in the input face's (u, v), each
-    point with the input surface's 3-D point there (:meth:`points`); the
-    process that owns the model carries them onto the NURBS in one compiled
-    call (:func:`geometry.io.carry.on_nurbs`), so this side never starts the
-    compiled kernels.
+    point with the input surface's 3-D point there (:meth:`EdgeParams.trace`);
+    the process that owns the model carries them onto the NURBS in one compiled
+    call (:func:`geometry.io.carry.on_nurbs`).
     """
 
-    def __init__(self, face, surface: SurfaceArrays, same_parameters: bool = False):
-        from OCP.BRepAdaptor import BRepAdaptor_Surface
-
-        self.adaptor = BRepAdaptor_Surface(face)  # placed like the face
+    def __init__(self, surface: SurfaceArrays, same_parameters: bool = False):
         self.surface = surface
         self.same_parameters = same_parameters
-
-    def points(self, uv: np.ndarray) -> np.ndarray:
-        """The input surface at (u, v) of shape (n, 2), shape (n, 3)."""
-        uv = np.asarray(uv, dtype=float).reshape(-1, 2)
-        return _on_surface(self.adaptor, uv) if len(uv) else np.zeros((0, 3))
 
 
 # A wire is open when its ends lie further apart (on the surface) than this
@@ -210,8 +253,13 @@ class TrimProblem(Exception):
     """A trim wire that cannot bound a region (open or without area); the message says which and why."""
 
 
-def _wire_polyline(wire, face, params: EdgeParams) -> np.ndarray:
-    """The wire as a closed (u, v) polyline, first point not repeated.
+def _wire_polyline(wire, face, params: EdgeParams) -> tuple[np.ndarray, np.ndarray]:
+    """The wire as a closed (u, v) polyline, first point not repeated, and the surface's points there.
+
+    Returns
+    -------
+    uv : ndarray of shape (n, 2)
+    xyz : ndarray of shape (n, 3)
 
     Raises
     ------
@@ -219,7 +267,6 @@ def _wire_polyline(wire, face, params: EdgeParams) -> np.ndarray:
         When its ends do not meet on the surface (an open wire).
     """
     from OCP.BRep import BRep_Tool
-    from OCP.BRepAdaptor import BRepAdaptor_Surface
     from OCP.BRepTools import BRepTools_WireExplorer
     from OCP.TopAbs import TopAbs_REVERSED
 
@@ -227,28 +274,27 @@ def _wire_polyline(wire, face, params: EdgeParams) -> np.ndarray:
     explorer = BRepTools_WireExplorer(wire, face)
     while explorer.More():
         edge = explorer.Current()
-        uv = pcurve_points(edge, face, params(edge, [(edge, face)]))
+        uv, xyz = params.trace(edge, face)
         if edge.Orientation() == TopAbs_REVERSED:
-            uv = uv[::-1]
-        chunks.append(uv)
+            uv, xyz = uv[::-1], xyz[::-1]
+        chunks.append((uv, xyz))
         tolerance = max(tolerance, BRep_Tool.Tolerance_s(edge))
         explorer.Next()
     if not chunks:
-        return np.zeros((0, 2))
-    surface = BRepAdaptor_Surface(face)
-    ends = _on_surface(surface, np.array([chunks[-1][-1], chunks[0][0]]))
-    path = _on_surface(surface, np.concatenate(chunks))
+        return np.zeros((0, 2)), np.zeros((0, 3))
+    path = np.concatenate([xyz for _, xyz in chunks])
     length = float(np.linalg.norm(np.diff(path, axis=0), axis=1).sum())
-    gap = float(np.linalg.norm(ends[0] - ends[1]))
+    gap = float(np.linalg.norm(chunks[-1][1][-1] - chunks[0][1][0]))
     if gap > OPEN_WIRE_FRACTION * length and gap > OPEN_WIRE_TOLERANCES * tolerance:
         raise TrimProblem(f"trim wire of {len(chunks)} edge(s) is open: its ends lie {gap:.3g} mm apart")
-    pts = np.concatenate([c[:-1] for c in chunks])
+    pts = np.concatenate([uv[:-1] for uv, _ in chunks])
+    xyz = np.concatenate([xyz[:-1] for _, xyz in chunks])
     keep = np.ones(len(pts), dtype=bool)
     keep[1:] = np.any(np.abs(np.diff(pts, axis=0)) > 0, axis=1)
-    return pts[keep]
+    return pts[keep], xyz[keep]
 
 
-def face_loops(face, params: EdgeParams | None = None) -> tuple[list[np.ndarray], list[str]]:
+def face_loops(face, params: EdgeParams | None = None) -> tuple[list[tuple[np.ndarray, np.ndarray]], list[str]]:
     """Trimming wires of an input face as closed (u, v) polylines on it, outer first.
 
     ``params`` gives each edge's sampling parameters (shared with the other
@@ -256,8 +302,9 @@ def face_loops(face, params: EdgeParams | None = None) -> tuple[list[np.ndarray]
 
     Returns
     -------
-    loops : list of ndarray of shape (n, 2)
-        In the input face's (u, v); empty when the face is used untrimmed.
+    loops : list of (ndarray of shape (n, 2), ndarray of shape (n, 3))
+        In the input face's (u, v), with the surface's points there; empty
+        when the face is used untrimmed.
     notes : list of str
         What was set aside and why: an open outer wire leaves the face
         untrimmed (its surface shown whole, never reduced to nothing); such a
@@ -283,8 +330,8 @@ def face_loops(face, params: EdgeParams | None = None) -> tuple[list[np.ndarray]
         which = "outer trim" if k == 0 and not outer.IsNull() else "a hole"
         try:
             loop = _wire_polyline(wire, face, params)
-            if len(loop) < 3:
-                raise TrimProblem(f"trim wire has {len(loop)} distinct point(s)")
+            if len(loop[0]) < 3:
+                raise TrimProblem(f"trim wire has {len(loop[0])} distinct point(s)")
         except TrimProblem as exc:
             if which == "outer trim":
                 return [], [f"{exc}; the face is used untrimmed"]

@@ -4,8 +4,9 @@ Edges and the faces using them come from ``TopExp::MapShapesAndUniqueAncestors``
 (edge -> faces). Every use is sampled at the same edge parameters as the 3-D
 polyline (and later carried onto its face's NURBS), so ``use.uv[i]`` on the face is
 ``edge.points[i]`` within the file's edge tolerance; how far the p-curve
-actually strays from the 3-D edge is kept as ``use.offset`` (a file whose
-p-curve and edge disagree is reported by the seam check).
+actually strays from the 3-D edge is measured on the NURBS by the owner
+(:func:`geometry.io.carry.on_nurbs`; the seam check reports a file whose
+p-curve and edge disagree).
 
 Seam edges of periodic faces (one face on both sides, ``BRep_Tool::IsClosed``)
 are listed with two uses of the same face index: the p-curves at both ends of
@@ -16,9 +17,7 @@ curve and are not listed.
 
 from __future__ import annotations
 
-import numpy as np
-
-from .occt_curves import EdgeParams, InputFace, edge_points, pcurve_points
+from .occt_curves import EdgeParams, InputFace
 from .shape import KernelEdge, KernelUse
 
 # Loose faces whose edges lie this close are taken to share them (IGES without
@@ -100,38 +99,13 @@ def shared_edges(
     listing = listing if listing is not None else edge_uses(shape, faces_map, kept)
     edges = []
     for edge, oriented in listing:
-        ts = params(edge, sampling_uses(oriented))
-        points = edge_points(edge, ts)
+        params(edge, sampling_uses(oriented))  # sampled for every face along it before any one face asks
+        points = params.points(edge)
         uses = []
-        for e, face, index, side in oriented:
-            uv = pcurve_points(e, face, ts)
-            on_face = side.points(uv)
-            uses.append(KernelUse(index, uv, on_face, float(polyline_offset(on_face, points).max(initial=0.0))))
+        for e, face, index, _ in oriented:
+            uses.append(KernelUse(index, *params.trace(e, face)))
         edges.append(KernelEdge(points, tuple(uses), float(BRep_Tool.Tolerance_s(edge))))
     return edges
-
-
-def polyline_offset(points: np.ndarray, polyline: np.ndarray) -> np.ndarray:
-    """Distance of each point to the polyline near the vertex of the same index, shape (n,).
-
-    Parameters
-    ----------
-    points : ndarray of shape (n, 3)
-    polyline : ndarray of shape (n, 3)
-        Sampled at the same curve parameters (a same-parameter edge), so the
-        closest segments are those around the same index; the two segments on
-        each side are searched.
-    """
-    n = polyline.shape[0]
-    best = np.linalg.norm(points - polyline, axis=1)
-    if n < 2:
-        return best
-    for shift in (-2, -1, 0, 1):
-        start = np.clip(np.arange(n) + shift, 0, n - 2)
-        a, d = polyline[start], polyline[start + 1] - polyline[start]
-        lam = np.clip(np.einsum("ij,ij->i", points - a, d) / np.maximum(np.einsum("ij,ij->i", d, d), 1e-300), 0, 1)
-        best = np.minimum(best, np.linalg.norm(points - a - lam[:, None] * d, axis=1))
-    return best
 
 
 def sewn_edges(faces_map, kept: dict[int, tuple[int, InputFace]]) -> list[KernelEdge]:

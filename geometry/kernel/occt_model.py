@@ -118,7 +118,7 @@ def read_shape(shape, namer: Namer | None = None, sew: bool = False) -> KernelSh
         name = namer(face) if namer else ""
         label = f"face {i + 1} of {total} in the file" + (f" ('{name}')" if name else "")
         try:
-            side = InputFace(face, *_face_surface(face))
+            side = InputFace(*_face_surface(face))
         except BattenError as exc:
             inputs.append((face, name, label, str(exc)))
             continue
@@ -158,7 +158,7 @@ def read_shape(shape, namer: Namer | None = None, sew: bool = False) -> KernelSh
                 name,
                 bodies[i],
                 label,
-                [(uv, side.points(uv)) for uv in loops],
+                loops,
             )
         )
     try:

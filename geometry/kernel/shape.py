@@ -82,7 +82,6 @@ class KernelUse:
     face: int
     uv: np.ndarray
     points: np.ndarray
-    offset: float
 
 
 @dataclass
