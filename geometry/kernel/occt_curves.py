@@ -9,6 +9,8 @@ inverted onto the NURBS by the owner (:mod:`geometry.io.carry`).
 
 from __future__ import annotations
 
+import itertools
+
 import numpy as np
 
 from .shape import SurfaceArrays
@@ -29,12 +31,20 @@ REFINE_ROUNDS = 14
 STRAIGHT_RTOL = 1e-12
 
 
-def _values(curve, ts: np.ndarray) -> np.ndarray:
-    return np.array([curve.Value(float(t)).Coord() for t in ts])
+# The kernel evaluates one point per call from Python: plain floats in (tolist) and one flat
+# buffer out (fromiter) keep the Python around each call small, the bulk of a read's time.
+def _values(curve, ts: np.ndarray, width: int = 3) -> np.ndarray:
+    """A 3-D (``width`` 3) or 2-D (``width`` 2) curve at parameters ``ts`` of shape (n,), shape (n, width)."""
+    value, ts = curve.Value, np.asarray(ts, dtype=float).ravel().tolist()
+    flat = itertools.chain.from_iterable(value(t).Coord() for t in ts)
+    return np.fromiter(flat, float, count=width * len(ts)).reshape(-1, width)
 
 
 def _on_surface(surface, uv: np.ndarray) -> np.ndarray:
-    return np.array([surface.Value(float(a), float(b)).Coord() for a, b in uv])
+    """A surface adaptor at (u, v) of shape (n, 2), shape (n, 3)."""
+    value, uv = surface.Value, np.asarray(uv, dtype=float).reshape(-1, 2).tolist()
+    flat = itertools.chain.from_iterable(value(a, b).Coord() for a, b in uv)
+    return np.fromiter(flat, float, count=3 * len(uv)).reshape(-1, 3)
 
 
 def _arc_length_params(curve, first: float, last: float, count: int) -> np.ndarray:
@@ -49,7 +59,7 @@ def _arc_length_params(curve, first: float, last: float, count: int) -> np.ndarr
     return np.linspace(first, last, count)
 
 
-def edge_params(edge, uses=()) -> tuple[np.ndarray, np.ndarray | None, list[np.ndarray] | None]:
+def edge_params(edge, uses=()) -> tuple[np.ndarray, np.ndarray | None, list[tuple[np.ndarray, np.ndarray]] | None]:
     """Parameters along an edge where its polylines (3-D and p-curves) are sampled, shape (n,).
 
     Parameters
@@ -63,9 +73,10 @@ def edge_params(edge, uses=()) -> tuple[np.ndarray, np.ndarray | None, list[np.n
     ts : ndarray of shape (n,)
     points : ndarray of shape (n, 3) or None
         The 3-D curve at ``ts``, as the refinement evaluated it.
-    traces : list of ndarray of shape (n, 2), or None
-        Each use's p-curve at ``ts`` (None, like ``points``, for a collapsed
-        edge or one padded to :data:`MIN_EDGE_SAMPLES`).
+    traces : list of (ndarray of shape (n, 2), ndarray of shape (n, 3)), or None
+        Each use's p-curve at ``ts``, and its surface's points there where the
+        sag test evaluated them (NaN rows elsewhere); None, like ``points``,
+        for a collapsed edge or one padded to :data:`MIN_EDGE_SAMPLES`.
 
     Notes
     -----
@@ -98,7 +109,9 @@ def edge_params(edge, uses=()) -> tuple[np.ndarray, np.ndarray | None, list[np.n
     ts = _arc_length_params(curve, first, last, START_EDGE_SAMPLES)
     pcurves = [(BRepAdaptor_Curve2d(e, f), BRepAdaptor_Surface(f)) for e, f in uses]
     points = _values(curve, ts)
-    traces = [_values(c2d, ts)[:, :2] for c2d, _ in pcurves]
+    traces = [_values(c2d, ts, 2) for c2d, _ in pcurves]
+    # Each p-curve's points on its surface, where the sag test evaluated them (NaN elsewhere): kept for the trims.
+    on_surfaces = [np.full((ts.size, 3), np.nan) for _ in pcurves]
     # Only intervals new in a round are checked: one that passed once passes again.
     pending = np.arange(ts.size - 1)
     for _ in range(REFINE_ROUNDS):
@@ -106,21 +119,22 @@ def edge_params(edge, uses=()) -> tuple[np.ndarray, np.ndarray | None, list[np.n
         mid = 0.5 * (ts[lo] + ts[hi])
         mid_points = _values(curve, mid)
         error = np.linalg.norm(mid_points - 0.5 * (points[lo] + points[hi]), axis=1)
-        mid_traces = []
+        mid_traces, mid_on_surfaces = [], []
         for (c2d, surface), uv in zip(pcurves, traces, strict=True):
-            uv_mid = _values(c2d, mid)[:, :2]
+            uv_mid = _values(c2d, mid, 2)
             chord_mid = 0.5 * (uv[lo] + uv[hi])
             # Where the p-curve's midpoint lies on its (u, v) chord (a line in the parameters,
             # as iso-curves and most edges of cylinders are), the surface holds no sag to measure.
             bent = np.any(
                 np.abs(uv_mid - chord_mid) > STRAIGHT_RTOL * np.abs(uv[hi] - uv[lo]).max(axis=1)[:, None], axis=1
             )
-            sag = np.zeros(mid.size)
+            sag, on_curve = np.zeros(mid.size), np.full((mid.size, 3), np.nan)
             if bent.any():
-                on_curve = _on_surface(surface, uv_mid[bent])
-                sag[bent] = np.linalg.norm(on_curve - _on_surface(surface, chord_mid[bent]), axis=1)
+                on_curve[bent] = _on_surface(surface, uv_mid[bent])
+                sag[bent] = np.linalg.norm(on_curve[bent] - _on_surface(surface, chord_mid[bent]), axis=1)
             error = np.maximum(error, sag)
             mid_traces.append(uv_mid)
+            mid_on_surfaces.append(on_curve)
         bad = error > bound
         split = pending[bad]
         if split.size == 0 or ts.size + split.size > MAX_EDGE_SAMPLES:
@@ -128,13 +142,16 @@ def edge_params(edge, uses=()) -> tuple[np.ndarray, np.ndarray | None, list[np.n
         ts = np.insert(ts, split + 1, mid[bad])
         points = np.insert(points, split + 1, mid_points[bad], axis=0)
         traces = [np.insert(uv, split + 1, m[bad], axis=0) for uv, m in zip(traces, mid_traces, strict=True)]
+        on_surfaces = [
+            np.insert(xyz, split + 1, m[bad], axis=0) for xyz, m in zip(on_surfaces, mid_on_surfaces, strict=True)
+        ]
         # Interval j split becomes intervals j' and j' + 1, j' = j + the splits before it.
         first = split + np.arange(split.size)
         pending = np.stack([first, first + 1], axis=1).ravel()
     if ts.size < MIN_EDGE_SAMPLES:
         ts = np.interp(np.linspace(0, ts.size - 1, MIN_EDGE_SAMPLES), np.arange(ts.size), ts)
         return ts, None, None
-    return ts, points, traces
+    return ts, points, list(zip(traces, on_surfaces, strict=True))
 
 
 class EdgeParams:
@@ -166,7 +183,7 @@ class EdgeParams:
             if entry[0].IsSame(edge):
                 return entry
         ts, points, traces = edge_params(edge, uses)
-        known = [] if traces is None else [[e, f, uv, None] for (e, f), uv in zip(uses, traces, strict=True)]
+        known = [] if traces is None else [[e, f, uv, xyz] for (e, f), (uv, xyz) in zip(uses, traces, strict=True)]
         entry = [edge, ts, points, known]
         bucket.append(entry)
         return entry
@@ -201,10 +218,12 @@ class EdgeParams:
             if known[1].IsEqual(face) and (known[0].IsEqual(edge) or not BRep_Tool.IsClosed_s(edge, face)):
                 break
         else:
-            known = [edge, face, pcurve_points(edge, face, entry[1]), None]
+            uv = pcurve_points(edge, face, entry[1])
+            known = [edge, face, uv, np.full((len(uv), 3), np.nan)]
             entry[3].append(known)
-        if known[3] is None:
-            known[3] = _on_surface(BRepAdaptor_Surface(face), known[2])
+        missing = np.isnan(known[3]).any(axis=1)
+        if missing.any():  # evaluated once: the next face side along this edge reads them
+            known[3][missing] = _on_surface(BRepAdaptor_Surface(face), known[2][missing])
         return known[2], known[3]
 
 
@@ -219,7 +238,7 @@ def pcurve_points(edge, face, ts: np.ndarray) -> np.ndarray:
     """
     from OCP.BRepAdaptor import BRepAdaptor_Curve2d
 
-    return _values(BRepAdaptor_Curve2d(edge, face), ts)[:, :2]
+    return _values(BRepAdaptor_Curve2d(edge, face), ts, 2)
 
 
 def edge_points(edge, ts: np.ndarray) -> np.ndarray:
