@@ -16,7 +16,9 @@ import sys
 import warnings
 
 from geometry import BattenError, __version__
-from geometry.kernel.isolation import start_helper
+from geometry.kernel.isolation import prefetch, start_helper
+
+from .commands.reading import add_read_options, read_budget
 
 # name -> (module, one-line help). Modules load only when their command runs.
 COMMANDS: dict[str, tuple[str, str]] = {
@@ -107,17 +109,27 @@ KERNEL_SUFFIXES = (".stp", ".step", ".igs", ".iges")
 
 
 def _start_reader_early(argv: list[str]) -> None:
-    """A command about to read one STEP or IGES file starts the reader's helper process now.
+    """A command about to read one STEP or IGES file sends the read to the reader's helper process now.
 
-    Its start-up (the CAD kernel's libraries, the compiled kernels) then runs
-    beside this process's own imports instead of after them. Only for one
-    local file: several files are read in worker processes of their own.
+    The helper's start-up (the interpreter, the CAD kernel's libraries) and
+    the read itself then run beside this process's own imports instead of
+    after them (:func:`geometry.kernel.isolation.prefetch`, with the read
+    budget the options ask for). Only for one local file: several files are
+    read in worker processes of their own.
     """
     if not argv or argv[0] not in READING_COMMANDS or "--cluster" in argv:
         return
     files = [a for a in argv[1:] if a.lower().endswith(KERNEL_SUFFIXES)]
-    if len(files) == 1 and os.path.isfile(files[0]):
+    if len(files) != 1 or not os.path.isfile(files[0]):
+        return
+    options = argparse.ArgumentParser(add_help=False, exit_on_error=False)
+    add_read_options(options)
+    try:
+        budget = read_budget(options.parse_known_args(argv[1:])[0])
+    except (argparse.ArgumentError, BattenError):  # the command's own parser reports it
         start_helper()
+        return
+    prefetch("iges" if files[0].lower().endswith((".igs", ".iges")) else "step", files[0], budget)
 
 
 def _main(argv: list[str]) -> int:

@@ -47,12 +47,12 @@ def _coloured(pixels) -> float:
 
 def child(path: str) -> None:
     """Run in the measured process: open the window as ``batten FILE`` does, time the frame and the seams."""
+    from geometry.kernel.isolation import prefetch
+
+    prefetch("iges" if path.lower().endswith((".igs", ".iges")) else "step", path)  # as 'batten FILE' does first
     from PySide6.QtCore import QTimer
     from PySide6.QtWidgets import QApplication
 
-    from geometry.kernel.isolation import start_helper
-
-    start_helper()  # as 'batten FILE' does before its own imports
     from app.commands.open import read_first
     from app.qt.window import MainWindow
     from app.state import Measure, Mode

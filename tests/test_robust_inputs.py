@@ -23,8 +23,8 @@ from app.review.findings import face_findings, unevaluable_faces
 from app.review.runner import review_model
 from geometry.errors import BattenError, ReadError, SurfaceError
 from geometry.io import ReadBudget, read_model
-from geometry.io.numbers import check_numbers
 from geometry.kernel import isolation
+from geometry.kernel.numbers import check_numbers
 from geometry.model import Face, Model
 from geometry.model.topology import points_in_loops
 

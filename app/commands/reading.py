@@ -27,7 +27,7 @@ def read_budget(args: argparse.Namespace):
     """The :class:`geometry.io.ReadBudget` the options ask for (checked: a BattenError when out of range)."""
     import math
 
-    from geometry.io import ReadBudget
+    from geometry.kernel.budget import ReadBudget
 
     memory = args.read_memory
     if memory is not None and math.isfinite(memory):

@@ -17,10 +17,10 @@ import numpy as np
 from ..errors import BattenError, ReadError
 from ..kernel.budget import ReadBudget
 from ..kernel.isolation import read_isolated
+from ..kernel.numbers import check_numbers
 from ..model.topology import Model
 from .carry import ShapeContents, on_nurbs
 from .files import read_regular
-from .numbers import check_numbers
 
 # Larger files are refused before the kernel is asked (a design model is tens of MB).
 MAX_FILE_BYTES = 2_000_000_000

@@ -45,6 +45,7 @@ import threading
 
 from ..errors import BattenError, ReadError
 from .budget import ReadBudget
+from .numbers import check_numbers
 from .shape import KernelShape
 from .worker import HEADER_BYTES
 
@@ -56,6 +57,9 @@ _FINALIZE_PRIORITY = 10
 _LOCK = threading.Lock()
 _WORKER: subprocess.Popen | None = None
 _FINALIZED_PID: int | None = None  # the process whose exit already stops the helper
+_PENDING: bytes | None = None  # a request sent ahead (:func:`prefetch`) whose answer nobody has read yet
+# Files larger than this are not read ahead (their bytes are read twice: the screen here, the owner's hash).
+PREFETCH_MAX_BYTES = 200_000_000
 
 
 def _read(fmt: str, path: str) -> tuple[KernelShape, str]:
@@ -127,6 +131,47 @@ def start_helper() -> None:
         _worker()
 
 
+def prefetch(fmt: str, path: str, budget: ReadBudget | None = None) -> None:
+    """Send the read of ``path`` to the helper now, so it runs while the command imports the rest.
+
+    The next :func:`read_isolated` of the same file, format and budget takes
+    its answer instead of asking again; any other read first drops it (the
+    helper is restarted). The file's numbers are screened first
+    (:func:`.numbers.check_numbers`): a file that fails is not sent, and the
+    owner's own read then reports why. Never raises; does nothing when reading
+    in-process, and only starts the helper for a name the kernel cannot take
+    as it is or a very large file.
+    """
+    global _PENDING
+    if os.environ.get("BATTEN_READ_IN_PROCESS"):
+        return
+    try:
+        path = os.path.abspath(path)
+        path.encode("utf-8")  # a name the kernel takes as it is (else a link, made at the read)
+        size = os.path.getsize(path)
+        request = None
+        if size <= PREFETCH_MAX_BYTES:
+            with open(path, "rb") as handle:
+                check_numbers(path, fmt, handle.read())
+            budget = budget or ReadBudget()
+            request = pickle.dumps((fmt, path, budget.memory_for(size), budget.timeout_for(size)))
+    except (OSError, UnicodeEncodeError, BattenError):  # read as usual later, where the cause is reported
+        request = None
+    if request is None:
+        start_helper()
+        return
+    with _LOCK:
+        worker = _worker()
+        if _PENDING is not None:
+            return
+        try:
+            worker.stdin.write(len(request).to_bytes(HEADER_BYTES, "little") + request)
+            worker.stdin.flush()
+        except OSError:  # the helper is gone: the read itself starts a new one
+            return
+        _PENDING = request
+
+
 def _close_pipes(worker: subprocess.Popen) -> None:
     for pipe in (worker.stdin, worker.stdout):
         try:
@@ -136,9 +181,13 @@ def _close_pipes(worker: subprocess.Popen) -> None:
 
 
 def _stop_worker(graceful: bool = True) -> None:
-    """Stop the helper: close its input and let it leave, or kill it (after a crash or time-out)."""
-    global _WORKER
+    """Stop the helper: close its input and let it leave, or kill it (after a crash or time-out).
+
+    A helper still reading a file nobody asked for after all (a prefetch) is killed: its answer is not wanted.
+    """
+    global _WORKER, _PENDING
     worker, _WORKER = _WORKER, None
+    graceful, _PENDING = graceful and _PENDING is None, None
     if worker is None:
         return
     _close_pipes(worker)
@@ -155,8 +204,8 @@ def _stop_worker(graceful: bool = True) -> None:
 
 def _forget_parents_worker() -> None:
     """In a forked child: drop the parent's helper and lock without touching the helper itself."""
-    global _WORKER, _LOCK, _FINALIZED_PID
-    worker, _WORKER = _WORKER, None
+    global _WORKER, _LOCK, _FINALIZED_PID, _PENDING
+    worker, _WORKER, _PENDING = _WORKER, None, None
     _LOCK = threading.Lock()  # another thread of the parent may have held it at the fork
     _FINALIZED_PID = None
     if worker is not None:
@@ -207,6 +256,11 @@ def _kernel_path(path: str):
     yield path
 
 
+def _clear_pending() -> None:
+    global _PENDING
+    _PENDING = None
+
+
 def read_isolated(fmt: str, path: str, budget: ReadBudget | None = None) -> tuple[KernelShape, str]:
     """Run the ``fmt`` reader ("step" or "iges") on ``path`` in the helper process.
 
@@ -240,13 +294,17 @@ def read_isolated(fmt: str, path: str, budget: ReadBudget | None = None) -> tupl
     with _kernel_path(path) as kernel_path:
         request = pickle.dumps((fmt, kernel_path, memory, timeout))
         with _LOCK:
-            worker = _worker()
+            if _PENDING is not None and _PENDING != request:
+                _stop_worker(graceful=False)  # busy on a read ahead of another file or budget
+            worker, asked = _worker(), _PENDING == request
             try:
-                worker.stdin.write(len(request).to_bytes(HEADER_BYTES, "little") + request)
-                worker.stdin.flush()
+                if not asked:
+                    worker.stdin.write(len(request).to_bytes(HEADER_BYTES, "little") + request)
+                    worker.stdin.flush()
                 answer = _receive(worker, wall)
             except OSError:  # the pipe broke: the worker is gone
                 answer = "crashed"
+            _clear_pending()
             if isinstance(answer, str):
                 if answer == "crashed" and _over_processor_time(worker):
                     answer = "processor"
