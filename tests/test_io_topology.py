@@ -132,3 +132,23 @@ def test_iges_gap_is_not_sewn_shut(tmp_path):
     gapped = read_model(write_iges(_two_squares(0.02), tmp_path / "gapped.igs"))
     assert not any(len(set(e.faces)) == 2 for e in gapped.edges)
     assert len(gapped.faces) == 2
+
+
+def test_sewn_edges_sampled_from_their_source_edges_match_a_fresh_sampling(monkeypatch):
+    """Seeding a sewn edge with its source edge's sampling saves work and changes no point (bundled IGES sample)."""
+    from pathlib import Path
+
+    from geometry.kernel import occt_curves
+    from geometry.kernel.iges import read_iges
+
+    path = str(Path(__file__).parents[1] / "sample_surfaces" / "console_lid.igs")
+    seeded, _ = read_iges(path)
+    monkeypatch.setattr(occt_curves.EdgeParams, "seed", lambda self, edge, ts: None)
+    fresh, _ = read_iges(path)
+    assert len(seeded.edges) == len(fresh.edges) > 0
+    assert sum(len(e.uses) == 2 for e in seeded.edges) > 0
+    for a, b in zip(seeded.edges, fresh.edges, strict=True):
+        assert a.points.shape == b.points.shape
+        np.testing.assert_allclose(a.points, b.points, rtol=0, atol=1e-9)
+        for ua, ub in zip(a.uses, b.uses, strict=True):
+            np.testing.assert_allclose(ua.uv, ub.uv, rtol=0, atol=1e-12)

@@ -9,10 +9,9 @@ inverted onto the NURBS by the owner (:mod:`geometry.io.carry`).
 
 from __future__ import annotations
 
-import itertools
-
 import numpy as np
 
+from .fast_values import curve_values, kernel_values, surface_values
 from .shape import SurfaceArrays
 
 # Edges are sampled by arc length and refined until every chord, in 3-D and of
@@ -31,22 +30,6 @@ REFINE_ROUNDS = 14
 STRAIGHT_RTOL = 1e-12
 
 
-# The kernel evaluates one point per call from Python: plain floats in (tolist) and one flat
-# buffer out (fromiter) keep the Python around each call small, the bulk of a read's time.
-def _values(curve, ts: np.ndarray, width: int = 3) -> np.ndarray:
-    """A 3-D (``width`` 3) or 2-D (``width`` 2) curve at parameters ``ts`` of shape (n,), shape (n, width)."""
-    value, ts = curve.Value, np.asarray(ts, dtype=float).ravel().tolist()
-    flat = itertools.chain.from_iterable(value(t).Coord() for t in ts)
-    return np.fromiter(flat, float, count=width * len(ts)).reshape(-1, width)
-
-
-def _on_surface(surface, uv: np.ndarray) -> np.ndarray:
-    """A surface adaptor at (u, v) of shape (n, 2), shape (n, 3)."""
-    value, uv = surface.Value, np.asarray(uv, dtype=float).reshape(-1, 2).tolist()
-    flat = itertools.chain.from_iterable(value(a, b).Coord() for a, b in uv)
-    return np.fromiter(flat, float, count=3 * len(uv)).reshape(-1, 3)
-
-
 def _arc_length_params(curve, first: float, last: float, count: int) -> np.ndarray:
     """``count`` parameters evenly spaced in arc length (``GCPnts_UniformAbscissa``), ends included."""
     from OCP.GCPnts import GCPnts_UniformAbscissa
@@ -59,7 +42,9 @@ def _arc_length_params(curve, first: float, last: float, count: int) -> np.ndarr
     return np.linspace(first, last, count)
 
 
-def edge_params(edge, uses=()) -> tuple[np.ndarray, np.ndarray | None, list[tuple[np.ndarray, np.ndarray]] | None]:
+def edge_params(
+    edge, uses=(), surface_of=None, start=None
+) -> tuple[np.ndarray, np.ndarray | None, list[tuple[np.ndarray, np.ndarray]] | None]:
     """Parameters along an edge where its polylines (3-D and p-curves) are sampled, shape (n,).
 
     Parameters
@@ -67,6 +52,12 @@ def edge_params(edge, uses=()) -> tuple[np.ndarray, np.ndarray | None, list[tupl
     edge : OCP.TopoDS.TopoDS_Edge
     uses : sequence of (TopoDS_Edge, TopoDS_Face)
         The oriented edge on each face whose p-curve must be followed too.
+    surface_of : callable, optional
+        ``surface_of(face)``: the face's surface values
+        (:func:`.fast_values.surface_values`), when kept for several edges.
+    start : ndarray of shape (m,), optional
+        Parameters to refine from instead of the arc-length start: another
+        sampling of the same 3-D curve (the edge a sewn edge was made from).
 
     Returns
     -------
@@ -89,7 +80,8 @@ def edge_params(edge, uses=()) -> tuple[np.ndarray, np.ndarray | None, list[tupl
     gets as many points as its p-curves need on a curved face. A valid BRep
     edge is same-parameter (its p-curves share the 3-D curve's parameter), so
     one set of parameters serves every polyline. A collapsed edge gets a few
-    uniform ones.
+    uniform ones. Curves and surfaces are evaluated vectorised where their kind
+    allows (:mod:`.fast_values`).
     """
     from OCP.BRep import BRep_Tool
     from OCP.BRepAdaptor import BRepAdaptor_Curve, BRepAdaptor_Curve2d, BRepAdaptor_Surface
@@ -101,15 +93,17 @@ def edge_params(edge, uses=()) -> tuple[np.ndarray, np.ndarray | None, list[tupl
         return np.linspace(first, last, MIN_EDGE_SAMPLES), None, None
     first, last = BRep_Tool.Range_s(edge)
     curve = BRepAdaptor_Curve(edge)
+    on_edge = curve_values(curve, 3)
     try:
         length = float(GCPnts_AbscissaPoint.Length_s(curve, first, last))
     except Exception:  # the kernel's own failure on a bad curve: fall back to a rough length
-        length = float(np.linalg.norm(np.diff(_values(curve, np.linspace(first, last, 9)), axis=0), axis=1).sum())
+        length = float(np.linalg.norm(np.diff(kernel_values(curve, np.linspace(first, last, 9)), axis=0), axis=1).sum())
     bound = max(EDGE_CHORD_MM, EDGE_CHORD_RELATIVE * length)
-    ts = _arc_length_params(curve, first, last, START_EDGE_SAMPLES)
-    pcurves = [(BRepAdaptor_Curve2d(e, f), BRepAdaptor_Surface(f)) for e, f in uses]
-    points = _values(curve, ts)
-    traces = [_values(c2d, ts, 2) for c2d, _ in pcurves]
+    ts = _arc_length_params(curve, first, last, START_EDGE_SAMPLES) if start is None else np.asarray(start, float)
+    surface_of = surface_of or (lambda f: surface_values(BRepAdaptor_Surface(f)))
+    pcurves = [(curve_values(BRepAdaptor_Curve2d(e, f), 2), surface_of(f)) for e, f in uses]
+    points = on_edge(ts)
+    traces = [c2d(ts) for c2d, _ in pcurves]
     # Each p-curve's points on its surface, where the sag test evaluated them (NaN elsewhere): kept for the trims.
     on_surfaces = [np.full((ts.size, 3), np.nan) for _ in pcurves]
     # Only intervals new in a round are checked: one that passed once passes again.
@@ -117,11 +111,11 @@ def edge_params(edge, uses=()) -> tuple[np.ndarray, np.ndarray | None, list[tupl
     for _ in range(REFINE_ROUNDS):
         lo, hi = pending, pending + 1
         mid = 0.5 * (ts[lo] + ts[hi])
-        mid_points = _values(curve, mid)
+        mid_points = on_edge(mid)
         error = np.linalg.norm(mid_points - 0.5 * (points[lo] + points[hi]), axis=1)
         mid_traces, mid_on_surfaces = [], []
         for (c2d, surface), uv in zip(pcurves, traces, strict=True):
-            uv_mid = _values(c2d, mid, 2)
+            uv_mid = c2d(mid)
             chord_mid = 0.5 * (uv[lo] + uv[hi])
             # Where the p-curve's midpoint lies on its (u, v) chord (a line in the parameters,
             # as iso-curves and most edges of cylinders are), the surface holds no sag to measure.
@@ -130,8 +124,8 @@ def edge_params(edge, uses=()) -> tuple[np.ndarray, np.ndarray | None, list[tupl
             )
             sag, on_curve = np.zeros(mid.size), np.full((mid.size, 3), np.nan)
             if bent.any():
-                on_curve[bent] = _on_surface(surface, uv_mid[bent])
-                sag[bent] = np.linalg.norm(on_curve[bent] - _on_surface(surface, chord_mid[bent]), axis=1)
+                on_curve[bent] = surface(uv_mid[bent])
+                sag[bent] = np.linalg.norm(on_curve[bent] - surface(chord_mid[bent]), axis=1)
             error = np.maximum(error, sag)
             mid_traces.append(uv_mid)
             mid_on_surfaces.append(on_curve)
@@ -161,14 +155,40 @@ class EdgeParams:
     sampled once with every face's p-curve (:meth:`prime`), an edge serves
     them all, and its trim polylines and edge uses agree point for point.
     What the sampling evaluated (the 3-D curve, each p-curve) is kept, and
-    each p-curve's points on its surface are evaluated once (:meth:`trace`):
-    the kernel is called once per point, from Python, so evaluating twice
-    would cost as much again.
+    each p-curve's points on its surface are evaluated once (:meth:`trace`).
+    Each face's surface is read into its evaluator once (:meth:`surface`).
     """
 
     def __init__(self):
         # hash of the edge (orientation-free) -> [[edge, ts, 3-D points, [(oriented edge, face, uv, xyz)]]]
         self._found: dict[int, list] = {}
+        # hash of the face -> [(face, its surface's values)]
+        self._surfaces: dict[int, list] = {}
+        # hash of the edge -> [(edge, parameters its sampling starts from)]
+        self._starts: dict[int, list] = {}
+
+    def seed(self, edge, ts: np.ndarray) -> None:
+        """Start ``edge``'s sampling from ``ts`` of shape (m,) (a sampling of the same 3-D curve), not from scratch."""
+        self._starts.setdefault(hash(edge), []).append((edge, ts))
+
+    def _start(self, edge) -> np.ndarray | None:
+        return next((ts for known, ts in self._starts.get(hash(edge), ()) if known.IsSame(edge)), None)
+
+    def sampled(self, edge) -> np.ndarray | None:
+        """The parameters ``edge`` was sampled at, shape (n,), or None when it has not been sampled."""
+        return next((entry[1] for entry in self._found.get(hash(edge), ()) if entry[0].IsSame(edge)), None)
+
+    def surface(self, face):
+        """The face's surface values (:func:`.fast_values.surface_values`), built once per face."""
+        from OCP.BRepAdaptor import BRepAdaptor_Surface
+
+        bucket = self._surfaces.setdefault(hash(face), [])
+        for known, values in bucket:
+            if known.IsSame(face):
+                return values
+        values = surface_values(BRepAdaptor_Surface(face))
+        bucket.append((face, values))
+        return values
 
     def prime(self, edge, uses) -> None:
         """Sample ``edge`` for ``uses`` now; a failure is left to the caller that needs it."""
@@ -182,7 +202,7 @@ class EdgeParams:
         for entry in bucket:
             if entry[0].IsSame(edge):
                 return entry
-        ts, points, traces = edge_params(edge, uses)
+        ts, points, traces = edge_params(edge, uses, self.surface, self._start(edge))
         known = [] if traces is None else [[e, f, uv, xyz] for (e, f), (uv, xyz) in zip(uses, traces, strict=True)]
         entry = [edge, ts, points, known]
         bucket.append(entry)
@@ -210,7 +230,6 @@ class EdgeParams:
         xyz : ndarray of shape (n, 3)
         """
         from OCP.BRep import BRep_Tool
-        from OCP.BRepAdaptor import BRepAdaptor_Surface
 
         entry = self._entry(edge, [(edge, face)])
         for known in entry[3]:
@@ -223,7 +242,7 @@ class EdgeParams:
             entry[3].append(known)
         missing = np.isnan(known[3]).any(axis=1)
         if missing.any():  # evaluated once: the next face side along this edge reads them
-            known[3][missing] = _on_surface(BRepAdaptor_Surface(face), known[2][missing])
+            known[3][missing] = self.surface(face)(known[2][missing])
         return known[2], known[3]
 
 
@@ -238,14 +257,14 @@ def pcurve_points(edge, face, ts: np.ndarray) -> np.ndarray:
     """
     from OCP.BRepAdaptor import BRepAdaptor_Curve2d
 
-    return _values(BRepAdaptor_Curve2d(edge, face), ts, 2)
+    return curve_values(BRepAdaptor_Curve2d(edge, face), 2)(ts)
 
 
 def edge_points(edge, ts: np.ndarray) -> np.ndarray:
     """The edge's 3-D curve (placed) at parameters ``ts``, shape (n, 3)."""
     from OCP.BRepAdaptor import BRepAdaptor_Curve
 
-    return _values(BRepAdaptor_Curve(edge), ts)
+    return curve_values(BRepAdaptor_Curve(edge), 3)(ts)
 
 
 class InputFace:

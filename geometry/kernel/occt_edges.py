@@ -17,6 +17,9 @@ curve and are not listed.
 
 from __future__ import annotations
 
+import numpy as np
+
+from .fast_values import kernel_values
 from .occt_curves import EdgeParams, InputFace
 from .shape import KernelEdge, KernelUse
 
@@ -24,6 +27,8 @@ from .shape import KernelEdge, KernelUse
 # topology); well below the 0.01 mm a G0 check commonly asks (common practice),
 # so a real gap stays a gap.
 SEW_TOLERANCE_MM = 1e-3
+# A sewn edge and its source edge are one curve when they agree this closely at the same parameters (rounding).
+SAME_CURVE_MM = 1e-9
 
 
 def indexed_map(shape, kind):
@@ -108,16 +113,45 @@ def shared_edges(
     return edges
 
 
-def sewn_edges(faces_map, kept: dict[int, tuple[int, InputFace]]) -> list[KernelEdge]:
-    """Shared edges of loose faces, from a sewn copy (``BRepBuilderAPI_Sewing``)."""
+def _same_curve(edge, other, ts: np.ndarray) -> bool:
+    """Whether two edges run along the same 3-D curve with the same parameters (checked at a few of ``ts``)."""
+    from OCP.BRep import BRep_Tool
+    from OCP.BRepAdaptor import BRepAdaptor_Curve
+
+    if not np.allclose(BRep_Tool.Range_s(edge), BRep_Tool.Range_s(other), rtol=0, atol=1e-12):
+        return False
+    at = ts[np.linspace(0, ts.size - 1, min(ts.size, 5)).astype(int)]
+    here, there = kernel_values(BRepAdaptor_Curve(edge), at), kernel_values(BRepAdaptor_Curve(other), at)
+    return bool(np.abs(here - there).max() <= SAME_CURVE_MM)
+
+
+def sewn_edges(
+    faces_map, kept: dict[int, tuple[int, InputFace]], params: EdgeParams | None = None, listing=None
+) -> list[KernelEdge]:
+    """Shared edges of loose faces, from a sewn copy (``BRepBuilderAPI_Sewing``).
+
+    ``params`` and ``listing``: the loose faces' own edges as already sampled
+    (:func:`edge_uses`). Sewing keeps one of the two 3-D curves it joins, so a
+    sewn edge starts its sampling from its source edge's, and only the other
+    face's new p-curve may ask for more points.
+    """
     from OCP.BRepBuilderAPI import BRepBuilderAPI_Sewing
     from OCP.TopAbs import TopAbs_FACE
+    from OCP.TopoDS import TopoDS
 
     sewing = BRepBuilderAPI_Sewing(SEW_TOLERANCE_MM)
     for i in kept:
         sewing.Add(faces_map.FindKey(i + 1))
     sewing.Perform()
     sewn = sewing.SewedShape()
+    seeded = EdgeParams()
+    for edge, _ in listing or ():
+        ts = params.sampled(edge) if params is not None else None
+        if ts is None or ts.size < 2:
+            continue
+        joined = TopoDS.Edge(sewing.ModifiedSubShape(edge)) if sewing.IsModifiedSubShape(edge) else edge
+        if _same_curve(edge, joined, ts):
+            seeded.seed(joined, ts)
     sewn_faces = indexed_map(sewn, TopAbs_FACE)
     sewn_kept = {}
     for i, entry in kept.items():
@@ -125,4 +159,4 @@ def sewn_edges(faces_map, kept: dict[int, tuple[int, InputFace]]) -> list[Kernel
         j = sewn_faces.FindIndex(sewing.Modified(face) if sewing.IsModified(face) else face) - 1
         if j >= 0:
             sewn_kept[j] = entry
-    return shared_edges(sewn, sewn_faces, sewn_kept)
+    return shared_edges(sewn, sewn_faces, sewn_kept, seeded)

@@ -166,7 +166,7 @@ def read_shape(shape, namer: Namer | None = None, sew: bool = False) -> KernelSh
             raise topology_error
         out.edges = shared_edges(shape, faces_map, kept, params, listing)
         if sew and kept and not any(len(e.uses) > 1 for e in out.edges):
-            out.edges = sewn_edges(faces_map, kept)
+            out.edges = sewn_edges(faces_map, kept, params, listing)
     except Exception as exc:  # topology is a bonus: keep the faces
         out.warnings.append(f"shared-edge topology not read: {_kernel_reason(exc)}")
     return out

@@ -6,7 +6,8 @@ Gauss-Newton where the Hessian is not positive definite, a small
 Levenberg-Marquardt damping (a collapsed pole makes the Jacobian singular),
 projected steps on the domain's bounds, a trust region, and step halving when
 a step would move away from the point. Each point iterates on its own, so a
-point that has converged costs nothing more. The derivatives of the last
+point that has converged costs nothing more, and large batches run in
+blocks on threads. The derivatives of the last
 iteration are handed back with the foot (:func:`invert_with_derivatives`), so a
 caller measuring at the foot evaluates nothing more.
 """
@@ -16,7 +17,16 @@ from __future__ import annotations
 import numba as nb
 import numpy as np
 
-from .compiled_eval import JIT_OPTIONS, MAX_ORDER, SurfacePack, binomials, homogeneous_at, make_scratch, rational_at
+from .compiled_eval import (
+    JIT_OPTIONS,
+    MAX_ORDER,
+    SurfacePack,
+    binomials,
+    homogeneous_at,
+    make_scratch,
+    rational_at,
+    run_row_blocks,
+)
 
 # Newton stops when the parameter step is below this fraction of the domain.
 STEP_RTOL = 1e-14
@@ -29,6 +39,8 @@ BACKTRACKS = 8
 ACCEPT_RTOL = 1e-9
 # Largest step per iteration, as a fraction of the domain (a trust region).
 MAX_STEP = 0.25
+# Fewer points than this are inverted on one thread (a thread hand-off costs more).
+THREADED_POINTS = 2000
 
 
 @nb.njit(**JIT_OPTIONS)
@@ -218,5 +230,14 @@ def invert_with_derivatives(
     if int(orders.min(initial=0)) < 0 or top > MAX_ORDER:
         raise ValueError(f"derivative orders must lie in 0..{MAX_ORDER}")
     out = np.zeros((top + 1, top + 1, uu.size, 3))
-    invert_kernel(pack.arrays, pack.domains, sids, pts, uu, vv, int(iterations), pack.max_degree, orders, out)
+
+    def work(r0: int, r1: int) -> None:
+        part = slice(r0, r1)
+        invert_kernel(
+            pack.arrays, pack.domains, sids[part], pts[part], uu[part], vv[part],
+            int(iterations), pack.max_degree, orders[part], out[:, :, part],
+        )  # fmt: skip
+
+    # every point iterates on its own: blocks of points run on threads (the kernel releases the GIL)
+    run_row_blocks(work, uu.size, None if uu.size >= THREADED_POINTS else 1)
     return uu, vv, out
