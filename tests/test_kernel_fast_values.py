@@ -135,8 +135,8 @@ def test_a_form_that_disagrees_with_the_kernel_is_not_used(monkeypatch):
 
 
 def test_a_bezier_face_agrees_with_the_kernel():
-    from OCP.Geom import Geom_BezierSurface
     from OCP.collections import Array2_gp_Pnt
+    from OCP.Geom import Geom_BezierSurface
 
     poles = Array2_gp_Pnt(1, 3, 1, 4)
     for i in range(3):
