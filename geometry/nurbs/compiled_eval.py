@@ -477,6 +477,7 @@ def grid_basis(surface, u: np.ndarray, v: np.ndarray, order: int):
 
 _POOLS: dict[tuple[int, int], ThreadPoolExecutor] = {}
 _POOLS_LOCK = threading.Lock()
+_POOL_PREFIX = "batten-rows"
 
 
 def _pool(workers: int) -> ThreadPoolExecutor:
@@ -487,7 +488,7 @@ def _pool(workers: int) -> ThreadPoolExecutor:
     key = (os.getpid(), workers)
     with _POOLS_LOCK:
         if key not in _POOLS:
-            _POOLS[key] = ThreadPoolExecutor(workers, thread_name_prefix="batten-rows")
+            _POOLS[key] = ThreadPoolExecutor(workers, thread_name_prefix=_POOL_PREFIX)
         return _POOLS[key]
 
 
@@ -517,7 +518,10 @@ def run_row_blocks(
         count = max(count, -(-rows // max_rows))
     edges = np.linspace(0, rows, count + 1).astype(np.int64)
     blocks = [(int(r0), int(r1)) for r0, r1 in zip(edges[:-1], edges[1:], strict=True) if r1 > r0]
-    if workers > 1 and len(blocks) > 1:
+    # A block that itself asks for blocks (a pool thread) runs them inline: waiting on its own
+    # pool could leave every thread waiting.
+    nested = threading.current_thread().name.startswith(_POOL_PREFIX)
+    if workers > 1 and len(blocks) > 1 and not nested:
         list(_pool(workers).map(lambda block: work(*block), blocks))
     else:
         for block in blocks:
