@@ -9,10 +9,12 @@ status 2; nothing the user did wrong ends in a traceback.
 from __future__ import annotations
 
 import argparse
+import atexit
 import importlib
 import os
 import signal
 import sys
+import threading
 import warnings
 
 from geometry import BattenError, __version__
@@ -32,9 +34,17 @@ COMMANDS: dict[str, tuple[str, str]] = {
 DEFAULT_COMMAND = "open"
 
 EXIT_OK, EXIT_FINDINGS, EXIT_BAD_INPUT, EXIT_INTERNAL = 0, 1, 2, 3
+# Names of the threads that run compiled blocks (idle once a command is done).
+COMPUTE_THREADS = "batten-"
 
 
-def _parser() -> argparse.ArgumentParser:
+def _parser(command: str | None = None) -> argparse.ArgumentParser:
+    """The command line's parser; only ``command``'s module is imported and given its options.
+
+    A command's options pull in what it runs (the review's modules for
+    ``check``), so building every command's would cost each run the imports of
+    all; the others are listed with their one-line help.
+    """
     parser = argparse.ArgumentParser(
         prog="batten",
         description="Inspect the fairness of NURBS surfaces: curvature, reflections, seams, reports. "
@@ -44,6 +54,8 @@ def _parser() -> argparse.ArgumentParser:
     subs = parser.add_subparsers(dest="command", metavar="COMMAND")
     for name, (module_name, help_text) in COMMANDS.items():
         sub = subs.add_parser(name, help=help_text, description=help_text)
+        if name != command:
+            continue
         try:
             module = importlib.import_module(module_name)
         except ModuleNotFoundError as exc:
@@ -96,11 +108,37 @@ def main(argv: list[str] | None = None) -> int:
         return _main(list(argv))
     _as_a_program(sys.argv[1:])
     try:
-        return _main(sys.argv[1:])
+        status = _main(sys.argv[1:])
     except KeyboardInterrupt:
-        return 130
+        status = 130
     finally:
         _leaving()
+    _leave_now(sys.argv[1:], status)
+    return status
+
+
+def _leave_now(argv: list[str], status: int) -> None:
+    """End a headless command here: exit handlers run, the interpreter's modules are not torn down.
+
+    Everything the command writes is written and closed by now (atomically,
+    see :func:`geometry.io.files.write_atomically`), so tearing down numba,
+    scipy and the rest would only keep the user waiting (a third of a second).
+    The window keeps the interpreter's own exit (Qt saves its settings as it
+    is torn down), and so does a process with other work still running (a
+    thread that is not one of the idle compute threads).
+    """
+    if not argv or argv[0] not in COMMANDS or argv[0] == DEFAULT_COMMAND:
+        return
+    others = [t for t in threading.enumerate() if t is not threading.current_thread() and t.is_alive()]
+    if any(not t.daemon and not t.name.startswith(COMPUTE_THREADS) for t in others):
+        return
+    for stream in (sys.stdout, sys.stderr):
+        try:
+            stream.flush()
+        except (OSError, ValueError, AttributeError):  # closed, or gone (a broken pipe)
+            pass
+    atexit._run_exitfuncs()  # the helper stopped, temporary files removed, finalisers run
+    os._exit(status)
 
 
 # Commands that read their one model file as their first work.
@@ -136,7 +174,7 @@ def _main(argv: list[str]) -> int:
     if argv and not argv[0].startswith("-") and argv[0] not in COMMANDS:
         argv.insert(0, DEFAULT_COMMAND)
     _start_reader_early(argv)
-    parser = _parser()
+    parser = _parser(argv[0] if argv else None)
     args = parser.parse_args(argv)
     if args.command is None:
         parser.print_help()

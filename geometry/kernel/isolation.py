@@ -98,7 +98,7 @@ def _stop_at_exit() -> None:
     global _FINALIZED_PID
     if _FINALIZED_PID != os.getpid():
         _FINALIZED_PID = os.getpid()
-        multiprocessing.util.Finalize(None, _stop_worker, exitpriority=_FINALIZE_PRIORITY)
+        multiprocessing.util.Finalize(None, _stop_worker_at_exit, exitpriority=_FINALIZE_PRIORITY)
 
 
 def _worker() -> subprocess.Popen:
@@ -213,7 +213,13 @@ def _forget_parents_worker() -> None:
         worker.returncode = 0  # not our child: never wait for it
 
 
-atexit.register(_stop_worker)
+def _stop_worker_at_exit() -> None:
+    """At exit, the helper is killed: it holds nothing to save, and leaving gracefully (the kernel's
+    libraries torn down) would keep this process waiting a third of a second more."""
+    _stop_worker(graceful=False)
+
+
+atexit.register(_stop_worker_at_exit)
 os.register_at_fork(after_in_child=_forget_parents_worker)
 
 
