@@ -95,8 +95,9 @@ def _contents(path: str, fmt: str, data: bytes, budget: ReadBudget | None) -> tu
 
         return read_geomdl_json(path, data), "mm"
     from ..nurbs.compiled_warm import warm_up_in_background
+    from ..tooling.draft import warm_up_draft
 
-    warm_up_in_background()  # load the compiled kernels while the helper process reads
+    warm_up_in_background(warm_up_draft)  # load the compiled kernels while the helper process reads
     check_numbers(path, fmt, data)
     shape, units = read_isolated(fmt, path, budget)
     return on_nurbs(shape), units

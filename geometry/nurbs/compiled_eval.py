@@ -300,7 +300,7 @@ def derivatives(pack: SurfacePack, sids: np.ndarray, u: np.ndarray, v: np.ndarra
     """
     u = np.ascontiguousarray(u, dtype=float).ravel()
     v = np.ascontiguousarray(v, dtype=float).ravel()
-    sids = np.ascontiguousarray(np.broadcast_to(sids, u.shape), dtype=np.int64)
+    sids = np.array(np.broadcast_to(sids, u.shape), dtype=np.int64)  # writable: one compiled signature
     out = np.zeros((order + 1, order + 1, u.size, 3))
     derivatives_kernel(pack.arrays, sids, u, v, int(order), pack.max_degree, out)
     return out
@@ -338,7 +338,7 @@ def knot_spans(pack: SurfacePack, sids: np.ndarray, u: np.ndarray, v: np.ndarray
     """
     u = np.ascontiguousarray(u, dtype=float).ravel()
     v = np.ascontiguousarray(v, dtype=float).ravel()
-    sids = np.ascontiguousarray(np.broadcast_to(sids, u.shape), dtype=np.int64)
+    sids = np.array(np.broadcast_to(sids, u.shape), dtype=np.int64)  # writable: one compiled signature
     out = np.zeros((u.size, 2), dtype=np.int64)
     knot_spans_kernel(pack.arrays, sids, u, v, out)
     return out

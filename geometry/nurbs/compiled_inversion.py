@@ -57,8 +57,9 @@ def _distance2(arrays, sid, u, v, target, hom, scratch):
 def invert_kernel(arrays, domains, sids, targets, u, v, iterations, max_degree, orders, out):
     """Refine ``u``, ``v`` in place towards the feet of ``targets`` (k, 3).
 
-    ``out[k, l, i]`` receives S_kl at the foot for ``k + l <= orders[i]``
-    (``out`` of shape (o+1, o+1, k, 3), o the largest order asked): the
+    ``out[i, k, l]`` receives S_kl at the foot for ``k + l <= orders[i]``
+    (``out`` of shape (n, o+1, o+1, 3), o the largest order asked; points first, so a
+    block of points is a contiguous slice): the
     derivatives of the last Newton iteration, so the foot costs no further
     evaluation unless a third order is asked.
     """
@@ -149,7 +150,7 @@ def invert_kernel(arrays, domains, sids, targets, u, v, iterations, max_degree, 
         for k in range(order + 1):
             for l in range(order + 1 - k):
                 for c in range(3):
-                    out[k, l, i, c] = ders[k, l, c]
+                    out[i, k, l, c] = ders[k, l, c]
 
 
 def invert(
@@ -224,20 +225,20 @@ def invert_with_derivatives(
     pts = np.ascontiguousarray(points, dtype=float).reshape(-1, 3)
     uu = np.array(u, dtype=float).ravel()
     vv = np.array(v, dtype=float).ravel()
-    sids = np.ascontiguousarray(np.broadcast_to(sids, uu.shape), dtype=np.int64)
-    orders = np.ascontiguousarray(np.broadcast_to(orders, uu.shape), dtype=np.int64)
+    sids = np.array(np.broadcast_to(sids, uu.shape), dtype=np.int64)  # writable: one compiled signature
+    orders = np.array(np.broadcast_to(orders, uu.shape), dtype=np.int64)  # writable: one compiled signature
     top = int(orders.max(initial=0))
     if int(orders.min(initial=0)) < 0 or top > MAX_ORDER:
         raise ValueError(f"derivative orders must lie in 0..{MAX_ORDER}")
-    out = np.zeros((top + 1, top + 1, uu.size, 3))
+    out = np.zeros((uu.size, top + 1, top + 1, 3))
 
     def work(r0: int, r1: int) -> None:
         part = slice(r0, r1)
         invert_kernel(
             pack.arrays, pack.domains, sids[part], pts[part], uu[part], vv[part],
-            int(iterations), pack.max_degree, orders[part], out[:, :, part],
+            int(iterations), pack.max_degree, orders[part], out[part],
         )  # fmt: skip
 
     # every point iterates on its own: blocks of points run on threads (the kernel releases the GIL)
     run_row_blocks(work, uu.size, None if uu.size >= THREADED_POINTS else 1)
-    return uu, vv, out
+    return uu, vv, np.moveaxis(out, 0, 2)

@@ -242,7 +242,7 @@ def _frames(pack, sids, u: np.ndarray, v: np.ndarray, signs: np.ndarray, floors:
     outs = empty_outputs(u.size)
     scattered_kernel(
         pack.arrays,
-        np.ascontiguousarray(np.broadcast_to(sids, u.shape), dtype=np.int64),
+        np.array(np.broadcast_to(sids, u.shape), dtype=np.int64),  # writable: one compiled signature
         np.ascontiguousarray(u, dtype=float),
         np.ascontiguousarray(v, dtype=float),
         np.asarray(signs, dtype=float).reshape(-1),

@@ -307,3 +307,12 @@ def draft_at(surface: NurbsSurface, u: np.ndarray, v: np.ndarray, pull, reversed
     if not ok.all():
         normals[~ok] = _limit_normals(surface, u[~ok], v[~ok], sign, floor)
     return draft_angles(normals, d)
+
+
+def warm_up_draft() -> None:
+    """Call the compiled draft kernel once on a tiny grid (loads it from its cache, or compiles it)."""
+    from ..nurbs.primitives import bilinear
+
+    surface = bilinear(np.array([[0, 0, 0], [0, 1, 0], [1, 0, 0], [1, 1, 0.5]], float))
+    u = np.array([0.25, 0.75])
+    draft_on_grid(surface, u, u, (0.0, 0.0, 1.0), workers=1)
