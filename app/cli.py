@@ -12,6 +12,7 @@ import argparse
 import atexit
 import importlib
 import os
+import re
 import signal
 import sys
 import threading
@@ -34,6 +35,8 @@ COMMANDS: dict[str, tuple[str, str]] = {
 DEFAULT_COMMAND = "open"
 
 EXIT_OK, EXIT_FINDINGS, EXIT_BAD_INPUT, EXIT_INTERNAL = 0, 1, 2, 3
+# A negative number as a value, scientific notation included (argparse's own pattern knows no exponent).
+NUMBER = re.compile(r"^-(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$|^-(inf|nan)$", re.IGNORECASE)
 # Names of the threads that run compiled blocks (idle once a command is done).
 COMPUTE_THREADS = "batten-"
 
@@ -54,6 +57,8 @@ def _parser(command: str | None = None) -> argparse.ArgumentParser:
     subs = parser.add_subparsers(dest="command", metavar="COMMAND")
     for name, (module_name, help_text) in COMMANDS.items():
         sub = subs.add_parser(name, help=help_text, description=help_text)
+        # argparse takes "-1e-08" for an option (it knows "-1" and "-0.5" only): coordinates are numbers
+        sub._negative_number_matcher = NUMBER
         if name != command:
             continue
         try:

@@ -35,3 +35,12 @@ def test_summary_table_and_bad_file(tmp_path, capsys):
     empty.write_bytes(b"")
     assert main(["summary", str(empty)]) == EXIT_BAD_INPUT
     assert "empty" in capsys.readouterr().err
+
+
+def test_probe_takes_negative_coordinates_in_scientific_notation(tmp_path, capsys):
+    """``--at -1e-08 -4.5 -.5``: argparse alone reads "-1e-08" as an option; a coordinate is a number."""
+    path = write_iges(cylinder(4.0, 10.0), tmp_path / "can.igs")
+    assert main(["probe", path, "--at", "-1e-08", "-4.5E+00", "-.5"]) == 0
+    doc = json.loads(capsys.readouterr().out)
+    # 0.5 mm outside the side (radius 4) and 0.5 mm below the bottom cap (z = 0): the nearest point is their rim
+    assert doc["distance"] == pytest.approx(0.5 * 2**0.5, abs=1e-6)
