@@ -7,9 +7,10 @@ when that folder is present) this prints, best of ``--repeats`` runs:
   kernel, read, transfer, and convert every face to a B-spline surface
   (``BRepBuilderAPI_NurbsConvert``, poles and knots pulled out); the import is
   shown apart;
-- ``read cold``: ``read_model`` in a fresh process, the helper process started
-  first as Batten's commands do (the kernel imported, compiled kernels loaded
-  from their cache);
+- ``read cold``: ``read_model`` in a fresh process, the read sent to the helper
+  process before the imports as Batten's commands do
+  (:func:`geometry.kernel.isolation.prefetch`; compiled kernels loaded from
+  their cache);
   ``read warm``: a second ``read_model`` of the file in that process;
 - ``seams``: ``check_seams`` on the loaded model (warm);
 - ``check``: ``batten check FILE`` as a user runs it (a fresh process, no sections);
@@ -69,8 +70,9 @@ print(json.dumps({"import": t1 - t0, "work": t2 - t1, "faces": faces}))
 BATTEN_SCRIPT = r"""
 import json, sys, time
 t0 = time.perf_counter()
-from geometry.kernel.isolation import start_helper
-start_helper()  # as every Batten command that reads one file does, before its own imports
+from geometry.kernel.isolation import prefetch
+# as every Batten command that reads one file does: the read is sent to the helper before the imports
+prefetch("iges" if sys.argv[1].lower().endswith((".igs", ".iges")) else "step", sys.argv[1])
 from geometry.io import read_model
 model = read_model(sys.argv[1])
 t1 = time.perf_counter()

@@ -93,17 +93,26 @@ def _wrap(t: np.ndarray, start: float, period: float | None) -> np.ndarray:
 
 
 def _bspline_curve(knots, degree, poles, weights, period) -> Evaluator:
-    """A B-spline curve, The NURBS Book A4.1 (rational: homogeneous coordinates), vectorised."""
+    """A B-spline curve, The NURBS Book A4.1 (rational: homogeneous coordinates), vectorised.
+
+    Summed about the first pole of each point's span: a coordinate the span's
+    poles share (the u of an iso-parameter p-curve) comes out exactly, as the
+    kernel gives it, not within rounding of it (seams and trims tell iso-lines
+    by exact equality).
+    """
     start = knots[degree]
     offsets = np.arange(degree + 1)
 
     def values(ts: np.ndarray) -> np.ndarray:
         span, n = basis(knots, degree, _wrap(np.asarray(ts, dtype=float).ravel(), start, period))
         index = span[:, None] - degree + offsets
+        local = poles[index]
+        base = local[:, 0]
+        local = local - base[:, None]
         if weights is not None:
             n = n * weights[index]
-            return np.einsum("nk,nkd->nd", n, poles[index]) / n.sum(axis=1)[:, None]
-        return np.einsum("nk,nkd->nd", n, poles[index])
+            return base + np.einsum("nk,nkd->nd", n, local) / n.sum(axis=1)[:, None]
+        return base + np.einsum("nk,nkd->nd", n, local)
 
     return values
 
@@ -112,6 +121,8 @@ def _bspline_surface(arrays, periods) -> Evaluator:
     """A NURBS surface, The NURBS Book A4.3 (rational: homogeneous coordinates), vectorised."""
     p, q, ku, kv, poles, weights = arrays
     du, dv = np.arange(p + 1), np.arange(q + 1)
+    base = poles[0, 0].copy()  # summed about the first pole, as the curves are
+    poles = poles - base
 
     def values(uv: np.ndarray) -> np.ndarray:
         uv = np.asarray(uv, dtype=float).reshape(-1, 2)
@@ -122,8 +133,8 @@ def _bspline_surface(arrays, periods) -> Evaluator:
         w = nu[:, :, None] * nv[:, None, :]
         if weights is not None:
             w = w * weights[iu, iv]
-            return np.einsum("nij,nijd->nd", w, poles[iu, iv]) / w.sum(axis=(1, 2))[:, None]
-        return np.einsum("nij,nijd->nd", w, poles[iu, iv])
+            return base + np.einsum("nij,nijd->nd", w, poles[iu, iv]) / w.sum(axis=(1, 2))[:, None]
+        return base + np.einsum("nij,nijd->nd", w, poles[iu, iv])
 
     return values
 
@@ -163,12 +174,12 @@ def _frame(ax, dim: int) -> tuple[np.ndarray, ...]:
 
 
 def _conic(ax, dim: int, a: float, b: float) -> Evaluator:
-    """Circle (a = b = R) or ellipse: C + a cos t X + b sin t Y (OCCT ``ElCLib``)."""
+    """Circle (a = b = R) or ellipse: (a cos t) X + (b sin t) Y + C, in the kernel's order (OCCT ``ElCLib``)."""
     origin, x, y, _ = _frame(ax, dim)
 
     def values(ts: np.ndarray) -> np.ndarray:
         ts = np.asarray(ts, dtype=float).ravel()[:, None]
-        return origin + a * np.cos(ts) * x + b * np.sin(ts) * y
+        return ((a * np.cos(ts)) * x + (b * np.sin(ts)) * y) + origin
 
     return values
 
@@ -178,7 +189,7 @@ def _line(line) -> Evaluator:
     direction = np.array(line.Direction().Coord(), dtype=float)
 
     def values(ts: np.ndarray) -> np.ndarray:
-        return origin + np.asarray(ts, dtype=float).ravel()[:, None] * direction
+        return np.asarray(ts, dtype=float).ravel()[:, None] * direction + origin
 
     return values
 
