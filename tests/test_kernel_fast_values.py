@@ -160,3 +160,24 @@ def test_basis_functions_sum_to_one_and_match_the_nurbs_book_example():
     t = RNG.uniform(0.0, 5.0, 200)
     _, values = fast_values.basis(knots, 2, t)
     np.testing.assert_allclose(values.sum(axis=1), 1.0)
+
+
+def test_an_iso_parameter_pcurve_keeps_its_constant_coordinate_exactly():
+    """Seams tell iso-lines by exact equality of u (or v): the fast form must not add rounding to it."""
+    from OCP.collections import Array1_double, Array1_gp_Pnt2d, Array1_int
+    from OCP.Geom2d import Geom2d_BSplineCurve
+    from OCP.Geom2dAdaptor import Geom2dAdaptor_Curve
+    from OCP.gp import gp_Pnt2d
+
+    u0 = 0.1  # not a binary fraction
+    ys = [0.0, 0.37, 1.1, 1.9, 2.3, 3.0]
+    poles = Array1_gp_Pnt2d(1, len(ys))
+    for i, y in enumerate(ys):
+        poles.SetValue(i + 1, gp_Pnt2d(u0, y))
+    knots, mults = Array1_double(1, 4), Array1_int(1, 4)
+    for i, (k, m) in enumerate(zip([0.0, 0.3, 0.7, 1.0], [4, 1, 1, 4], strict=True)):
+        knots.SetValue(i + 1, k)
+        mults.SetValue(i + 1, m)
+    fast = fast_values._fast_curve(Geom2dAdaptor_Curve(Geom2d_BSplineCurve(poles, knots, mults, 3)), 2)
+    uv = fast(np.linspace(0.0, 1.0, 1001))
+    assert np.all(uv[:, 0] == u0)
