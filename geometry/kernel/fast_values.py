@@ -244,32 +244,24 @@ def _elementary(kind: str, ax, *sizes: float) -> Evaluator:
     return values
 
 
+# The elementary surfaces by kind: their name here, the adaptor's accessor and the sizes read from it.
+_ELEMENTARY = {
+    "GeomAbs_Plane": ("plane", "Plane", ()),
+    "GeomAbs_Cylinder": ("cylinder", "Cylinder", ("Radius",)),
+    "GeomAbs_Cone": ("cone", "Cone", ("RefRadius", "SemiAngle")),
+    "GeomAbs_Sphere": ("sphere", "Sphere", ("Radius",)),
+    "GeomAbs_Torus": ("torus", "Torus", ("MajorRadius", "MinorRadius")),
+}
+
+
 def _fast_surface(adaptor) -> Evaluator | None:
-    from OCP.GeomAbs import (
-        GeomAbs_BezierSurface,
-        GeomAbs_BSplineSurface,
-        GeomAbs_Cone,
-        GeomAbs_Cylinder,
-        GeomAbs_Plane,
-        GeomAbs_Sphere,
-        GeomAbs_Torus,
-    )
+    from OCP.GeomAbs import GeomAbs_BezierSurface, GeomAbs_BSplineSurface
 
     kind = adaptor.GetType()
-    if kind == GeomAbs_Plane:
-        return _elementary("plane", adaptor.Plane().Position())
-    if kind == GeomAbs_Cylinder:
-        s = adaptor.Cylinder()
-        return _elementary("cylinder", s.Position(), s.Radius())
-    if kind == GeomAbs_Cone:
-        s = adaptor.Cone()
-        return _elementary("cone", s.Position(), s.RefRadius(), s.SemiAngle())
-    if kind == GeomAbs_Sphere:
-        s = adaptor.Sphere()
-        return _elementary("sphere", s.Position(), s.Radius())
-    if kind == GeomAbs_Torus:
-        s = adaptor.Torus()
-        return _elementary("torus", s.Position(), s.MajorRadius(), s.MinorRadius())
+    if kind.name in _ELEMENTARY:
+        name, accessor, sizes = _ELEMENTARY[kind.name]
+        form = getattr(adaptor, accessor)()
+        return _elementary(name, form.Position(), *(getattr(form, size)() for size in sizes))
     if kind == GeomAbs_BSplineSurface:
         surface = adaptor.BSpline()
         periods = (
