@@ -374,7 +374,10 @@ class MainWindow(QMainWindow):
     def _model_changed(self, _topic) -> None:
         self._remove_plane_widget()
         self.scene.rebuild()
-        self.view.view_isometric()
+        # the isometric direction, then the fit that leaves the legend its room (pyvista's own fit
+        # after a view change does not: a wide model ran past the left edge of the view)
+        self.view.view_isometric(render=False)
+        self.scene.fit()
         self._remember_camera()
         if self.session.section.enabled:
             self._add_plane_widget()

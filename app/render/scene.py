@@ -93,6 +93,7 @@ class Scene:
         self._stripe_table = None
         self._stripe_limits: tuple[float, float] | None = None
         self._stripe_share: float | None = None
+        self._fitted: tuple[tuple, bool] | None = None
         plotter.set_background(colours.BACKGROUND_BOTTOM, top=colours.BACKGROUND_TOP)
         if not getattr(plotter, "off_screen", False):
             # Multisampling smooths triangle edges only; FXAA also smooths stripe edges inside triangles
@@ -112,6 +113,8 @@ class Scene:
         self.actors.clear()
         self.surface_actor = None
         self.faces = None
+        # the camera right after the last fit, and whether that fit left room for a legend
+        self._fitted = None
         self._locator = None
         if self.session.model is None:
             return
@@ -126,6 +129,7 @@ class Scene:
         """Fit the whole model in the view, keeping the viewing direction, in the room the legend leaves."""
         self.plotter.reset_camera()
         if self.legend is None:
+            self._fitted = (self._camera_key(), False)
             return
         cam = self.plotter.camera
         width, height = self.plotter.render_window.GetSize()
@@ -135,6 +139,7 @@ class Scene:
         else:
             cam.Dolly(1.0 / farther)
         self.plotter.reset_camera_clipping_range()
+        self._fitted = (self._camera_key(), True)
 
     def _remove_legend(self) -> None:
         # Remove rather than hide: pyvista shares one bar per title and only ever widens a shared
@@ -197,7 +202,14 @@ class Scene:
             )
         # With a legend at the right edge the model moves left (the view's centre moves right), so they do not meet.
         self.plotter.camera.SetWindowCenter(SHIFT if self.legend is not None else 0.0, 0.0)
+        fitted = self._fitted
+        if fitted is not None and fitted[1] != (self.legend is not None) and fitted[0] == self._camera_key():
+            self.fit()  # a legend came or went since the fit and the view was not moved: fit for the new room
         self._render()
+
+    def _camera_key(self) -> tuple:
+        cam = self.plotter.camera
+        return (tuple(cam.position), tuple(cam.focal_point), tuple(cam.up), cam.parallel_scale)
 
     def _show_values(self, mesh: pv.PolyData, common: dict) -> None:
         """The colour map of the current measure, lit by :data:`colours.MAP_LIGHT`, with its legend."""
