@@ -394,22 +394,34 @@ def test_typed_colour_range_narrows_map_and_legend(qtbot, window):
     np.testing.assert_allclose(legend, auto, rtol=1e-6)
 
 
-def test_an_opened_model_is_whole_in_the_view_beside_the_legend(qtbot, window):
-    """The isometric view of a newly opened model is fitted with the legend's room (it was cut at the left)."""
-    open_and_wait(qtbot, window, SAMPLES / "appliance_range.stp")
-    window.session.set_display(mode=Mode.CURVATURE)
-    qtbot.wait(50)
+def _model_on_screen(window) -> tuple[np.ndarray, np.ndarray, float, int]:
+    """Display x and y of the model's mesh points, the x where the legend starts and the view's height."""
     plotter = window.view
     plotter.render()
     width, height = plotter.render_window.GetSize()
     points = np.asarray(window.scene.faces.mesh.points)
-    cam = plotter.renderer.GetActiveCamera()
-    matrix = cam.GetCompositeProjectionTransformMatrix(width / height, -1, 1)
+    matrix = plotter.renderer.GetActiveCamera().GetCompositeProjectionTransformMatrix(width / height, -1, 1)
     m = np.array([[matrix.GetElement(i, j) for j in range(4)] for i in range(4)])
     clip = np.c_[points, np.ones(len(points))] @ m.T
     x = (clip[:, 0] / clip[:, 3] + 1) / 2 * width
     y = (clip[:, 1] / clip[:, 3] + 1) / 2 * height
     left_of_bar = plotter.scalar_bars[window.scene.legend].GetPositionCoordinate().GetValue()[0] * width
+    return x, y, left_of_bar, height
+
+
+def test_an_opened_model_is_whole_in_the_view_beside_the_legend(qtbot, window):
+    """Fitted after the isometric turn and again when the legend comes (it was cut at the left edge)."""
+    open_and_wait(qtbot, window, SAMPLES / "appliance_range.stp")
+    window.session.set_display(mode=Mode.CURVATURE)
+    qtbot.wait(50)
+    x, y, left_of_bar, height = _model_on_screen(window)
     shoot(window, "appliance_range-opened")
+    assert x.min() >= 0 and x.max() <= left_of_bar + 1
+    assert y.min() >= 0 and y.max() <= height
+    # a narrower window, the view not moved: still whole
+    window.resize(1000, 800)
+    qtbot.wait(200)
+    x, y, left_of_bar, height = _model_on_screen(window)
+    shoot(window, "appliance_range-narrower")
     assert x.min() >= 0 and x.max() <= left_of_bar + 1
     assert y.min() >= 0 and y.max() <= height

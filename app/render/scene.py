@@ -100,7 +100,7 @@ class Scene:
             # (the report's off-screen pictures are supersampled instead).
             plotter.enable_anti_aliasing("fxaa")
             # a narrower view (a dock widened, the window resized) moves the legend so its text still fits
-            plotter.render_window.AddObserver("WindowResizeEvent", lambda *_: self.place_legend())
+            plotter.render_window.AddObserver("WindowResizeEvent", lambda *_: self._resized())
 
     # -- whole model -----------------------------------------------------
     def rebuild(self) -> None:
@@ -127,7 +127,7 @@ class Scene:
 
     def fit(self) -> None:
         """Fit the whole model in the view, keeping the viewing direction, in the room the legend leaves."""
-        self.plotter.reset_camera()
+        self.plotter.reset_camera(render=False)
         if self.legend is None:
             self._fitted = (self._camera_key(), False)
             return
@@ -206,6 +206,13 @@ class Scene:
         if fitted is not None and fitted[1] != (self.legend is not None) and fitted[0] == self._camera_key():
             self.fit()  # a legend came or went since the fit and the view was not moved: fit for the new room
         self._render()
+
+    def _resized(self) -> None:
+        """A resized view: the legend placed for its width, and the model fitted again unless the user moved it."""
+        self.place_legend()
+        fitted = self._fitted
+        if fitted is not None and fitted[0] == self._camera_key():
+            self.fit()
 
     def _camera_key(self) -> tuple:
         cam = self.plotter.camera
