@@ -148,6 +148,22 @@ def edge_params(
     return ts, points, list(zip(traces, on_surfaces, strict=True))
 
 
+class _ByShape:
+    """Values keyed by a shape as ``IsSame`` tells shapes apart (its geometry and place, not its orientation)."""
+
+    def __init__(self):
+        self._buckets: dict[int, list] = {}  # hash of the shape -> [(shape, value)]
+
+    def get(self, shape):
+        """The value kept for ``shape``, or None."""
+        return next((value for known, value in self._buckets.get(hash(shape), ()) if known.IsSame(shape)), None)
+
+    def add(self, shape, value):
+        """Keep ``value`` for ``shape``; returns it."""
+        self._buckets.setdefault(hash(shape), []).append((shape, value))
+        return value
+
+
 class EdgeParams:
     """:func:`edge_params` once per edge of a shape, shared by every polyline drawn along it.
 
@@ -160,35 +176,25 @@ class EdgeParams:
     """
 
     def __init__(self):
-        # hash of the edge (orientation-free) -> [[edge, ts, 3-D points, [(oriented edge, face, uv, xyz)]]]
-        self._found: dict[int, list] = {}
-        # hash of the face -> [(face, its surface's values)]
-        self._surfaces: dict[int, list] = {}
-        # hash of the edge -> [(edge, parameters its sampling starts from)]
-        self._starts: dict[int, list] = {}
+        self._found = _ByShape()  # edge -> [edge, ts, 3-D points, [(oriented edge, face, uv, xyz)]]
+        self._surfaces = _ByShape()  # face -> its surface's values
+        self._starts = _ByShape()  # edge -> the parameters its sampling starts from
 
     def seed(self, edge, ts: np.ndarray) -> None:
         """Start ``edge``'s sampling from ``ts`` of shape (m,) (a sampling of the same 3-D curve), not from scratch."""
-        self._starts.setdefault(hash(edge), []).append((edge, ts))
-
-    def _start(self, edge) -> np.ndarray | None:
-        return next((ts for known, ts in self._starts.get(hash(edge), ()) if known.IsSame(edge)), None)
+        self._starts.add(edge, ts)
 
     def sampled(self, edge) -> np.ndarray | None:
         """The parameters ``edge`` was sampled at, shape (n,), or None when it has not been sampled."""
-        return next((entry[1] for entry in self._found.get(hash(edge), ()) if entry[0].IsSame(edge)), None)
+        entry = self._found.get(edge)
+        return None if entry is None else entry[1]
 
     def surface(self, face):
         """The face's surface values (:func:`.fast_values.surface_values`), built once per face."""
         from OCP.BRepAdaptor import BRepAdaptor_Surface
 
-        bucket = self._surfaces.setdefault(hash(face), [])
-        for known, values in bucket:
-            if known.IsSame(face):
-                return values
-        values = surface_values(BRepAdaptor_Surface(face))
-        bucket.append((face, values))
-        return values
+        values = self._surfaces.get(face)
+        return values if values is not None else self._surfaces.add(face, surface_values(BRepAdaptor_Surface(face)))
 
     def prime(self, edge, uses) -> None:
         """Sample ``edge`` for ``uses`` now; a failure is left to the caller that needs it."""
@@ -198,14 +204,11 @@ class EdgeParams:
             pass
 
     def _entry(self, edge, uses=()) -> list:
-        bucket = self._found.setdefault(hash(edge), [])
-        for entry in bucket:
-            if entry[0].IsSame(edge):
-                return entry
-        ts, points, traces = edge_params(edge, uses, self.surface, self._start(edge))
-        known = [] if traces is None else [[e, f, uv, xyz] for (e, f), (uv, xyz) in zip(uses, traces, strict=True)]
-        entry = [edge, ts, points, known]
-        bucket.append(entry)
+        entry = self._found.get(edge)
+        if entry is None:
+            ts, points, traces = edge_params(edge, uses, self.surface, self._starts.get(edge))
+            known = [] if traces is None else [[e, f, uv, xyz] for (e, f), (uv, xyz) in zip(uses, traces, strict=True)]
+            entry = self._found.add(edge, [edge, ts, points, known])
         return entry
 
     def __call__(self, edge, uses=()) -> np.ndarray:
