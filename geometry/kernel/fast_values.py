@@ -121,7 +121,7 @@ def _bspline_surface(arrays, periods) -> Evaluator:
     """A NURBS surface, The NURBS Book A4.3 (rational: homogeneous coordinates), vectorised."""
     p, q, ku, kv, poles, weights = arrays
     du, dv = np.arange(p + 1), np.arange(q + 1)
-    base = poles[0, 0].copy()  # summed about the first pole, as the curves are
+    base = poles[0, 0].copy()  # summed about the first pole: a coordinate every pole shares comes out exact
     poles = poles - base
 
     def values(uv: np.ndarray) -> np.ndarray:
