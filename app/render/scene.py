@@ -202,17 +202,22 @@ class Scene:
             )
         # With a legend at the right edge the model moves left (the view's centre moves right), so they do not meet.
         self.plotter.camera.SetWindowCenter(SHIFT if self.legend is not None else 0.0, 0.0)
-        fitted = self._fitted
-        if fitted is not None and fitted[1] != (self.legend is not None) and fitted[0] == self._camera_key():
+        room = self._fit_kept()
+        if room is not None and room != (self.legend is not None):
             self.fit()  # a legend came or went since the fit and the view was not moved: fit for the new room
         self._render()
 
     def _resized(self) -> None:
         """A resized view: the legend placed for its width, and the model fitted again unless the user moved it."""
         self.place_legend()
-        fitted = self._fitted
-        if fitted is not None and fitted[0] == self._camera_key():
+        if self._fit_kept() is not None:
             self.fit()
+
+    def _fit_kept(self) -> bool | None:
+        """Whether the last fit left a legend room, while the camera is still where it put it; None after a move."""
+        if self._fitted is None or self._fitted[0] != self._camera_key():
+            return None
+        return self._fitted[1]
 
     def _camera_key(self) -> tuple:
         cam = self.plotter.camera
