@@ -25,7 +25,7 @@ from app.state import Mode, Session
 from app.state.recent import RecentFiles, default_store
 from geometry.io.files import write_atomically
 
-from . import file_dialogs, menus, review_actions
+from . import collector, file_dialogs, menus, review_actions
 from .controls import DisplayPanel
 from .export_task import start_report
 from .findings import FROM_FILE, FindingsPanel
@@ -78,6 +78,8 @@ class MainWindow(QMainWindow):
         self, session: Session | None = None, multi_samples: int | None = None, memory: WindowMemory | None = None
     ):
         super().__init__()
+        collector.hold()  # worker threads must never destroy Qt or VTK objects (app/qt/collector.py)
+        self._holds_collector = True
         self.session = session or Session(RecentFiles(default_store()))
         self.memory = memory or WindowMemory()
         self.setWindowTitle("Batten")
@@ -602,6 +604,9 @@ class MainWindow(QMainWindow):
         self.wait_for_job()
         self.view.close()
         super().closeEvent(event)
+        if self._holds_collector:
+            self._holds_collector = False
+            collector.release()
 
 
 def camera_state(window: MainWindow) -> np.ndarray:
